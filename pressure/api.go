@@ -1,0 +1,68 @@
+package pressure
+
+import (
+	"floodtrace/pressure/sparse"
+	"floodtrace/reservoir"
+)
+
+// Settings controls a pressure solve. The zero value is a sensible default:
+// relative residual 1e-10, incomplete Cholesky preconditioning.
+type Settings struct {
+	Tol float64 // relative residual of the linear solve; 0 = 1e-10
+	// Preconditioner builds the preconditioner; nil = incomplete Cholesky.
+	Preconditioner sparse.PreconditionerFunc
+}
+
+// Input is one pressure problem.
+type Input struct {
+	Model *reservoir.Model
+	// Mobility is the total mobility per cell, krw/muw + kro/muo, in 1/cp
+	// (1/cP). nil means a single phase of water viscosity... see Solve.
+	Mobility []float64
+	// Wells overrides Model.Wells (schedule changes); nil = Model.Wells.
+	// Shut wells and wells not yet open are left out by the caller setting
+	// Shut.
+	Wells []reservoir.Well
+}
+
+// WellResult is the solved state of one well.
+type WellResult struct {
+	Name string
+	Type reservoir.WellType
+	Cell int
+	// Q is the volumetric rate into the reservoir (positive for injection,
+	// negative for production), reservoir volume per day.
+	Q       float64
+	BHP     float64
+	Control reservoir.Control // the control in force after limits
+	// LimitReached is true when a rate-controlled well hit its MaxBHP or
+	// MinBHP and was switched to BHP control.
+	LimitReached bool
+	Shut         bool
+	WI           float64 // Peaceman well index times mobility (connection factor)
+}
+
+// Solution is the solved pressure field.
+type Solution struct {
+	Grid reservoir.Grid
+	// P is the cell pressure; NaN for inactive cells and cells that are not
+	// connected to any open well.
+	P []float64
+	// FluxX[Grid.XFace(i,j)] is the volumetric flux through the west face
+	// of cell (i,j), positive eastward; FluxY[Grid.YFace(i,j)] through the
+	// south face, positive northward. Reservoir volume per day. Boundary
+	// faces carry zero.
+	FluxX, FluxY []float64
+	// Source is the well rate per cell (positive injection).
+	Source []float64
+	Wells  []WellResult
+	// Unconnected lists active cells in regions without an open well; they
+	// carry no flow.
+	Unconnected []int
+	Iterations  int
+	RelResidual float64
+	// MassBalance is |sum of well rates| / total injection.
+	MassBalance float64
+	// Warnings are messages for the user (limits reached, isolated regions).
+	Warnings []string
+}
