@@ -17,7 +17,8 @@ type Settings struct {
 type Input struct {
 	Model *reservoir.Model
 	// Mobility is the total mobility per cell, krw/muw + kro/muo, in 1/cp
-	// (1/cP). nil means a single phase of water viscosity... see Solve.
+	// (1/cP). nil means the uniform mobility of the initial state,
+	// krw(Swi)/muw + kro(Swi)/muo from the model (see InitialMobility).
 	Mobility []float64
 	// Wells overrides Model.Wells (schedule changes); nil = Model.Wells.
 	// Shut wells and wells not yet open are left out by the caller setting
@@ -32,7 +33,9 @@ type WellResult struct {
 	Cell int
 	// Q is the volumetric rate into the reservoir (positive for injection,
 	// negative for production), reservoir volume per day.
-	Q       float64
+	Q float64
+	// BHP is the bottom-hole pressure; for a shut well, the pressure of
+	// its cell.
 	BHP     float64
 	Control reservoir.Control // the control in force after limits
 	// LimitReached is true when a rate-controlled well hit its MaxBHP or
@@ -59,9 +62,16 @@ type Solution struct {
 	// Unconnected lists active cells in regions without an open well; they
 	// carry no flow.
 	Unconnected []int
+	// Gauge lists the cells held at pressure 0 in regions whose wells are
+	// all rate-controlled (pressures there are relative); see Solve.
+	Gauge []int
+	// Iterations is the total number of conjugate-gradient iterations over
+	// all rounds of BHP-limit switching; RelResidual is the final relative
+	// residual ||b-Ax||/||b|| of the last linear solve.
 	Iterations  int
 	RelResidual float64
-	// MassBalance is |sum of well rates| / total injection.
+	// MassBalance is |sum of well rates| / total injection (total
+	// production when nothing is injected).
 	MassBalance float64
 	// Warnings are messages for the user (limits reached, isolated regions).
 	Warnings []string
