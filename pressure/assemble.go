@@ -156,6 +156,8 @@ func (pb *problem) regions() {
 		pb.comp[k] = -1
 	}
 	queue := make([]int, 0, 64)
+	var nt [4]float64
+	var nl [4]int
 	for s := 0; s < n; s++ {
 		if !pb.m.Active[s] || pb.comp[s] >= 0 {
 			continue
@@ -168,24 +170,12 @@ func (pb *problem) regions() {
 		for len(queue) > 0 {
 			k := queue[len(queue)-1]
 			queue = queue[:len(queue)-1]
-			i, j := g.IJ(k)
-			visit := func(t float64, l int) {
-				if t > 0 && pb.comp[l] < 0 {
+			nc := pb.neighbours(k, &nt, &nl)
+			for q := 0; q < nc; q++ {
+				if l := nl[q]; pb.comp[l] < 0 {
 					pb.comp[l] = c
 					queue = append(queue, l)
 				}
-			}
-			if i > 0 {
-				visit(pb.tx[g.XFace(i, j)], k-1)
-			}
-			if i+1 < g.NX {
-				visit(pb.tx[g.XFace(i+1, j)], k+1)
-			}
-			if j > 0 {
-				visit(pb.ty[g.YFace(i, j)], k-g.NX)
-			}
-			if j+1 < g.NY {
-				visit(pb.ty[g.YFace(i, j+1)], k+g.NX)
 			}
 		}
 	}
@@ -268,14 +258,17 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 		}
 	}
 	a := &sparse.CSR{N: nu, RowPtr: make([]int, nu+1)}
+	var nt [4]float64
+	var nl [4]int
 	nnz := 0
 	for u, k := range sys.Unknown {
 		nnz++
-		pb.neighbours(k, func(t float64, l int) {
-			if sys.Index[l] >= 0 {
+		c := pb.neighbours(k, &nt, &nl)
+		for q := 0; q < c; q++ {
+			if sys.Index[nl[q]] >= 0 {
 				nnz++
 			}
-		})
+		}
 		a.RowPtr[u+1] = nnz
 	}
 	a.Col = make([]int, nnz)
@@ -284,22 +277,25 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 	for u, k := range sys.Unknown {
 		p := a.RowPtr[u]
 		d := 0.0
-		diagPos[u] = -1
-		pb.neighbours(k, func(t float64, l int) {
+		dp := -1
+		c := pb.neighbours(k, &nt, &nl)
+		for q := 0; q < c; q++ {
+			t, l := nt[q], nl[q]
 			d += t
-			if l > k && diagPos[u] < 0 {
-				diagPos[u] = p
+			if l > k && dp < 0 {
+				dp = p
 				p++
 			}
 			if v := sys.Index[l]; v >= 0 {
 				a.Col[p], a.Val[p] = v, -t
 				p++
 			}
-		})
-		if diagPos[u] < 0 {
-			diagPos[u] = p
 		}
-		a.Col[diagPos[u]], a.Val[diagPos[u]] = u, d
+		if dp < 0 {
+			dp = p
+		}
+		a.Col[dp], a.Val[dp] = u, d
+		diagPos[u] = dp
 	}
 	sys.B = make([]float64, nu)
 	for w := range pb.wells {
@@ -319,29 +315,36 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 	return sys, gauged, nil
 }
 
-// neighbours calls f for each neighbour l of cell k joined by a face of
-// positive transmissibility t.
-func (pb *problem) neighbours(k int, f func(t float64, l int)) {
+// neighbours stores in t and l the transmissibilities and cells of the
+// neighbours of cell k joined by a face of positive transmissibility, in
+// increasing cell order (south, west, east, north), and returns how many.
+func (pb *problem) neighbours(k int, t *[4]float64, l *[4]int) int {
 	g := pb.g
-	i, j := g.IJ(k)
+	i, j := k%g.NX, k/g.NX
+	c := 0
 	if j > 0 {
-		if t := pb.ty[g.YFace(i, j)]; t > 0 {
-			f(t, k-g.NX)
+		if v := pb.ty[k]; v > 0 { // YFace(i, j) = k
+			t[c], l[c] = v, k-g.NX
+			c++
 		}
 	}
 	if i > 0 {
-		if t := pb.tx[g.XFace(i, j)]; t > 0 {
-			f(t, k-1)
+		if v := pb.tx[k+j]; v > 0 { // XFace(i, j) = k + j
+			t[c], l[c] = v, k-1
+			c++
 		}
 	}
 	if i+1 < g.NX {
-		if t := pb.tx[g.XFace(i+1, j)]; t > 0 {
-			f(t, k+1)
+		if v := pb.tx[k+j+1]; v > 0 {
+			t[c], l[c] = v, k+1
+			c++
 		}
 	}
 	if j+1 < g.NY {
-		if t := pb.ty[g.YFace(i, j+1)]; t > 0 {
-			f(t, k+g.NX)
+		if v := pb.ty[k+g.NX]; v > 0 {
+			t[c], l[c] = v, k+g.NX
+			c++
 		}
 	}
+	return c
 }
