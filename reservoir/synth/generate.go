@@ -82,8 +82,8 @@ func NewGenerator(s Settings) (*Generator, error) {
 	}
 	mx := nextFast(s.NX + pad(s.NX, an.extX, s.DX))
 	my := nextFast(s.NY + pad(s.NY, an.extY, s.DY))
-	if mx*my > maxEmbeddingCells {
-		return nil, fmt.Errorf("synth: periodic embedding of %dx%d cells exceeds the budget of %d cells; use a coarser grid or a shorter range", mx, my, maxEmbeddingCells)
+	if mx*my > embeddingBudget {
+		return nil, fmt.Errorf("synth: periodic embedding of %dx%d cells exceeds the budget of %d cells; use a coarser grid or a shorter range", mx, my, embeddingBudget)
 	}
 	var lam []float64
 	var neg float64
@@ -103,7 +103,7 @@ func NewGenerator(s Settings) (*Generator, error) {
 		if ry <= 1.2*rx {
 			ny = nextFast(2 * my)
 		}
-		if nx*ny > maxEmbeddingCells {
+		if nx*ny > embeddingBudget {
 			break
 		}
 		mx, my = nx, ny

@@ -86,8 +86,12 @@ func bad(field string, v float64, reason string) error {
 // embedding (each embedding cell costs two complex128 values).
 const (
 	maxGridCells      = 1 << 24
-	maxEmbeddingCells = 1 << 23
+	maxEmbeddingCells = 1 << 23 // default of embeddingBudget
 )
+
+// embeddingBudget is the largest embedding NewGenerator builds; a variable
+// only so that tests can exercise the budget without huge transforms.
+var embeddingBudget = maxEmbeddingCells
 
 // finite reports whether v is neither NaN nor infinite.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
