@@ -1,0 +1,177 @@
+package streamline
+
+import (
+	"fmt"
+	"math"
+	"slices"
+)
+
+// anchor is a line's crossing of a well-cell face.
+type anchor struct {
+	key  int // cell*4 + face
+	s    float64
+	line int
+}
+
+// tubeShares sets, for each group of anchors on one face, the share of the
+// face each line stands for: the part of the face nearer to its crossing
+// than to any other (the flux through a face is uniform along it in
+// Pollock's field, so this is a split of the face flux into stream tubes).
+// It calls set(line, key, share) in a fixed order.
+func tubeShares(a []anchor, set func(line, key int, share float64)) {
+	slices.SortFunc(a, func(x, y anchor) int {
+		switch {
+		case x.key != y.key:
+			return x.key - y.key
+		case x.s < y.s:
+			return -1
+		case x.s > y.s:
+			return 1
+		}
+		return x.line - y.line
+	})
+	for i := 0; i < len(a); {
+		j := i
+		for j < len(a) && a[j].key == a[i].key {
+			j++
+		}
+		for m := i; m < j; m++ {
+			lo, hi := 0.0, 1.0
+			if m > i {
+				lo = 0.5 * (a[m-1].s + a[m].s)
+			}
+			if m < j-1 {
+				hi = 0.5 * (a[m].s + a[m+1].s)
+			}
+			set(a[m].line, a[i].key, hi-lo)
+		}
+		i = j
+	}
+}
+
+// assignFluxes gives every line the flux of its stream tube (see Trace) and
+// returns warnings.
+func (b *builder) assignFluxes() []string {
+	t := b.t
+	lines, meta := b.lines, b.meta
+	var warn []string
+
+	// Flux a well face launches: the face flux, less the part that passes
+	// through a well cell that also receives flow.
+	faceFlux := func(key int, sign float64) float64 {
+		k, face := key/4, key%4
+		q := sign * t.outward(k, face)
+		if !(q > 0) {
+			return 0
+		}
+		w := t.wellAt[k]
+		if w < 0 {
+			return 0
+		}
+		return q * math.Min(1, math.Abs(t.q[w])/t.effOut(k, sign))
+	}
+
+	// Injector side: tube shares on the injector faces.
+	var anchors []anchor
+	for i := range lines {
+		if meta[i].injKey >= 0 {
+			anchors = append(anchors, anchor{meta[i].injKey, meta[i].injS, i})
+		}
+	}
+	injGroup := make([]int, len(lines)) // index into injTarget, -1 if none
+	for i := range injGroup {
+		injGroup[i] = -1
+	}
+	var injTarget []float64
+	lastKey := -1
+	tubeShares(anchors, func(line, key int, share float64) {
+		if key != lastKey {
+			injTarget = append(injTarget, faceFlux(key, 1))
+			lastKey = key
+		}
+		g := len(injTarget) - 1
+		injGroup[line] = g
+		lines[line].Flux = injTarget[g] * share
+	})
+
+	// Lines that reach a producer but no injector take their share of the
+	// producer face instead.
+	anchors = anchors[:0]
+	for i := range lines {
+		if meta[i].prodKey >= 0 {
+			anchors = append(anchors, anchor{meta[i].prodKey, meta[i].prodS, i})
+		}
+	}
+	tubeShares(anchors, func(line, key int, share float64) {
+		if injGroup[line] < 0 {
+			lines[line].Flux = faceFlux(key, -1) * share
+		}
+	})
+
+	// A line from an injector that never reaches a producer (it stops at a
+	// stagnation point, say) stands for flux that the field delivers to
+	// some producer all the same: it gets no flux, and the other lines of
+	// its face take over its share through the face totals below.
+	for i := range lines {
+		if lines[i].Producer < 0 {
+			lines[i].Flux = 0
+		}
+	}
+
+	// Iterative proportional fitting (Deming and Stephan 1940): alternately
+	// scale the lines of each producer to its rate and the lines of each
+	// injector face to its launch flux, ending on the producers.
+	np := len(t.q)
+	sumP := make([]float64, np)
+	sumI := make([]float64, len(injTarget))
+	scaleProducers := func() {
+		clear(sumP)
+		for i := range lines {
+			if p := lines[i].Producer; p >= 0 {
+				sumP[p] += lines[i].Flux
+			}
+		}
+		for i := range lines {
+			if p := lines[i].Producer; p >= 0 && sumP[p] > 0 {
+				lines[i].Flux *= -t.q[p] / sumP[p]
+			}
+		}
+	}
+	for it := 0; ; it++ {
+		scaleProducers()
+		clear(sumI)
+		for i := range lines {
+			if g := injGroup[i]; g >= 0 {
+				sumI[g] += lines[i].Flux
+			}
+		}
+		dev := 0.0
+		for g, v := range sumI {
+			if injTarget[g] > 0 && v > 0 {
+				dev = math.Max(dev, math.Abs(v/injTarget[g]-1))
+			}
+		}
+		// The wells' own balance limits how far the two sets of totals can
+		// agree; 1e-10 is well below what matters.
+		if dev < 1e-10 {
+			break
+		}
+		if it == 100 {
+			if dev > 1e-6 {
+				warn = append(warn, fmt.Sprintf("streamline fluxes: injector face totals balanced only to %.2g", dev))
+			}
+			break
+		}
+		for i := range lines {
+			if g := injGroup[i]; g >= 0 && sumI[g] > 0 {
+				lines[i].Flux *= injTarget[g] / sumI[g]
+			}
+		}
+	}
+	for p, v := range sumP {
+		if t.q[p] < 0 && !(v > 0) {
+			warn = append(warn, fmt.Sprintf("no streamline with flux reaches producer %q", b.f.Wells[p].Name))
+		}
+	}
+	return warn
+}

@@ -1,0 +1,276 @@
+package streamline
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+)
+
+// Launch tells how a streamline was started.
+type Launch uint8
+
+// The ways a streamline is started.
+const (
+	// FromInjector: on an outflow face of an injector cell, traced forward.
+	FromInjector Launch = iota
+	// FromProducer: on an inflow face of a producer cell that no line from
+	// an injector reached, traced backward.
+	FromProducer
+	// FromCell: at the centre of a flowing cell that no other line
+	// crossed, traced both ways and joined.
+	FromCell
+)
+
+func (l Launch) String() string {
+	switch l {
+	case FromInjector:
+		return "injector"
+	case FromProducer:
+		return "producer"
+	case FromCell:
+		return "cell"
+	}
+	return fmt.Sprintf("Launch(%d)", uint8(l))
+}
+
+// Line is one streamline, from its upstream end to its downstream end.
+type Line struct {
+	// Injector and Producer index Field.Wells; -1 when the line does not
+	// start (end) at a well.
+	Injector, Producer int
+	// Flux is the volumetric flux the line carries, reservoir volume per
+	// day: the flux of the stream tube it stands for.
+	Flux float64
+	// Cells lists the cells crossed, upstream first, and Tau the time of
+	// flight spent in each, days. Well cells are charged their mean
+	// residence time, pore volume over throughput.
+	Cells []int32
+	Tau   []float64
+	// TotalTau is the sum of Tau: injector-to-producer time of flight when
+	// both ends are wells.
+	TotalTau float64
+	// Path is the polyline in map coordinates (only with KeepPaths).
+	Path [][2]float64
+	// Start and End tell why the line ends where it does upstream and
+	// downstream.
+	Start, End EndReason
+	Launch     Launch
+}
+
+// Pair is the allocation between one injector and one producer.
+type Pair struct {
+	Injector, Producer int // indices into Field.Wells
+	// Rate is the flux from the injector to the producer (sum of the line
+	// fluxes), reservoir volume per day.
+	Rate float64
+	// FractionOfInjector and FractionOfProducer are Rate over the rates of
+	// the two wells.
+	FractionOfInjector, FractionOfProducer float64
+	// PoreVolume is the pore volume of the region the pair sweeps: the sum
+	// of flux*TotalTau over its lines.
+	PoreVolume float64
+}
+
+// Result is the outcome of Trace.
+type Result struct {
+	Lines []Line
+	// TOF is the time of flight from the injectors to each cell and BackTOF
+	// the time from each cell to the producers, days: flux*tau weighted
+	// averages over the lines crossing the cell of the time at the middle
+	// of the crossing. Travel is the weighted average of the lines' total
+	// injector-to-producer time. NaN where no line with flux reaches.
+	TOF, BackTOF, Travel []float64
+	// Volume is the traced pore volume of each cell, the sum over lines of
+	// flux*tau in the cell; it approaches the cell pore volume as the lines
+	// get denser.
+	Volume []float64
+	// InjectorPartition and ProducerPartition give for each cell the well
+	// (index into Field.Wells) whose lines carry the largest share of the
+	// cell's traced volume, or -1.
+	InjectorPartition, ProducerPartition []int
+	// Stagnant marks active cells that no line with flux crosses or whose
+	// throughput would take more than 1e7 times the field's pore-volume
+	// turnover time to renew their pore volume.
+	Stagnant []bool
+	// Pairs lists the injector-producer pairs that exchange flux, by
+	// injector then producer.
+	Pairs    []Pair
+	Warnings []string
+}
+
+// Breakthrough returns the smallest time of flight, days, of the lines
+// with flux that end at well w (the tracer breakthrough of a producer), or
+// NaN when none does.
+func (r *Result) Breakthrough(w int) float64 {
+	best := math.NaN()
+	for i := range r.Lines {
+		l := &r.Lines[i]
+		if l.Producer == w && l.Injector >= 0 && l.Flux > 0 && !(l.TotalTau >= best) {
+			best = l.TotalTau
+		}
+	}
+	return best
+}
+
+// lineMeta is where a line meets its wells: anchor keys cell*4+face of the
+// well cell face it crosses and the position along that face.
+type lineMeta struct {
+	injKey, prodKey int
+	injS, prodS     float64
+}
+
+type seed struct {
+	launch Launch
+	cell   int
+	face   int
+	s      float64
+}
+
+// builder collects the lines of one Trace.
+type builder struct {
+	t       *tracer
+	f       *Field
+	workers int
+	lines   []Line
+	meta    []lineMeta
+	scratch [][2]half
+}
+
+// Trace traces streamlines through the field with Pollock's (1988)
+// semi-analytical method and returns them with cell maps of time of flight,
+// well partitions and well-pair allocation.
+//
+// Lines are launched from the outflow faces of every injector cell, evenly
+// spaced along each face, in numbers proportional to the face fluxes; then
+// backward from producers no line reached; then from the centre of every
+// flowing cell that no line crossed, both ways. The flux of each line is
+// the flux of the stream tube it stands for: the face flux of its
+// injector-cell face times the share of the face nearer to it than to the
+// other lines crossing that face (a tube from a cell-centre line takes its
+// share from its neighbours, so the face totals do not change). The fluxes
+// are then balanced by iterative proportional fitting (Deming and Stephan
+// 1940) so that the lines of every injector face carry the face flux and
+// the lines of every producer carry its rate. The sum of flux*tau over all
+// lines then approaches the pore volume of the flowing region.
+func Trace(f *Field, s Settings) (*Result, error) {
+	if f == nil {
+		return nil, errors.New("streamline: nil field")
+	}
+	if err := f.check(); err != nil {
+		return nil, err
+	}
+	if s.Count < 0 || s.MaxSteps < 0 || s.Workers < 0 {
+		return nil, fmt.Errorf("streamline: negative settings (count %d, max steps %d, workers %d)", s.Count, s.MaxSteps, s.Workers)
+	}
+	if s.Count == 0 {
+		s.Count = 2000
+	}
+	if s.MaxSteps == 0 {
+		s.MaxSteps = 20 * (f.Grid.NX + f.Grid.NY)
+	}
+	if s.Workers == 0 {
+		s.Workers = runtime.GOMAXPROCS(0)
+	}
+	t := newTracer(f, s)
+	b := &builder{t: t, f: f, workers: s.Workers, scratch: make([][2]half, s.Workers)}
+	var warn []string
+
+	b.trace(injectorSeeds(t, f, s.Count))
+	b.trace(producerSeeds(t, f, s.Count, b.lines))
+	lowFlow := t.lowFlow(f)
+	b.fill(lowFlow)
+	warn = append(warn, b.assignFluxes()...)
+	r := b.maps(lowFlow)
+	r.Pairs = pairs(f, r.Lines)
+	r.Warnings = append(warn, b.endWarnings(s.MaxSteps)...)
+	r.Warnings = append(r.Warnings, t.balanceWarnings(f)...)
+	return r, nil
+}
+
+// trace traces the seeds in parallel and appends their lines.
+func (b *builder) trace(seeds []seed) {
+	if len(seeds) == 0 {
+		return
+	}
+	base := len(b.lines)
+	b.lines = append(b.lines, make([]Line, len(seeds))...)
+	b.meta = append(b.meta, make([]lineMeta, len(seeds))...)
+	parallel(len(seeds), b.workers, func(w, i int) {
+		sc := &b.scratch[w]
+		b.lines[base+i], b.meta[base+i] = b.t.line(seeds[i], &sc[0], &sc[1])
+	})
+}
+
+// line traces one seed: its upstream half against the flux and its
+// downstream half with it, joined.
+func (t *tracer) line(sd seed, up, down *half) (Line, lineMeta) {
+	up.reset()
+	down.reset()
+	l := Line{Injector: -1, Producer: -1, Launch: sd.launch}
+	m := lineMeta{injKey: -1, prodKey: -1}
+	switch sd.launch {
+	case FromInjector:
+		t.launch(down, sd.cell, sd.face, sd.s, 1)
+		up.end, up.well, up.face, up.s = AtWell, int(t.wellAt[sd.cell]), sd.face, sd.s
+	case FromProducer:
+		t.launch(up, sd.cell, sd.face, sd.s, -1)
+		down.end, down.well, down.face, down.s = AtWell, int(t.wellAt[sd.cell]), sd.face, sd.s
+	default:
+		t.point(up, sd.cell, 0.5, 0.5)
+		t.run(up, sd.cell, 0.5, 0.5, -1, -1, 0)
+		t.run(down, sd.cell, 0.5, 0.5, 1, -1, 0)
+	}
+	l.Start, l.End = up.end, down.end
+	if up.end == AtWell && up.well >= 0 {
+		l.Injector = up.well
+		if up.face >= 0 {
+			m.injKey, m.injS = int(t.wellCell(up.well))*4+up.face, up.s
+		}
+	}
+	if down.end == AtWell && down.well >= 0 {
+		l.Producer = down.well
+		if down.face >= 0 {
+			m.prodKey, m.prodS = int(t.wellCell(down.well))*4+down.face, down.s
+		}
+	}
+
+	// Join: the upstream half reversed, then the downstream half; a
+	// cell-centre line has its start cell at the head of both halves.
+	nu, nd := len(up.cells), len(down.cells)
+	merge := sd.launch == FromCell && nu > 0 && nd > 0 && up.cells[0] == down.cells[0]
+	n := nu + nd
+	if merge {
+		n--
+	}
+	l.Cells = make([]int32, n)
+	l.Tau = make([]float64, n)
+	for i := 0; i < nu; i++ {
+		l.Cells[i] = up.cells[nu-1-i]
+		l.Tau[i] = up.tau[nu-1-i]
+	}
+	off := nu
+	if merge {
+		l.Tau[nu-1] += down.tau[0]
+		off--
+		copy(l.Cells[nu:], down.cells[1:])
+		copy(l.Tau[nu:], down.tau[1:])
+	} else {
+		copy(l.Cells[off:], down.cells)
+		copy(l.Tau[off:], down.tau)
+	}
+	for _, v := range l.Tau {
+		l.TotalTau += v
+	}
+	if t.paths {
+		l.Path = make([][2]float64, 0, len(up.path)+len(down.path))
+		for i := len(up.path) - 1; i >= 0; i-- {
+			l.Path = append(l.Path, up.path[i])
+		}
+		l.Path = append(l.Path, down.path...)
+	}
+	return l, m
+}
+
+// wellCell returns the cell of well w.
+func (t *tracer) wellCell(w int) int32 { return t.cellOf[w] }
