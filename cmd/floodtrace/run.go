@@ -1,0 +1,161 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"strings"
+	"time"
+
+	"github.com/spf13/pflag"
+
+	"floodtrace/flood"
+	"floodtrace/internal/outdir"
+	"floodtrace/render"
+	"floodtrace/reservoir"
+)
+
+var runFlags struct {
+	out         string
+	force       bool
+	streamlines int
+	workers     int
+	size        string
+	format      string
+	noPictures  bool
+	quiet       bool
+}
+
+func init() {
+	register(&command{
+		Name:  "run",
+		Usage: "run CASE --out DIR [options]",
+		Short: "run a waterflood case and write curves, maps and a report",
+		Long: `Run solves the pressure field of the case, traces streamlines between injectors
+and producers, carries the Buckley-Leverett solution along them and writes,
+into the output folder: per-producer water-cut and rate curves, breakthrough
+times, well-pair allocation, flow diagnostics, saturation maps, pictures and
+a one-file report (see docs/OUTPUTS.md).
+
+The output folder is created if needed. A folder that holds files floodtrace
+did not write is refused unless --force is given. summary.json is written
+last: a folder without it holds an unfinished run.
+
+Examples:
+  floodtrace run examples/vardel/case.yaml --out out/vardel
+  floodtrace run case.yaml --out runs/base --streamlines 4000 --size 1280x720
+  floodtrace run case.yaml --out runs/quick --no-pictures`,
+		NArgs: exactly(1),
+		Flags: func(fs *pflag.FlagSet) {
+			fs.StringVarP(&runFlags.out, "out", "o", "", "output folder (required)")
+			fs.BoolVar(&runFlags.force, "force", false, "write into a folder that holds other files (they are left alone)")
+			fs.IntVar(&runFlags.streamlines, "streamlines", 0, "number of streamlines (default: the case's run.streamlines)")
+			fs.IntVar(&runFlags.workers, "workers", 0, "goroutines for tracing (default: all cores; results do not depend on it)")
+			fs.StringVar(&runFlags.size, "size", "1920x1080", "picture size WxH")
+			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
+			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "write data files only")
+			fs.BoolVarP(&runFlags.quiet, "quiet", "q", false, "print nothing but errors")
+		},
+		Run: runRun,
+	})
+}
+
+func runRun(args []string) error {
+	if runFlags.out == "" {
+		return usageError{"--out DIR is required"}
+	}
+	w, h, err := parseSize(runFlags.size)
+	if err != nil {
+		return usageError{err.Error()}
+	}
+	if runFlags.format != "png" && runFlags.format != "svg" {
+		return usageError{fmt.Sprintf("--format must be png or svg, not %q", runFlags.format)}
+	}
+	start := time.Now()
+	logf := func(format string, a ...any) {
+		if !runFlags.quiet {
+			fmt.Fprintf(stderr, "%6.2fs  %s\n", time.Since(start).Seconds(), fmt.Sprintf(format, a...))
+		}
+	}
+	m, err := reservoir.Load(args[0])
+	if err != nil {
+		return err
+	}
+	logf("case %s: %d x %d cells, %d wells", args[0], m.Grid.NX, m.Grid.NY, len(m.Wells))
+	d, err := outdir.Open(runFlags.out, runFlags.force)
+	if err != nil {
+		return err
+	}
+	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf})
+	if err != nil {
+		return err
+	}
+	logf("writing %s", runFlags.out)
+	if err := res.WriteData(d); err != nil {
+		return err
+	}
+	// The pictures and the report read summary.json; write a provisional
+	// copy first and the final one last.
+	if err := res.WriteSummary(d); err != nil {
+		return err
+	}
+	if !runFlags.noPictures {
+		logf("drawing maps, charts and the report")
+		files, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format})
+		if err != nil {
+			return fmt.Errorf("drawing pictures: %w", err)
+		}
+		d.Adopt(files...)
+	}
+	if err := res.WriteSummary(d); err != nil {
+		return err
+	}
+	if err := d.Close(); err != nil {
+		return err
+	}
+	if !runFlags.quiet {
+		printRunSummary(res)
+		logf("done")
+	}
+	return nil
+}
+
+func parseSize(s string) (int, int, error) {
+	var w, h int
+	if _, err := fmt.Sscanf(strings.ToLower(s), "%dx%d", &w, &h); err != nil || w < 200 || h < 150 || w > 10000 || h > 10000 {
+		return 0, 0, fmt.Errorf("--size must be WxH with 200 <= W, H <= 10000 (got %q)", s)
+	}
+	return w, h, nil
+}
+
+func printRunSummary(r *flood.Result) {
+	_, _, _, rate, pres, vol := r.Model.Units.Labels()
+	last := len(r.Times) - 1
+	fmt.Fprintf(stdout, "\n%s: %g days, %.3f pore volumes injected\n", r.Model.Title, r.Times[last], r.PVI[last])
+	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s\n", "producer", "tracer BT", "water BT", "final WC", "cum oil", "cum water")
+	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s\n", "", "days", "days", "", vol, vol)
+	for _, p := range r.Producers {
+		fmt.Fprintf(stdout, "%-10s %12s %12s %10.3f %14.4g %14.4g\n", p.Name, days(p.TracerBreakthrough), days(p.Breakthrough),
+			p.WaterCut[last], p.CumOil[last], p.CumWater[last])
+	}
+	fmt.Fprintf(stdout, "field recovery %.1f%% of OOIP, water cut %.3f, Lorenz coefficient %.3f, mass balance error %.1e\n",
+		100*r.RecoveryFactor[last], r.FieldWaterCut[last], r.Lorenz, r.MassBalanceError)
+	for _, in := range r.Injectors {
+		if in.MaxBHPReached {
+			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and runs at that pressure at %.4g %s; check the limit against local regulations\n", in.Name, in.Rate, rate)
+		}
+	}
+	_ = pres
+	for _, w := range r.Warnings {
+		fmt.Fprintf(stderr, "warning: %s\n", w)
+	}
+}
+
+func days(v float64) string {
+	if math.IsNaN(v) {
+		return "none"
+	}
+	return fmt.Sprintf("%.0f", v)
+}
+
+var _ = os.Stdout

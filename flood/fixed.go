@@ -1,0 +1,291 @@
+package flood
+
+import (
+	"fmt"
+	"math"
+
+	"floodtrace/pressure"
+	"floodtrace/reservoir"
+	"floodtrace/streamline"
+	"floodtrace/transport"
+)
+
+// lineSet is the streamline-to-cell bookkeeping in flat arrays. Time of
+// flight is rescaled cell by cell so that the streamlines crossing a cell
+// hold exactly its pore volume (sum of flux*tau = pore volume); volumes
+// mapped between streamlines and cells are then conserved to round-off.
+type lineSet struct {
+	start     []int     // segment offsets, one per line plus one
+	cell      []int32   // cell of each segment
+	a, b      []float64 // rescaled time of flight at entry and exit of each segment (days)
+	q         []float64 // flux of each line
+	total     []float64 // rescaled total time of flight of each line
+	inj, prod []int     // well index or -1
+	uncovered int       // flowing cells crossed by no streamline
+	pv        []float64
+}
+
+func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSet {
+	n := len(tr.Lines)
+	ls := &lineSet{start: make([]int, n+1), q: make([]float64, n), total: make([]float64, n),
+		inj: make([]int, n), prod: make([]int, n), pv: pv}
+	nseg := 0
+	for i := range tr.Lines {
+		nseg += len(tr.Lines[i].Cells)
+	}
+	ls.cell = make([]int32, 0, nseg)
+	raw := make([]float64, len(pv))
+	for i := range tr.Lines {
+		l := &tr.Lines[i]
+		for s, c := range l.Cells {
+			raw[c] += l.Flux * l.Tau[s]
+		}
+	}
+	scale := make([]float64, len(pv))
+	for c := range scale {
+		if raw[c] > 0 {
+			scale[c] = pv[c] / raw[c]
+		} else if pv[c] > 0 && tr.TOF != nil && !tr.Stagnant[c] {
+			ls.uncovered++
+		}
+	}
+	ls.a = make([]float64, 0, nseg)
+	ls.b = make([]float64, 0, nseg)
+	for i := range tr.Lines {
+		l := &tr.Lines[i]
+		ls.q[i], ls.inj[i], ls.prod[i] = l.Flux, l.Injector, l.Producer
+		tau := 0.0
+		for s, c := range l.Cells {
+			ls.cell = append(ls.cell, c)
+			ls.a = append(ls.a, tau)
+			tau += l.Tau[s] * scale[c]
+			ls.b = append(ls.b, tau)
+		}
+		ls.total[i] = tau
+		ls.start[i+1] = len(ls.cell)
+	}
+	return ls
+}
+
+// cellSaturation maps the streamline solution at time t to cells by the
+// flux*tau weighted average of the streamlines in each cell. Cells no
+// streamline crosses keep swi; inactive cells are NaN.
+func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *transport.Riemann, t, swi float64) []float64 {
+	n := len(ls.pv)
+	sw := make([]float64, n)
+	vol := make([]float64, n)
+	for i := range ls.q {
+		q := ls.q[i]
+		prev := 0.0 // tau*avg at entry of the segment
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			cur := cumSat(rs, ls.b[s], t)
+			c := ls.cell[s]
+			sw[c] += q * (cur - prev)
+			vol[c] += q * (ls.b[s] - ls.a[s])
+			prev = cur
+		}
+	}
+	for c := range sw {
+		switch {
+		case !m.Active[c]:
+			sw[c] = math.NaN()
+		case vol[c] > 0:
+			sw[c] /= vol[c]
+		default:
+			sw[c] = swi
+		}
+	}
+	return sw
+}
+
+// cumSat returns the integral of the saturation over [0, tau] at time t,
+// tau*Savg(tau, t), in saturation*days.
+func cumSat(rs *transport.Riemann, tau, t float64) float64 {
+	if tau <= 0 {
+		return 0
+	}
+	return tau * rs.AverageSaturation(tau, t)
+}
+
+func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *transport.Riemann, s Settings) {
+	swi := m.Fluids.InitialSw
+	times := ReportTimes(m.Run.End, m.Run.ReportEvery)
+	r.Times = times
+	nt := len(times)
+
+	injRate := 0.0
+	for wi, w := range sol.Wells {
+		if w.Type == reservoir.Injector && !w.Shut {
+			injRate += w.Q
+			r.Injectors = append(r.Injectors, Injector{Name: w.Name, Well: wi, Rate: w.Q,
+				CumWater: w.Q * m.Run.End, MaxBHPReached: w.LimitReached && w.Control == reservoir.BHPControl})
+		} else if w.Type == reservoir.Injector {
+			r.Injectors = append(r.Injectors, Injector{Name: w.Name, Well: wi})
+		}
+	}
+	r.PVI = make([]float64, nt)
+	for k, t := range times {
+		r.PVI[k] = injRate * t / r.PoreVolume
+	}
+
+	// Producers and their streamlines.
+	prodOf := make([]int, len(sol.Wells))
+	for wi := range prodOf {
+		prodOf[wi] = -1
+	}
+	for wi, w := range sol.Wells {
+		if w.Type != reservoir.Producer {
+			continue
+		}
+		prodOf[wi] = len(r.Producers)
+		r.Producers = append(r.Producers, Producer{Name: w.Name, Well: wi, Rate: -w.Q,
+			WaterCut: make([]float64, nt), OilRate: make([]float64, nt), WaterRate: make([]float64, nt),
+			CumOil: make([]float64, nt), CumWater: make([]float64, nt), AvgSw: make([]float64, nt),
+			TracerBreakthrough: math.Inf(1), Breakthrough: math.Inf(1)})
+	}
+	np := len(r.Producers)
+	lineFlux := make([]float64, np)
+	for i := range ls.q {
+		if p := ls.prod[i]; p >= 0 && prodOf[p] >= 0 {
+			pi := prodOf[p]
+			P := &r.Producers[pi]
+			lineFlux[pi] += ls.q[i]
+			P.DrainedVolume += ls.q[i] * ls.total[i]
+			P.TracerBreakthrough = math.Min(P.TracerBreakthrough, ls.total[i])
+			P.Breakthrough = math.Min(P.Breakthrough, rs.Breakthrough(ls.total[i]))
+		}
+	}
+	for pi := range r.Producers {
+		P := &r.Producers[pi]
+		if lineFlux[pi] == 0 && P.Rate > 0 {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("producer %s: no streamline reaches it; its rate is not accounted in the curves", P.Name))
+		}
+		if math.IsInf(P.TracerBreakthrough, 1) || P.TracerBreakthrough > m.Run.End {
+			P.TracerBreakthrough = math.NaN()
+		}
+		if math.IsInf(P.Breakthrough, 1) || P.Breakthrough > m.Run.End {
+			P.Breakthrough = math.NaN()
+		}
+	}
+
+	// Per report time: outlet water cut and exact cumulative volumes per
+	// streamline (Welge 1952: water in place from the average saturation).
+	wcSum := make([]float64, np)
+	wSum := make([]float64, np) // sum q*tau*(Savg-swi): oil produced
+	vSum := make([]float64, np) // sum q*tau*Savg
+	for k, t := range times {
+		clear(wcSum)
+		clear(wSum)
+		clear(vSum)
+		for i := range ls.q {
+			p := ls.prod[i]
+			if p < 0 || prodOf[p] < 0 {
+				continue
+			}
+			pi := prodOf[p]
+			q, T := ls.q[i], ls.total[i]
+			wcSum[pi] += q * rs.OutletFw(T, t)
+			cs := cumSat(rs, T, t)
+			wSum[pi] += q * (cs - T*swi)
+			vSum[pi] += q * cs
+		}
+		for pi := range r.Producers {
+			P := &r.Producers[pi]
+			if lineFlux[pi] == 0 {
+				P.AvgSw[k] = swi
+				continue
+			}
+			scale := P.Rate / lineFlux[pi]
+			P.WaterCut[k] = wcSum[pi] / lineFlux[pi]
+			P.WaterRate[k] = P.Rate * P.WaterCut[k]
+			P.OilRate[k] = P.Rate - P.WaterRate[k]
+			P.CumOil[k] = scale * wSum[pi]
+			P.CumWater[k] = P.Rate*t - P.CumOil[k]
+			if P.CumWater[k] < 0 {
+				P.CumWater[k] = 0
+			}
+			P.AvgSw[k] = vSum[pi] / (P.DrainedVolume)
+		}
+	}
+	r.FieldWaterCut = make([]float64, nt)
+	r.FieldOilRate = make([]float64, nt)
+	r.FieldWaterRate = make([]float64, nt)
+	r.FieldCumOil = make([]float64, nt)
+	r.FieldCumWater = make([]float64, nt)
+	r.RecoveryFactor = make([]float64, nt)
+	for k := range times {
+		for pi := range r.Producers {
+			P := &r.Producers[pi]
+			r.FieldOilRate[k] += P.OilRate[k]
+			r.FieldWaterRate[k] += P.WaterRate[k]
+			r.FieldCumOil[k] += P.CumOil[k]
+			r.FieldCumWater[k] += P.CumWater[k]
+		}
+		if q := r.FieldOilRate[k] + r.FieldWaterRate[k]; q > 0 {
+			r.FieldWaterCut[k] = r.FieldWaterRate[k] / q
+		}
+		if r.OOIP > 0 {
+			r.RecoveryFactor[k] = r.FieldCumOil[k] / r.OOIP
+		}
+	}
+
+	// Saturation maps.
+	for _, t := range snapshotTimes(m) {
+		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: ls.cellSaturation(m, rs, t, swi)})
+	}
+	for _, k := range frameIndices(nt, s.Frames) {
+		t := times[k]
+		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: r.PVI[k], Sw: ls.cellSaturation(m, rs, t, swi)})
+	}
+
+	// Mass balance at the end of the run, with the water in place taken
+	// from the saturation map.
+	end := ls.cellSaturation(m, rs, m.Run.End, swi)
+	dW := 0.0
+	for c, v := range end {
+		if m.Active[c] {
+			dW += ls.pv[c] * (v - swi)
+		}
+	}
+	injected := injRate * m.Run.End
+	produced := r.FieldCumWater[nt-1]
+	if injected > 0 {
+		r.MassBalanceError = (injected - produced - dW) / injected
+	}
+}
+
+func snapshotTimes(m *reservoir.Model) []float64 {
+	var ts []float64
+	for _, t := range m.Run.Snapshots {
+		if t > 0 && t <= m.Run.End {
+			ts = append(ts, t)
+		}
+	}
+	if len(ts) == 0 {
+		ts = []float64{m.Run.End}
+	}
+	return ts
+}
+
+// frameIndices picks up to n report steps evenly (0 = 40, negative = none).
+func frameIndices(nt, n int) []int {
+	if n < 0 || nt == 0 {
+		return nil
+	}
+	if n == 0 {
+		n = 40
+	}
+	if n >= nt {
+		idx := make([]int, nt)
+		for i := range idx {
+			idx[i] = i
+		}
+		return idx
+	}
+	idx := make([]int, 0, n)
+	for i := 0; i < n; i++ {
+		k := int(math.Round(float64(i+1) * float64(nt) / float64(n)))
+		idx = append(idx, min(max(k-1, 0), nt-1))
+	}
+	return idx
+}

@@ -1,0 +1,262 @@
+package flood
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"floodtrace/pressure"
+	"floodtrace/reservoir"
+	"floodtrace/streamline"
+	"floodtrace/transport"
+)
+
+// Settings controls a run. The zero value runs the case as its file says,
+// on all cores, with the default pressure solver.
+type Settings struct {
+	// Streamlines overrides the case's run.streamlines when > 0.
+	Streamlines int
+	// Workers is the number of goroutines for tracing; 0 = all cores.
+	// Results do not depend on it.
+	Workers int
+	// Frames is how many saturation maps to keep for the animation:
+	// 0 = up to 40, negative = none.
+	Frames int
+	// Pressure configures the pressure solve.
+	Pressure pressure.Settings
+	// Log, when set, receives one line per stage.
+	Log func(format string, args ...any)
+}
+
+// Snapshot is a saturation map at one time.
+type Snapshot struct {
+	Time float64 // days
+	PVI  float64
+	Sw   []float64 // per cell; NaN for inactive cells
+}
+
+// Producer holds one producer's results at the report times.
+type Producer struct {
+	Name string
+	Well int // index in Model.Wells
+	// Rate is the total liquid rate from the pressure solve (positive).
+	Rate float64
+	// WaterCut, OilRate, WaterRate, CumOil and CumWater are given at each
+	// report time.
+	WaterCut, OilRate, WaterRate, CumOil, CumWater []float64
+	// AvgSw is the average water saturation of the pore volume that drains
+	// to the producer, at each report time: with WaterCut it is the
+	// producer's dynamic curve.
+	AvgSw []float64
+	// TracerBreakthrough is the smallest time of flight to the producer and
+	// Breakthrough the first arrival of injected water, in days; NaN when
+	// there is none within the run (or no streamline reaches the producer).
+	TracerBreakthrough, Breakthrough float64
+	// DrainedVolume is the pore volume that drains to the producer.
+	DrainedVolume float64
+}
+
+// Injector holds one injector's totals.
+type Injector struct {
+	Name          string
+	Well          int
+	Rate          float64
+	CumWater      float64
+	MaxBHPReached bool
+}
+
+// WellRecord is one row of the well log: a well's control, rate and BHP at
+// a pressure solve.
+type WellRecord struct {
+	Time    float64
+	Well    string
+	Type    reservoir.WellType
+	Control reservoir.Control
+	Rate    float64 // positive
+	BHP     float64
+}
+
+// Result is a finished run.
+type Result struct {
+	Model  *reservoir.Model
+	Engine string
+	// Pressure is the first pressure solution and Trace its streamlines.
+	Pressure *pressure.Solution
+	Trace    *streamline.Result
+	// Times are the report times in days and PVI the pore volumes
+	// injected at each.
+	Times, PVI []float64
+	Producers  []Producer
+	Injectors  []Injector
+	// Field totals at the report times.
+	FieldWaterCut, FieldOilRate, FieldWaterRate, FieldCumOil, FieldCumWater, RecoveryFactor []float64
+	Snapshots []Snapshot
+	Frames    []Snapshot
+	WellLog   []WellRecord
+	// Phi and F sample the F-Phi curve; TD and Sweep the sweep efficiency
+	// against dimensionless time.
+	Phi, F, TD, Sweep []float64
+	Lorenz            float64
+	PoreVolume        float64
+	OOIP              float64
+	// MassBalanceError is (injected - produced - change of water in
+	// place) / injected at the end of the run.
+	MassBalanceError float64
+	Solves           int
+	Iterations       int
+	RelResidual      float64
+	StreamlineCount  int
+	Warnings         []string
+}
+
+// ReportTimes returns the report times of a run: every reportEvery days
+// up to end, with end itself always included.
+func ReportTimes(end, reportEvery float64) []float64 {
+	if reportEvery <= 0 || reportEvery > end {
+		reportEvery = end
+	}
+	var ts []float64
+	for k := 1; ; k++ {
+		t := float64(k) * reportEvery
+		if t >= end*(1-1e-12) {
+			break
+		}
+		ts = append(ts, t)
+	}
+	return append(ts, end)
+}
+
+// Run runs the case with fixed streamlines: one pressure solve at the
+// initial mobility, one set of streamlines, and the exact Buckley-Leverett
+// solution along each (Buckley and Leverett 1942; Welge 1952), mapped to
+// producers and to cells.
+func Run(m *reservoir.Model, s Settings) (*Result, error) {
+	logf := s.Log
+	if logf == nil {
+		logf = func(string, ...any) {}
+	}
+	if m.Run.End <= 0 {
+		return nil, errors.New("run.end must be positive")
+	}
+	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
+	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
+	if mr := ff.EndpointMobilityRatio(); mr > 2 {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("end-point mobility ratio is %.2g (above 2): fixed streamlines assume the velocity field does not change; use pressure updates (run.pressure_updates) for a better estimate", mr))
+	}
+	if len(m.Schedule) > 0 {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("the case has %d schedule event(s); fixed streamlines keep the initial well controls: use pressure updates (run.pressure_updates > 1) to honour the schedule", len(m.Schedule)))
+	}
+	for _, w := range m.Wells {
+		if w.Open > 0 {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("well %s opens on day %g; fixed streamlines treat it as open from the start", w.Name, w.Open))
+		}
+	}
+
+	logf("pressure: solving %d cells", m.Grid.N())
+	sol, err := pressure.Solve(pressure.Input{Model: m}, s.Pressure)
+	if err != nil {
+		return nil, err
+	}
+	r.Pressure = sol
+	r.Solves, r.Iterations, r.RelResidual = 1, sol.Iterations, sol.RelResidual
+	r.Warnings = append(r.Warnings, sol.Warnings...)
+	for _, w := range sol.Wells {
+		rate := math.Abs(w.Q)
+		r.WellLog = append(r.WellLog, WellRecord{Time: 0, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP})
+	}
+
+	count := m.Run.Streamlines
+	if s.Streamlines > 0 {
+		count = s.Streamlines
+	}
+	logf("streamlines: tracing %d", count)
+	field := Field(m, sol)
+	tr, err := streamline.Trace(field, streamline.Settings{Count: count, Workers: s.Workers, KeepPaths: true})
+	if err != nil {
+		return nil, err
+	}
+	r.Trace = tr
+	r.StreamlineCount = len(tr.Lines)
+	r.Warnings = append(r.Warnings, tr.Warnings...)
+
+	pv := m.PoreVolumes()
+	r.Phi, r.F = streamline.FPhi(pv, totalTravel(tr))
+	r.Lorenz = streamline.Lorenz(r.Phi, r.F)
+	r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
+	r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+
+	logf("transport: Buckley-Leverett along %d streamlines", len(tr.Lines))
+	swi := m.Fluids.InitialSw
+	_, sor := m.RelPerm.Endpoints()
+	sol1d, err := transport.NewRiemann(ff.Fw, 1-sor, swi)
+	if err != nil {
+		return nil, fmt.Errorf("fractional flow: %w", err)
+	}
+	lines := newLineSet(m, tr, pv)
+	if lines.uncovered > 0 {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
+	}
+	r.fixedTransport(m, sol, lines, sol1d, s)
+	return r, nil
+}
+
+// Field builds the streamline tracer's input from a pressure solution.
+func Field(m *reservoir.Model, sol *pressure.Solution) *streamline.Field {
+	f := &streamline.Field{
+		Grid:       m.Grid,
+		PoreVolume: m.PoreVolumes(),
+		Active:     m.Active,
+		FluxX:      sol.FluxX,
+		FluxY:      sol.FluxY,
+	}
+	for _, w := range sol.Wells {
+		q := w.Q
+		if w.Shut {
+			q = 0
+		}
+		f.Wells = append(f.Wells, streamline.Well{Name: w.Name, Cell: w.Cell, Q: q})
+	}
+	return f
+}
+
+func totalTravel(tr *streamline.Result) []float64 {
+	tt := make([]float64, len(tr.TOF))
+	for k := range tt {
+		tt[k] = tr.TOF[k] + tr.BackTOF[k]
+	}
+	return tt
+}
+
+// resampleFPhi samples a monotone F-Phi curve at n evenly spaced storage
+// capacities by linear interpolation.
+func resampleFPhi(phi, f []float64, n int) ([]float64, []float64) {
+	if len(phi) == 0 {
+		return nil, nil
+	}
+	ph := make([]float64, n)
+	fo := make([]float64, n)
+	for i := range ph {
+		x := float64(i) / float64(n-1)
+		ph[i] = x
+		k := sort.SearchFloat64s(phi, x)
+		switch {
+		case k == 0:
+			if phi[0] > 0 {
+				fo[i] = f[0] * x / phi[0]
+			} else {
+				fo[i] = f[0]
+			}
+		case k >= len(phi):
+			fo[i] = f[len(f)-1]
+		default:
+			x0, x1 := phi[k-1], phi[k]
+			if x1 > x0 {
+				fo[i] = f[k-1] + (f[k]-f[k-1])*(x-x0)/(x1-x0)
+			} else {
+				fo[i] = f[k]
+			}
+		}
+	}
+	return ph, fo
+}
