@@ -1,8 +1,6 @@
 package streamline
 
 import (
-	"errors"
-	"fmt"
 	"math"
 	"slices"
 )
@@ -11,12 +9,13 @@ import (
 // cells (Shook and Mitchell 2009, from memory): the cells are sorted by
 // total travel time ascending, phi is the cumulative pore-volume fraction
 // and F the cumulative fraction of pv/travel (each cell's share of the
-// flux). Cells with a pore volume or travel time that is not positive and
-// finite are left out. Both slices start with a 0 point, so they hold one
-// more value than the cells used; they are empty when no cell qualifies.
-func FPhi(pv, travel []float64) (phi, F []float64, err error) {
+// flux). Cells whose pore volume or travel time is not positive and finite
+// are left out. Both slices start with a (0, 0) point, so they hold one
+// more value than the cells used. They are nil when no cell qualifies or
+// the two inputs differ in length.
+func FPhi(pv, travel []float64) (phi, F []float64) {
 	if len(pv) != len(travel) {
-		return nil, nil, fmt.Errorf("streamline: FPhi: %d pore volumes for %d travel times", len(pv), len(travel))
+		return nil, nil
 	}
 	idx := make([]int, 0, len(pv))
 	for k := range pv {
@@ -25,7 +24,7 @@ func FPhi(pv, travel []float64) (phi, F []float64, err error) {
 		}
 	}
 	if len(idx) == 0 {
-		return nil, nil, nil
+		return nil, nil
 	}
 	slices.SortStableFunc(idx, func(a, b int) int {
 		switch {
@@ -47,34 +46,38 @@ func FPhi(pv, travel []float64) (phi, F []float64, err error) {
 		phi[m] /= sp
 		F[m] /= sf
 	}
-	return phi, F, nil
+	phi[len(idx)], F[len(idx)] = 1, 1
+	return phi, F
 }
 
 // Lorenz returns the dynamic Lorenz coefficient of an F-Phi curve, twice
 // the area between the curve and the diagonal: 0 for a homogeneous
 // displacement, towards 1 for a very heterogeneous one (Shook and Mitchell
-// 2009, from memory). The area is integrated by the trapezoid rule, which
-// is exact for the piecewise-linear curve FPhi returns.
-func Lorenz(phi, F []float64) (float64, error) {
-	if err := checkCurve(phi, F); err != nil {
-		return math.NaN(), err
+// 2009, from memory). The area is integrated by the trapezoid rule, exact
+// for the piecewise-linear curve FPhi returns. It is NaN for a curve that
+// is not a valid F-Phi curve (fewer than two points, lengths that differ,
+// values that are not finite or decrease).
+func Lorenz(phi, F []float64) float64 {
+	if !validCurve(phi, F) {
+		return math.NaN()
 	}
 	area := 0.0
 	for m := 1; m < len(phi); m++ {
 		area += 0.5 * (F[m] + F[m-1]) * (phi[m] - phi[m-1])
 	}
-	return 2 * (area - 0.5), nil
+	return 2 * (area - 0.5)
 }
 
 // Sweep returns the volumetric sweep efficiency Ev against dimensionless
 // time tD (pore volumes injected) from an F-Phi curve (Shook and Mitchell
 // 2009, from memory): on each segment of the curve tD = dPhi/dF and
-// Ev = Phi + (1-F)*tD, evaluated at the segment's upper end; before the
-// first segment (breakthrough) Ev = tD. The first point is (0, 0).
-// Segments with no flow (dF = 0) are skipped.
-func Sweep(phi, F []float64) (tD, Ev []float64, err error) {
-	if err := checkCurve(phi, F); err != nil {
-		return nil, nil, err
+// Ev = Phi + (1-F)*tD, evaluated at the segment's upper end (the moment
+// the last cell of the segment is swept). Before the first breakthrough
+// Ev = tD, so the first point is (0, 0). Segments with no flow (dF = 0)
+// are skipped. Both slices are nil for an invalid curve (see Lorenz).
+func Sweep(phi, F []float64) (tD, Ev []float64) {
+	if !validCurve(phi, F) {
+		return nil, nil
 	}
 	tD, Ev = []float64{0}, []float64{0}
 	for m := 1; m < len(phi); m++ {
@@ -86,23 +89,20 @@ func Sweep(phi, F []float64) (tD, Ev []float64, err error) {
 		tD = append(tD, t)
 		Ev = append(Ev, phi[m]+(1-F[m])*t)
 	}
-	return tD, Ev, nil
+	return tD, Ev
 }
 
-func checkCurve(phi, F []float64) error {
-	if len(phi) != len(F) {
-		return fmt.Errorf("streamline: F-Phi curve has %d phi and %d F values", len(phi), len(F))
-	}
-	if len(phi) < 2 {
-		return errors.New("streamline: F-Phi curve needs at least two points")
+func validCurve(phi, F []float64) bool {
+	if len(phi) != len(F) || len(phi) < 2 {
+		return false
 	}
 	for m := range phi {
 		if !finite(phi[m]) || !finite(F[m]) {
-			return fmt.Errorf("streamline: F-Phi curve point %d is not finite", m)
+			return false
 		}
 		if m > 0 && (phi[m] < phi[m-1] || F[m] < F[m-1]) {
-			return fmt.Errorf("streamline: F-Phi curve decreases at point %d", m)
+			return false
 		}
 	}
-	return nil
+	return true
 }
