@@ -71,6 +71,8 @@ func Solve(in Input, s Settings) (*Solution, error) {
 					x[u] = v
 				}
 			}
+		} else {
+			pb.startLevel(ctl, sys, x)
 		}
 		if len(x) > 0 {
 			m, err := pre(sys.A)
@@ -106,6 +108,26 @@ func Solve(in Input, s Settings) (*Solution, error) {
 	pb.fluxes(sol, sys)
 	pb.results(sol, ctl, gauged, q, bhp)
 	return sol, nil
+}
+
+// startLevel sets the first guess of each region to the mean BHP of its
+// BHP-controlled wells (0 in gauged regions), which removes the pressure
+// level from the initial residual.
+func (pb *problem) startLevel(ctl []control, sys *System, x []float64) {
+	sum := make([]float64, pb.ncomp)
+	cnt := make([]float64, pb.ncomp)
+	for w := range pb.wells {
+		if ctl[w].open && ctl[w].bhp {
+			c := pb.comp[pb.wells[w].Cell]
+			sum[c] += ctl[w].target
+			cnt[c]++
+		}
+	}
+	for u, k := range sys.Unknown {
+		if c := pb.comp[k]; cnt[c] > 0 {
+			x[u] = sum[c] / cnt[c]
+		}
+	}
 }
 
 // wellState sets the rate and BHP of every well from the cell pressures.
