@@ -7,7 +7,6 @@ import (
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
 	"floodtrace/streamline"
-	"floodtrace/transport"
 )
 
 // lineSet is the streamline-to-cell bookkeeping in flat arrays. Time of
@@ -70,7 +69,7 @@ func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSe
 // cellSaturation maps the streamline solution at time t to cells by the
 // flux*tau weighted average of the streamlines in each cell. Cells no
 // streamline crosses keep swi; inactive cells are NaN.
-func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *transport.Riemann, t, swi float64) []float64 {
+func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float64) []float64 {
 	n := len(ls.pv)
 	sw := make([]float64, n)
 	vol := make([]float64, n)
@@ -78,7 +77,7 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *transport.Riemann, t, 
 		q := ls.q[i]
 		prev := 0.0 // tau*avg at entry of the segment
 		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			cur := cumSat(rs, ls.b[s], t)
+			cur := rs.cumSat(ls.b[s], t)
 			c := ls.cell[s]
 			sw[c] += q * (cur - prev)
 			vol[c] += q * (ls.b[s] - ls.a[s])
@@ -98,16 +97,7 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *transport.Riemann, t, 
 	return sw
 }
 
-// cumSat returns the integral of the saturation over [0, tau] at time t,
-// tau*Savg(tau, t), in saturation*days.
-func cumSat(rs *transport.Riemann, tau, t float64) float64 {
-	if tau <= 0 {
-		return 0
-	}
-	return tau * rs.AverageSaturation(tau, t)
-}
-
-func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *transport.Riemann, s Settings) {
+func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *blTable, s Settings) {
 	swi := m.Fluids.InitialSw
 	times := ReportTimes(m.Run.End, m.Run.ReportEvery)
 	r.Times = times
@@ -152,7 +142,7 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			lineFlux[pi] += ls.q[i]
 			P.DrainedVolume += ls.q[i] * ls.total[i]
 			P.TracerBreakthrough = math.Min(P.TracerBreakthrough, ls.total[i])
-			P.Breakthrough = math.Min(P.Breakthrough, rs.Breakthrough(ls.total[i]))
+			P.Breakthrough = math.Min(P.Breakthrough, rs.breakthrough(ls.total[i]))
 		}
 	}
 	for pi := range r.Producers {
@@ -160,7 +150,7 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 		if lineFlux[pi] == 0 && P.Rate > 0 {
 			r.Warnings = append(r.Warnings, fmt.Sprintf("producer %s: no streamline reaches it; its rate is not accounted in the curves", P.Name))
 		}
-		if math.IsInf(P.TracerBreakthrough, 1) || P.TracerBreakthrough > m.Run.End {
+		if math.IsInf(P.TracerBreakthrough, 1) {
 			P.TracerBreakthrough = math.NaN()
 		}
 		if math.IsInf(P.Breakthrough, 1) || P.Breakthrough > m.Run.End {
@@ -184,8 +174,8 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			}
 			pi := prodOf[p]
 			q, T := ls.q[i], ls.total[i]
-			wcSum[pi] += q * rs.OutletFw(T, t)
-			cs := cumSat(rs, T, t)
+			wcSum[pi] += q * rs.outletFw(T, t)
+			cs := rs.cumSat(T, t)
 			wSum[pi] += q * (cs - T*swi)
 			vSum[pi] += q * cs
 		}

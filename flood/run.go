@@ -189,7 +189,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	logf("transport: Buckley-Leverett along %d streamlines", len(tr.Lines))
 	swi := m.Fluids.InitialSw
 	_, sor := m.RelPerm.Endpoints()
-	sol1d, err := transport.NewRiemann(ff.Fw, 1-sor, swi)
+	sol1d, err := transport.NewRiemann(ff, swi, 1-sor)
 	if err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
@@ -197,7 +197,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if lines.uncovered > 0 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}
-	r.fixedTransport(m, sol, lines, sol1d, s)
+	r.fixedTransport(m, sol, lines, newBLTable(sol1d, ff), s)
 	return r, nil
 }
 

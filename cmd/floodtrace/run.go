@@ -101,11 +101,14 @@ func runRun(args []string) error {
 	}
 	if !runFlags.noPictures {
 		logf("drawing maps, charts and the report")
-		files, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format})
+		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format})
 		if err != nil {
 			return fmt.Errorf("drawing pictures: %w", err)
 		}
-		d.Adopt(files...)
+		d.Adopt(rep.Files...)
+		for _, n := range rep.Notes {
+			logf("note: %s", n)
+		}
 	}
 	if err := res.WriteSummary(d); err != nil {
 		return err
