@@ -91,9 +91,9 @@ type Result struct {
 	Injectors  []Injector
 	// Field totals at the report times.
 	FieldWaterCut, FieldOilRate, FieldWaterRate, FieldCumOil, FieldCumWater, RecoveryFactor []float64
-	Snapshots []Snapshot
-	Frames    []Snapshot
-	WellLog   []WellRecord
+	Snapshots                                                                               []Snapshot
+	Frames                                                                                  []Snapshot
+	WellLog                                                                                 []WellRecord
 	// Phi and F sample the F-Phi curve; TD and Sweep the sweep efficiency
 	// against dimensionless time.
 	Phi, F, TD, Sweep []float64
