@@ -1,0 +1,521 @@
+package render
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"image"
+	"image/png"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// Options controls Run. The zero value draws 1920x1080 maps and PNG
+// charts, a 960x540 animation of every frame.
+type Options struct {
+	// Width and Height of maps and charts in pixels; 0 means 1920x1080.
+	Width, Height int
+	// Format of the charts: "png" (default) or "svg". Maps are PNG.
+	Format string
+	// Frames is the number of animation frames, chosen evenly among the
+	// saved ones; 0 means all.
+	Frames int
+	// GIFWidth and GIFHeight size the animation; 0 means half the map
+	// size (960x540 by default).
+	GIFWidth, GIFHeight int
+}
+
+// Report lists what Run wrote.
+type Report struct {
+	Dir   string
+	Files []string // paths relative to Dir, in the order written
+	Notes []string // pictures not drawn, and why
+}
+
+func (r *Report) note(format string, a ...any) { r.Notes = append(r.Notes, fmt.Sprintf(format, a...)) }
+
+// resolve fills the defaults of o and checks it.
+func (o Options) resolve() (Options, error) {
+	if o.Width == 0 && o.Height == 0 {
+		o.Width, o.Height = DefaultWidth, DefaultHeight
+	}
+	if err := checkSize(o.Width, o.Height); err != nil {
+		return o, err
+	}
+	if o.Format == "" {
+		o.Format = "png"
+	}
+	o.Format = strings.ToLower(o.Format)
+	if o.Format != "png" && o.Format != "svg" {
+		return o, fmt.Errorf("render: chart format %q, want png or svg", o.Format)
+	}
+	if o.Frames < 0 {
+		return o, fmt.Errorf("render: %d animation frames", o.Frames)
+	}
+	if o.GIFWidth == 0 && o.GIFHeight == 0 {
+		o.GIFWidth, o.GIFHeight = max(MinSide, o.Width/2), max(MinSide, o.Height/2)
+	}
+	if err := checkSize(o.GIFWidth, o.GIFHeight); err != nil {
+		return o, fmt.Errorf("render: animation: %w", err)
+	}
+	return o, nil
+}
+
+// run holds what Run reads once and shares between pictures.
+type run struct {
+	dir    string
+	opt    Options
+	sum    *Summary
+	scene  Scene
+	rep    *Report
+	field  *Table // field.csv, for PVI at a given day
+	satSc  Scale
+	tofSc  Scale
+	charts []figure
+	maps   []figure
+	gif    string
+}
+
+// figure is a written picture with its caption, for the report.
+type figure struct {
+	File, Caption string
+}
+
+// Run draws every picture of the finished run in dir and writes
+// report.html: maps/ (saturation snapshots, streamlines, time of flight,
+// partitions, pressure), charts/, saturation.gif. Pictures whose input
+// file is absent are skipped and listed in Report.Notes; a missing or
+// unreadable summary.json, or a malformed input file, is an error.
+func Run(dir string, opt Options) (*Report, error) {
+	opt, err := opt.resolve()
+	if err != nil {
+		return nil, err
+	}
+	sum, err := ReadSummary(dir)
+	if err != nil {
+		return nil, err
+	}
+	r := &run{dir: dir, opt: opt, sum: sum, rep: &Report{Dir: dir}}
+	if err := r.prepare(); err != nil {
+		return nil, err
+	}
+	for _, sub := range []string{"maps", "charts"} {
+		if err := os.MkdirAll(filepath.Join(dir, sub), 0o755); err != nil {
+			return nil, fmt.Errorf("render: %w", err)
+		}
+	}
+	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.drawCharts, r.animation, r.report}
+	for _, step := range steps {
+		if err := step(); err != nil {
+			return r.rep, err
+		}
+	}
+	return r.rep, nil
+}
+
+func exists(p string) bool { _, err := os.Stat(p); return err == nil }
+
+// prepare builds the scene (active cells from the rasters) and the shared
+// colour scales.
+func (r *run) prepare() error {
+	s := r.sum
+	g := s.ResGrid()
+	title := s.Title
+	if title == "" {
+		title = "floodtrace run"
+	}
+	r.scene = Scene{Title: title, Grid: g, LengthUnit: s.UnitLabels.Length}
+	for _, w := range s.Wells {
+		r.scene.Wells = append(r.scene.Wells, WellMark{Name: w.Name, X: w.X, Y: w.Y, Injector: w.Type == "injector"})
+	}
+	for _, f := range s.Faults {
+		r.scene.Faults = append(r.scene.Faults, f.Trace)
+		r.scene.FaultNames = append(r.scene.FaultNames, f.Name)
+	}
+	if p := filepath.Join(r.dir, "field.csv"); exists(p) {
+		t, err := ReadTable(p)
+		if err != nil {
+			return err
+		}
+		r.field = t
+	}
+	// Active cells: finite in any of the rasters that hold every active
+	// cell (saturation, time of flight, pressure).
+	var active []bool
+	sat0 := r.snapshotFiles()
+	var candidates []string
+	if len(sat0) > 0 {
+		candidates = append(candidates, sat0[0].Path)
+	}
+	candidates = append(candidates, filepath.Join(r.dir, "tof.asc"), filepath.Join(r.dir, "pressure.asc"))
+	for _, p := range candidates {
+		if !exists(p) {
+			continue
+		}
+		v, err := ReadASC(p, g)
+		if err != nil {
+			return err
+		}
+		if active == nil {
+			active = make([]bool, len(v))
+		}
+		for k, x := range v {
+			if !math.IsNaN(x) {
+				active[k] = true
+			}
+		}
+	}
+	r.scene.Active = active
+
+	// One saturation scale for every snapshot and frame.
+	lo, hi := math.Inf(1), math.Inf(-1)
+	files := append(sat0, r.frameFiles()...)
+	for _, f := range files {
+		v, err := ReadASC(f.Path, g)
+		if err != nil {
+			return err
+		}
+		for _, x := range v {
+			if !math.IsNaN(x) {
+				lo, hi = math.Min(lo, x), math.Max(hi, x)
+			}
+		}
+	}
+	r.satSc = Scale{Label: "Water saturation", Unit: "fraction of pore volume", Map: &SaturationColors}
+	if lo <= hi {
+		r.satSc.Min = math.Max(0, math.Floor(lo/0.05+1e-9)*0.05)
+		r.satSc.Max = math.Min(1, math.Ceil(hi/0.05-1e-9)*0.05)
+		if r.satSc.Max <= r.satSc.Min {
+			r.satSc.Min, r.satSc.Max = 0, 1
+		}
+	}
+
+	// One time-of-flight scale for the map and the streamlines.
+	lo, hi = math.Inf(1), math.Inf(-1)
+	if p := filepath.Join(r.dir, "tof.asc"); exists(p) {
+		v, err := ReadASC(p, g)
+		if err != nil {
+			return err
+		}
+		for _, x := range v {
+			if x > 0 && !math.IsInf(x, 0) {
+				lo, hi = math.Min(lo, x), math.Max(hi, x)
+			}
+		}
+	}
+	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
+	if lo <= hi {
+		r.tofSc.Min, r.tofSc.Max = niceLogFloor(lo), niceLogCeil(hi)
+	}
+	return nil
+}
+
+// niceLogFloor and niceLogCeil round to 1, 2 or 5 times a power of ten.
+func niceLogFloor(v float64) float64 {
+	p := math.Pow(10, math.Floor(math.Log10(v)))
+	for _, m := range []float64{5, 2, 1} {
+		if m*p <= v*(1+1e-12) {
+			return m * p
+		}
+	}
+	return p
+}
+
+func niceLogCeil(v float64) float64 {
+	p := math.Pow(10, math.Floor(math.Log10(v)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*p >= v*(1-1e-12) {
+			return m * p
+		}
+	}
+	return 10 * p
+}
+
+// snapshotFiles lists the saturation snapshots of the summary (or, when
+// it names none, the saturation_<day>.asc files in the folder).
+func (r *run) snapshotFiles() []frameFile {
+	var out []frameFile
+	for _, s := range r.sum.Snapshots {
+		name := s.File
+		if name == "" {
+			name = "saturation_" + dayString(s.TimeDays) + ".asc"
+		}
+		p := filepath.Join(r.dir, filepath.Base(name))
+		if exists(p) {
+			out = append(out, frameFile{Day: s.TimeDays, Path: p, Name: strings.TrimSuffix(filepath.Base(name), ".asc")})
+		}
+	}
+	if len(r.sum.Snapshots) == 0 {
+		out = listDays(r.dir, "saturation_")
+	}
+	return out
+}
+
+func (r *run) frameFiles() []frameFile {
+	return listDays(filepath.Join(r.dir, "frames"), "saturation_")
+}
+
+// dayString writes a day as an integer, or with the decimals it needs.
+func dayString(d float64) string {
+	if d == math.Trunc(d) {
+		return strconv.FormatFloat(d, 'f', 0, 64)
+	}
+	return strconv.FormatFloat(d, 'f', -1, 64)
+}
+
+// pviAt returns the pore volumes injected at a day: a snapshot's own value
+// when it has one, else interpolated in field.csv; NaN when unknown.
+func (r *run) pviAt(day float64) float64 {
+	for _, s := range r.sum.Snapshots {
+		if s.TimeDays == day && s.PVI > 0 {
+			return s.PVI
+		}
+	}
+	t := r.field
+	if t == nil || !t.Has("time_days") || !t.Has("pvi") {
+		return math.NaN()
+	}
+	prevT, prevP := 0.0, 0.0
+	for i := range t.Rows {
+		d, p := t.Num(i, "time_days"), t.Num(i, "pvi")
+		if math.IsNaN(d) || math.IsNaN(p) {
+			continue
+		}
+		if d >= day {
+			if d == prevT {
+				return p
+			}
+			return prevP + (p-prevP)*(day-prevT)/(d-prevT)
+		}
+		prevT, prevP = d, p
+	}
+	if day <= prevT {
+		return prevP
+	}
+	return math.NaN()
+}
+
+// timeLabel writes "day 365 · 0.21 PVI".
+func timeLabel(day, pvi float64) string {
+	s := "day " + FormatNumber(day, decimalsForDay(day))
+	if !math.IsNaN(pvi) {
+		d := 2
+		if pvi < 0.1 {
+			d = 3
+		}
+		s += " · " + FormatNumber(pvi, d) + " PVI"
+	}
+	return s
+}
+
+func decimalsForDay(d float64) int {
+	if d == math.Trunc(d) {
+		return 0
+	}
+	return 1
+}
+
+func (r *run) writePNG(rel string, img image.Image) error {
+	var b bytes.Buffer
+	if err := png.Encode(&b, img); err != nil {
+		return fmt.Errorf("render: encoding %s: %w", rel, err)
+	}
+	if err := writeFileAtomic(filepath.Join(r.dir, rel), b.Bytes()); err != nil {
+		return err
+	}
+	r.rep.Files = append(r.rep.Files, rel)
+	return nil
+}
+
+func (r *run) saturationMaps() error {
+	files := r.snapshotFiles()
+	if len(files) == 0 {
+		r.rep.note("no saturation snapshot: no saturation maps")
+		return nil
+	}
+	for _, f := range files {
+		v, err := ReadASC(f.Path, r.scene.Grid)
+		if err != nil {
+			return err
+		}
+		s := r.scene
+		s.Subtitle = "Water saturation · " + timeLabel(f.Day, r.pviAt(f.Day))
+		img, err := DrawField(s, v, r.satSc, r.opt.Width, r.opt.Height)
+		if err != nil {
+			return fmt.Errorf("render: %s: %w", f.Path, err)
+		}
+		rel := filepath.Join("maps", f.Name+".png")
+		if err := r.writePNG(rel, img); err != nil {
+			return err
+		}
+		r.maps = append(r.maps, figure{rel, "Water saturation at " + timeLabel(f.Day, r.pviAt(f.Day)) + "."})
+	}
+	return nil
+}
+
+func (r *run) streamlineMap() error {
+	p := filepath.Join(r.dir, "streamlines.geojson")
+	if !exists(p) {
+		r.rep.note("streamlines.geojson missing: no streamline map")
+		return nil
+	}
+	lines, err := ReadStreamlines(p)
+	if err != nil {
+		return err
+	}
+	sc := r.tofSc
+	if sc.Min == 0 && sc.Max == 0 {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, l := range lines {
+			if l.TotalTOF > 0 {
+				lo, hi = math.Min(lo, l.TotalTOF), math.Max(hi, l.TotalTOF)
+			}
+		}
+		if lo <= hi {
+			sc.Min, sc.Max = niceLogFloor(lo), niceLogCeil(hi)
+		}
+	}
+	s := r.scene
+	s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
+	img, err := DrawStreamlines(s, lines, sc, r.opt.Width, r.opt.Height)
+	if err != nil {
+		return fmt.Errorf("render: %s: %w", p, err)
+	}
+	rel := filepath.Join("maps", "streamlines.png")
+	if err := r.writePNG(rel, img); err != nil {
+		return err
+	}
+	r.maps = append(r.maps, figure{rel, "Streamlines from injectors to producers, coloured by their total time of flight (log scale)."})
+	return nil
+}
+
+func (r *run) tofMap() error {
+	p := filepath.Join(r.dir, "tof.asc")
+	if !exists(p) {
+		r.rep.note("tof.asc missing: no time-of-flight map")
+		return nil
+	}
+	v, err := ReadASC(p, r.scene.Grid)
+	if err != nil {
+		return err
+	}
+	s := r.scene
+	s.Subtitle = "Time of flight from the injectors · first pressure solve"
+	img, err := DrawField(s, v, r.tofSc, r.opt.Width, r.opt.Height)
+	if err != nil {
+		return fmt.Errorf("render: %s: %w", p, err)
+	}
+	rel := filepath.Join("maps", "tof.png")
+	if err := r.writePNG(rel, img); err != nil {
+		return err
+	}
+	r.maps = append(r.maps, figure{rel, "Time of flight from the injectors: days for injected water to reach each cell (log scale)."})
+	return nil
+}
+
+func (r *run) partitionMaps() error {
+	names := make([]string, len(r.sum.Wells))
+	for i, w := range r.sum.Wells {
+		names[i] = w.Name
+	}
+	for _, pm := range []struct{ file, title, sub, caption string }{
+		{"injector_partition", "Injector partition", "Injector partition · which injector floods each cell", "Injector partition: the injector whose water reaches each cell first."},
+		{"producer_partition", "Producer partition", "Producer partition · which producer drains each cell", "Producer partition: the producer each cell drains to."},
+	} {
+		p := filepath.Join(r.dir, pm.file+".asc")
+		if !exists(p) {
+			r.rep.note("%s.asc missing: no %s map", pm.file, strings.ToLower(pm.title))
+			continue
+		}
+		v, err := ReadASC(p, r.scene.Grid)
+		if err != nil {
+			return err
+		}
+		part := make([]int, len(v))
+		for k, x := range v {
+			if math.IsNaN(x) {
+				continue
+			}
+			if x != math.Trunc(x) || x < 0 || x > float64(len(names)) {
+				return fmt.Errorf("render: %s: cell %d holds %v, not a well index 0..%d", p, k, x, len(names))
+			}
+			part[k] = int(x)
+		}
+		s := r.scene
+		s.Subtitle = pm.sub
+		img, err := DrawPartition(s, part, names, pm.title, r.opt.Width, r.opt.Height)
+		if err != nil {
+			return fmt.Errorf("render: %s: %w", p, err)
+		}
+		rel := filepath.Join("maps", pm.file+".png")
+		if err := r.writePNG(rel, img); err != nil {
+			return err
+		}
+		r.maps = append(r.maps, figure{rel, pm.caption})
+	}
+	return nil
+}
+
+func (r *run) pressureMap() error {
+	p := filepath.Join(r.dir, "pressure.asc")
+	if !exists(p) {
+		r.rep.note("pressure.asc missing: no pressure map")
+		return nil
+	}
+	v, err := ReadASC(p, r.scene.Grid)
+	if err != nil {
+		return err
+	}
+	sc := Scale{Label: "Pressure", Unit: r.sum.UnitLabels.Pressure, Map: &PressureColors}
+	sc, err = sc.Resolve(v, r.scene.Active)
+	if err != nil {
+		r.rep.note("pressure.asc has no value: no pressure map")
+		return nil
+	}
+	_, step := LinearTicks(sc.Min, sc.Max, 6)
+	if step > 0 {
+		sc.Min = math.Floor(sc.Min/step+1e-9) * step
+		sc.Max = math.Ceil(sc.Max/step-1e-9) * step
+	}
+	s := r.scene
+	s.Subtitle = "Pressure · first solve"
+	img, err := DrawField(s, v, sc, r.opt.Width, r.opt.Height)
+	if err != nil {
+		return fmt.Errorf("render: %s: %w", p, err)
+	}
+	rel := filepath.Join("maps", "pressure.png")
+	if err := r.writePNG(rel, img); err != nil {
+		return err
+	}
+	r.maps = append(r.maps, figure{rel, "Pressure at the first solve (" + r.sum.UnitLabels.Pressure + ")."})
+	return nil
+}
+
+// writeFileAtomic writes data under a temporary name in the target folder
+// and renames it into place.
+func writeFileAtomic(path string, data []byte) error {
+	dir := filepath.Dir(path)
+	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
+	if err != nil {
+		return fmt.Errorf("render: %w", err)
+	}
+	tmp := f.Name()
+	_, werr := f.Write(data)
+	cerr := f.Close()
+	if err := errors.Join(werr, cerr); err != nil {
+		os.Remove(tmp)
+		return fmt.Errorf("render: writing %s: %w", path, err)
+	}
+	if err := os.Chmod(tmp, 0o644); err != nil {
+		os.Remove(tmp)
+		return fmt.Errorf("render: %w", err)
+	}
+	if err := os.Rename(tmp, path); err != nil {
+		os.Remove(tmp)
+		return fmt.Errorf("render: %w", err)
+	}
+	return nil
+}

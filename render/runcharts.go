@@ -1,0 +1,216 @@
+package render
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"path/filepath"
+)
+
+// LorenzCoefficient returns the Lorenz coefficient of an F-Phi curve given
+// as storage capacity phi (increasing from 0 to 1) against flow capacity
+// F: twice the area between the curve and the 45-degree line, by the
+// trapezoid rule (Lake 1989, "Enhanced Oil Recovery"; Shook and Mitchell
+// 2009, SPE 124625). Points with NaN are skipped; the curve is closed at
+// (0,0) and (1,1) when it does not reach them.
+func LorenzCoefficient(phi, F []float64) (float64, error) {
+	if len(phi) != len(F) {
+		return 0, fmt.Errorf("render: F-Phi curve has %d phi and %d F values", len(phi), len(F))
+	}
+	xs := []float64{0}
+	ys := []float64{0}
+	for i := range phi {
+		if math.IsNaN(phi[i]) || math.IsNaN(F[i]) {
+			continue
+		}
+		if phi[i] < xs[len(xs)-1]-1e-9 {
+			return 0, fmt.Errorf("render: F-Phi curve: phi decreases at point %d (%v)", i, phi[i])
+		}
+		xs = append(xs, phi[i])
+		ys = append(ys, F[i])
+	}
+	if len(xs) < 2 {
+		return 0, errors.New("render: F-Phi curve has no point")
+	}
+	if xs[len(xs)-1] < 1 {
+		xs = append(xs, 1)
+		ys = append(ys, 1)
+	}
+	area := 0.0
+	for i := 1; i < len(xs); i++ {
+		area += 0.5 * (ys[i] + ys[i-1]) * (xs[i] - xs[i-1])
+	}
+	return 2 * (area - 0.5), nil
+}
+
+// producerOrder returns the producer names of the summary, then any other
+// name met in the table, so that every producer appears in the legend.
+func (r *run) producerOrder(found []string) []string {
+	var out []string
+	seen := map[string]bool{}
+	for _, p := range r.sum.Producers {
+		if !seen[p.Name] {
+			out = append(out, p.Name)
+			seen[p.Name] = true
+		}
+	}
+	if len(out) == 0 {
+		for _, w := range r.sum.Wells {
+			if w.Type == "producer" && !seen[w.Name] {
+				out = append(out, w.Name)
+				seen[w.Name] = true
+			}
+		}
+	}
+	for _, n := range found {
+		if n != "" && !seen[n] {
+			out = append(out, n)
+			seen[n] = true
+		}
+	}
+	return out
+}
+
+// perWell builds one series per producer from table t.
+func (r *run) perWell(t *Table, x, y string) []Series {
+	names, xs, ys := t.seriesBy("well", x, y)
+	idx := map[string]int{}
+	for i, n := range names {
+		idx[n] = i
+	}
+	var out []Series
+	for _, n := range r.producerOrder(names) {
+		s := Series{Name: n}
+		if i, ok := idx[n]; ok {
+			s.X, s.Y = xs[i], ys[i]
+		}
+		out = append(out, s)
+	}
+	return out
+}
+
+func (r *run) chart(name string, c Chart, caption string) error {
+	rel := filepath.Join("charts", name+"."+r.opt.Format)
+	if err := LineChart(filepath.Join(r.dir, rel), c, r.opt.Width, r.opt.Height, r.opt.Format); err != nil {
+		return fmt.Errorf("render: %s: %w", rel, err)
+	}
+	r.rep.Files = append(r.rep.Files, rel)
+	r.charts = append(r.charts, figure{rel, caption})
+	return nil
+}
+
+func (r *run) drawCharts() error {
+	title := r.scene.Title
+	u := r.sum.UnitLabels
+	if p := filepath.Join(r.dir, "producers.csv"); exists(p) {
+		t, err := ReadTable(p)
+		if err != nil {
+			return err
+		}
+		if err := t.need(p, "time_days", "well", "water_cut", "oil_rate", "cum_oil"); err != nil {
+			return err
+		}
+		if err := r.chart("water_cut", Chart{Title: "Water cut by producer", Subtitle: title,
+			XLabel: "Time (days)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
+			Series: r.perWell(t, "time_days", "water_cut"), YMin: 0, YMax: 1},
+			"Water cut of each producer against time."); err != nil {
+			return err
+		}
+		if err := r.chart("oil_rate", Chart{Title: "Oil rate by producer", Subtitle: title,
+			XLabel: "Time (days)", YLabel: "Oil rate (" + u.Rate + ")", LegendTitle: "Producer",
+			Series: r.perWell(t, "time_days", "oil_rate")},
+			"Oil rate of each producer (reservoir volumes)."); err != nil {
+			return err
+		}
+		if err := r.chart("cumulative_oil", Chart{Title: "Cumulative oil by producer", Subtitle: title,
+			XLabel: "Time (days)", YLabel: "Cumulative oil (" + u.Volume + ")", LegendTitle: "Producer",
+			Series: r.perWell(t, "time_days", "cum_oil")},
+			"Cumulative oil of each producer (reservoir volumes)."); err != nil {
+			return err
+		}
+	} else {
+		r.rep.note("producers.csv missing: no producer charts")
+	}
+	if p := filepath.Join(r.dir, "field.csv"); exists(p) {
+		t := r.field
+		if err := t.need(p, "pvi", "recovery_factor", "water_cut"); err != nil {
+			return err
+		}
+		var pvi, rf, wc []float64
+		for i := range t.Rows {
+			pvi = append(pvi, t.Num(i, "pvi"))
+			rf = append(rf, t.Num(i, "recovery_factor"))
+			wc = append(wc, t.Num(i, "water_cut"))
+		}
+		if err := r.chart("field_performance", Chart{Title: "Field recovery and water cut", Subtitle: title,
+			XLabel: "Pore volumes injected (PVI)", YLabel: "Fraction", LegendTitle: "Field",
+			Series: []Series{{Name: "Recovery factor", X: pvi, Y: rf}, {Name: "Water cut", X: pvi, Y: wc}}, YMin: 0, YMax: 1},
+			"Field recovery factor (fraction of the original oil in place) and water cut against pore volumes injected."); err != nil {
+			return err
+		}
+	} else {
+		r.rep.note("field.csv missing: no field chart")
+	}
+	if p := filepath.Join(r.dir, "effective_curves.csv"); exists(p) {
+		t, err := ReadTable(p)
+		if err != nil {
+			return err
+		}
+		if err := t.need(p, "well", "avg_water_saturation", "water_cut"); err != nil {
+			return err
+		}
+		if err := r.chart("dynamic_curves", Chart{Title: "Dynamic curve of each producer", Subtitle: "Water cut against the average water saturation of the volume each producer drains · " + title,
+			XLabel: "Average water saturation of the drained volume (fraction)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
+			Series: r.perWell(t, "avg_water_saturation", "water_cut"), YMin: 0, YMax: 1},
+			"Dynamic curve of each producer: its water cut against the average water saturation of the pore volume that drains to it."); err != nil {
+			return err
+		}
+	} else {
+		r.rep.note("effective_curves.csv missing: no dynamic-curve chart")
+	}
+	if p := filepath.Join(r.dir, "diagnostics.csv"); exists(p) {
+		t, err := ReadTable(p)
+		if err != nil {
+			return err
+		}
+		if err := t.need(p, "phi", "f"); err != nil {
+			return err
+		}
+		var phi, F, tD, sw []float64
+		for i := range t.Rows {
+			phi = append(phi, t.Num(i, "phi"))
+			F = append(F, t.Num(i, "f"))
+			tD = append(tD, t.Num(i, "td"))
+			sw = append(sw, t.Num(i, "sweep"))
+		}
+		lc := math.NaN()
+		if r.sum.LorenzCoefficient != nil {
+			lc = *r.sum.LorenzCoefficient
+		} else if v, err := LorenzCoefficient(phi, F); err == nil {
+			lc = v
+		}
+		name := "F–Φ curve"
+		if !math.IsNaN(lc) {
+			name = "F–Φ curve (Lc = " + FormatNumber(lc, 3) + ")"
+		}
+		if err := r.chart("f_phi", Chart{Title: "Flow capacity against storage capacity · Lorenz coefficient " + FormatNumber(lc, 3),
+			Subtitle: title, XLabel: "Storage capacity Φ (fraction of pore volume)", YLabel: "Flow capacity F (fraction of flow)",
+			LegendTitle: "Curve",
+			Series:      []Series{{Name: name, X: phi, Y: F}, {Name: "Homogeneous (Lc = 0)", X: []float64{0, 1}, Y: []float64{0, 1}, Reference: true}},
+			XMin:        0, XMax: 1, YMin: 0, YMax: 1},
+			"F–Φ curve: the fraction of flow carried by the fastest fraction of the pore volume; the Lorenz coefficient is twice the area between the curve and the diagonal."); err != nil {
+			return err
+		}
+		if len(cleanXY(tD, sw)) > 1 {
+			if err := r.chart("sweep", Chart{Title: "Sweep efficiency against dimensionless time", Subtitle: title,
+				XLabel: "Dimensionless time tD (pore volumes)", YLabel: "Sweep efficiency (fraction)", LegendTitle: "Curve",
+				Series: []Series{{Name: "Sweep efficiency", X: tD, Y: sw}}, YMin: 0, YMax: 1},
+				"Volumetric sweep efficiency from the time-of-flight distribution against dimensionless time."); err != nil {
+				return err
+			}
+		}
+	} else {
+		r.rep.note("diagnostics.csv missing: no F-Phi chart")
+	}
+	return nil
+}
