@@ -74,7 +74,9 @@ func Lorenz(phi, F []float64) float64 {
 // Ev = Phi + (1-F)*tD, evaluated at the segment's upper end (the moment
 // the last cell of the segment is swept). Before the first breakthrough
 // Ev = tD, so the first point is (0, 0). Segments with no flow (dF = 0)
-// are skipped. Both slices are nil for an invalid curve (see Lorenz).
+// are skipped, and consecutive segments of the same slope (cells of equal
+// travel time) give a single point. Both slices are nil for an invalid
+// curve (see Lorenz).
 func Sweep(phi, F []float64) (tD, Ev []float64) {
 	if !validCurve(phi, F) {
 		return nil, nil
@@ -86,8 +88,13 @@ func Sweep(phi, F []float64) (tD, Ev []float64) {
 			continue
 		}
 		t := (phi[m] - phi[m-1]) / dF
+		e := phi[m] + (1-F[m])*t
+		if n := len(tD); n > 1 && math.Abs(t-tD[n-1]) <= 1e-9*t {
+			tD[n-1], Ev[n-1] = t, e
+			continue
+		}
 		tD = append(tD, t)
-		Ev = append(Ev, phi[m]+(1-F[m])*t)
+		Ev = append(Ev, e)
 	}
 	return tD, Ev
 }

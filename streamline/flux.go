@@ -151,13 +151,15 @@ func (b *builder) assignFluxes() []string {
 				dev = math.Max(dev, math.Abs(v/injTarget[g]-1))
 			}
 		}
-		// The wells' own balance limits how far the two sets of totals can
-		// agree; 1e-10 is well below what matters.
+		// The two sets of totals can be met together only when every face
+		// has lines to every producer its flux reaches, and only as far as
+		// the wells balance; when a thin tube has no line the injector side
+		// stays off by about what that tube carries.
 		if dev < 1e-10 {
 			break
 		}
 		if it == 100 {
-			if dev > 1e-6 {
+			if dev > 1e-3 {
 				warn = append(warn, fmt.Sprintf("streamline fluxes: injector face totals balanced only to %.2g", dev))
 			}
 			break

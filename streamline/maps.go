@@ -172,9 +172,14 @@ func (b *builder) endWarnings(maxSteps int) []string {
 }
 
 // balanceWarnings reports cells whose face fluxes and well rate do not
-// balance: time of flight is only approximate there.
+// balance (relative to the cell's throughput, and not merely at the level
+// of a linear solver's residual): time of flight is only approximate there.
 func (t *tracer) balanceWarnings(f *Field) []string {
 	bad, worst, at := 0, 0.0, -1
+	qref := 0.0
+	for _, q := range t.q {
+		qref += math.Abs(q)
+	}
 	for k := 0; k < t.g.N(); k++ {
 		if !t.isActive(k) {
 			continue
@@ -187,7 +192,8 @@ func (t *tracer) balanceWarnings(f *Field) []string {
 		if scale == 0 {
 			continue
 		}
-		if e := math.Abs(t.out[k]-t.in[k]-src) / scale; e > 1e-6 {
+		imb := math.Abs(t.out[k] - t.in[k] - src)
+		if e := imb / scale; e > 1e-6 && imb > 1e-9*qref {
 			bad++
 			if e > worst {
 				worst, at = e, k
