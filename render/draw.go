@@ -548,6 +548,32 @@ func (c *mapCanvas) colourBar(sc Scale) {
 	}
 	s := c.l.S
 	dc := c.dc
+	// Pointed ends for values beyond the scale.
+	th := 0.75 * float64(b.Dx())
+	bx0, bx1 := float64(b.Min.X)-0.5, float64(b.Max.X)+0.5
+	top, bot := float64(b.Min.Y)-0.5, float64(b.Max.Y)+0.5
+	if sc.ExtendMax {
+		dc.MoveTo(bx0, top)
+		dc.LineTo((bx0+bx1)/2, top-th)
+		dc.LineTo(bx1, top)
+		dc.ClosePath()
+		dc.SetColor(cm.At(1))
+		dc.FillPreserve()
+		dc.SetColor(colInk)
+		dc.SetLineWidth(math.Max(1, 1.2*s))
+		dc.Stroke()
+	}
+	if sc.ExtendMin {
+		dc.MoveTo(bx0, bot)
+		dc.LineTo((bx0+bx1)/2, bot+th)
+		dc.LineTo(bx1, bot)
+		dc.ClosePath()
+		dc.SetColor(cm.At(0))
+		dc.FillPreserve()
+		dc.SetColor(colInk)
+		dc.SetLineWidth(math.Max(1, 1.2*s))
+		dc.Stroke()
+	}
 	dc.SetColor(colInk)
 	dc.SetLineWidth(math.Max(1, 1.2*s))
 	dc.DrawRectangle(float64(b.Min.X)-0.5, float64(b.Min.Y)-0.5, float64(b.Dx())+1, float64(b.Dy())+1)
@@ -899,7 +925,7 @@ func DrawStreamlines(s Scene, lines []Polyline, sc Scale, w, h int) (*image.RGBA
 		sc.Map = &TimeOfFlightColors
 	}
 	if sc.Label == "" {
-		sc.Label, sc.Unit, sc.Log = "Time of flight", "days, log scale", true
+		sc.Label, sc.Unit, sc.Log = "Total time of flight", "days, injector to producer, log scale", true
 	}
 	var err error
 	if len(tofs) == 0 && sc.Min == 0 && sc.Max == 0 {
@@ -932,11 +958,10 @@ func DrawStreamlines(s Scene, lines []Polyline, sc Scale, w, h int) (*image.RGBA
 	c.clipMap()
 	dc.SetLineCapRound()
 	dc.SetLineJoinRound()
-	lw := math.Max(0.8, 1.7*c.l.S)
-	if len(lines) > 1500 {
-		lw = math.Max(0.7, 1.3*c.l.S)
-	}
-	dc.SetLineWidth(lw)
+	// Thinner lines when there are many, so the dense bundles (high flux)
+	// stay distinct from the sparse ones.
+	lw := 1.8 * c.l.S * math.Min(1, math.Sqrt(300/math.Max(1, float64(len(lines)))))
+	dc.SetLineWidth(math.Max(0.6, math.Max(lw, 0.8*c.l.S)))
 	for _, n := range order {
 		ln := lines[n]
 		if len(ln.X) < 2 {

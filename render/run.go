@@ -193,24 +193,38 @@ func (r *run) prepare() error {
 		}
 	}
 
-	// One time-of-flight scale for the map and the streamlines.
-	lo, hi = math.Inf(1), math.Inf(-1)
+	// Time of flight: stagnant corners reach huge values, so the scale
+	// spans the 1st to 99th percentiles and the bar shows the clipping.
+	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
 	if p := filepath.Join(r.dir, "tof.asc"); exists(p) {
 		v, err := ReadASC(p, g)
 		if err != nil {
 			return err
 		}
-		for _, x := range v {
-			if x > 0 && !math.IsInf(x, 0) {
-				lo, hi = math.Min(lo, x), math.Max(hi, x)
-			}
-		}
-	}
-	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
-	if lo <= hi {
-		r.tofSc.Min, r.tofSc.Max = niceLogFloor(lo), niceLogCeil(hi)
+		r.tofSc = logScale(r.tofSc, v, active)
 	}
 	return nil
+}
+
+// logScale sets a log scale from the 1st to the 99th percentile of the
+// positive values, rounded outwards to 1, 2 or 5 times a power of ten.
+func logScale(sc Scale, v []float64, active []bool) Scale {
+	lo, hi, _, _, ok := RobustRange(v, active, 0.01, 0.99, true)
+	if !ok {
+		return sc
+	}
+	sc.Min, sc.Max = niceLogFloor(lo), niceLogCeil(hi)
+	if sc.Max <= sc.Min {
+		sc.Max = sc.Min * 10
+	}
+	for k, x := range v {
+		if active != nil && !active[k] || !(x > 0) || math.IsInf(x, 0) {
+			continue
+		}
+		sc.ExtendMin = sc.ExtendMin || x < sc.Min
+		sc.ExtendMax = sc.ExtendMax || x > sc.Max
+	}
+	return sc
 }
 
 // niceLogFloor and niceLogCeil round to 1, 2 or 5 times a power of ten.
@@ -366,18 +380,11 @@ func (r *run) streamlineMap() error {
 	if err != nil {
 		return err
 	}
-	sc := r.tofSc
-	if sc.Min == 0 && sc.Max == 0 {
-		lo, hi := math.Inf(1), math.Inf(-1)
-		for _, l := range lines {
-			if l.TotalTOF > 0 {
-				lo, hi = math.Min(lo, l.TotalTOF), math.Max(hi, l.TotalTOF)
-			}
-		}
-		if lo <= hi {
-			sc.Min, sc.Max = niceLogFloor(lo), niceLogCeil(hi)
-		}
+	tot := make([]float64, len(lines))
+	for i, l := range lines {
+		tot[i] = l.TotalTOF
 	}
+	sc := logScale(Scale{Label: "Total time of flight", Unit: "days, injector to producer, log scale", Log: true, Map: &TimeOfFlightColors}, tot, nil)
 	s := r.scene
 	s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
 	img, err := DrawStreamlines(s, lines, sc, r.opt.Width, r.opt.Height)

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"image"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 
@@ -17,9 +18,9 @@ const (
 	DefaultGIFWidth  = 960
 	DefaultGIFHeight = 540
 	// MaxSide bounds either side of a picture.
-	MaxSide = 8192
+	MaxSide = 10000
 	// MinSide is the smallest side that still leaves room for the layout.
-	MinSide = 240
+	MinSide = 120
 )
 
 // Scene is what every map shares: the titles, the grid, the active cells,
@@ -51,6 +52,9 @@ type Scale struct {
 	Min, Max    float64
 	Log         bool
 	Map         *Colormap
+	// ExtendMin and ExtendMax say that some values lie below Min or above
+	// Max (they take the end colours); the colour bar then ends in a point.
+	ExtendMin, ExtendMax bool
 }
 
 func (sc Scale) colormap() Colormap {
@@ -128,6 +132,30 @@ func (sc Scale) Resolve(values []float64, active []bool) (Scale, error) {
 	return sc, nil
 }
 
+// RobustRange returns the lo and hi quantiles (in [0,1], nearest rank) of
+// the finite values of the active cells, positive ones only when positive
+// is set, and whether any value lies outside that range. ok is false when
+// there is no value.
+func RobustRange(values []float64, active []bool, lo, hi float64, positive bool) (qlo, qhi float64, below, above, ok bool) {
+	var v []float64
+	for k, x := range values {
+		if active != nil && !active[k] || math.IsNaN(x) || math.IsInf(x, 0) || positive && x <= 0 {
+			continue
+		}
+		v = append(v, x)
+	}
+	if len(v) == 0 {
+		return 0, 0, false, false, false
+	}
+	sort.Float64s(v)
+	q := func(p float64) float64 {
+		i := int(math.Round(p * float64(len(v)-1)))
+		return v[min(max(i, 0), len(v)-1)]
+	}
+	qlo, qhi = q(lo), q(hi)
+	return qlo, qhi, v[0] < qlo, v[len(v)-1] > qhi, true
+}
+
 // Layout is the placement of a map picture: the header, the map and the
 // legend panel. ToPixel and ToMap convert between map coordinates and
 // pixel coordinates (origin top-left, y down), so tests and callers can
@@ -189,7 +217,7 @@ func NewLayout(g reservoir.Grid, w, h int) (Layout, error) {
 
 	bw := int(math.Round(36 * s))
 	bx := l.Panel.Min.X + int(math.Round(4*s))
-	by := l.Panel.Min.Y + int(math.Round(84*s))
+	by := l.Panel.Min.Y + int(math.Round(104*s))
 	bh := int(math.Round(0.40 * float64(l.Panel.Dy())))
 	l.Bar = image.Rect(bx, by, bx+bw, by+bh)
 	return l, nil
@@ -287,7 +315,7 @@ func LogTicks(lo, hi float64) []float64 {
 	var out []float64
 	e0, e1 := int(math.Floor(math.Log10(lo))), int(math.Ceil(math.Log10(hi)))
 	mult := []float64{1}
-	if e1-e0 <= 2 {
+	if e1-e0 <= 3 {
 		mult = []float64{1, 2, 5}
 	}
 	if e1-e0 > 8 {
