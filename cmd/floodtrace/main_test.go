@@ -1,0 +1,194 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"testing"
+)
+
+func run(t *testing.T, args ...string) (code int, out, errOut string) {
+	t.Helper()
+	var o, e bytes.Buffer
+	code = runMain(args, &o, &e)
+	return code, o.String(), e.String()
+}
+
+// TestBadInputCorpus runs `check` on every malformed case of
+// testdata/bad: each must end with exit code 1 and a message naming the
+// file and the culprit (the text of its expect.txt).
+func TestBadInputCorpus(t *testing.T) {
+	dirs, err := filepath.Glob("../../testdata/bad/*")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(dirs) < 30 {
+		t.Fatalf("only %d malformed cases in testdata/bad", len(dirs))
+	}
+	for _, d := range dirs {
+		t.Run(filepath.Base(d), func(t *testing.T) {
+			want, err := os.ReadFile(filepath.Join(d, "expect.txt"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, cmd := range []string{"check", "run"} {
+				args := []string{cmd, filepath.Join(d, "case.yaml")}
+				if cmd == "run" {
+					args = append(args, "--out", t.TempDir(), "--no-pictures", "--force")
+				}
+				code, _, e := run(t, args...)
+				if code != exitInput {
+					t.Errorf("%s: exit code %d, want 1; stderr:\n%s", cmd, code, e)
+				}
+				if w := strings.TrimSpace(string(want)); !strings.Contains(e, w) {
+					t.Errorf("%s: message %q does not contain %q", cmd, e, w)
+				}
+				if strings.Contains(e, "goroutine ") || strings.Contains(e, "panic") {
+					t.Errorf("%s: a stack trace reached the user:\n%s", cmd, e)
+				}
+			}
+		})
+	}
+}
+
+func TestUsageErrors(t *testing.T) {
+	for _, args := range [][]string{
+		{},
+		{"nosuch"},
+		{"run"},
+		{"run", "a.yaml"},
+		{"check", "a", "b"},
+		{"run", "a.yaml", "--out", "x", "--size", "12"},
+		{"run", "a.yaml", "--bogus"},
+	} {
+		code, _, e := run(t, args...)
+		if code != exitUsage {
+			t.Errorf("%v: exit code %d, want 2 (%s)", args, code, e)
+		}
+	}
+	code, _, e := run(t, "rnu")
+	if code != exitUsage || !strings.Contains(e, `did you mean "run"`) {
+		t.Errorf("a misspelt command should be suggested: %d %s", code, e)
+	}
+}
+
+func TestHelpEverywhere(t *testing.T) {
+	for name := range commands {
+		code, out, _ := run(t, name, "--help")
+		if code != exitOK || !strings.Contains(out, "usage: floodtrace "+name) || !strings.Contains(out, "Example") {
+			t.Errorf("%s --help: code %d, output:\n%s", name, code, out)
+		}
+	}
+	if code, out, _ := run(t, "--version"); code != 0 || !strings.HasPrefix(out, "floodtrace ") {
+		t.Errorf("--version: %d %q", code, out)
+	}
+}
+
+// TestPanicBecomesInternalError checks that a panic reaches the user as a
+// short message and exit code 3, with the stack only under --debug.
+func TestPanicBecomesInternalError(t *testing.T) {
+	register(&command{Name: "zz-panic", Usage: "zz-panic", Short: "test", Long: "Example: none", Run: func([]string) error {
+		var m map[string]int
+		m["x"] = 1 // a nil-map write panics
+		return nil
+	}})
+	defer delete(commands, "zz-panic")
+	code, _, e := run(t, "zz-panic")
+	if code != exitInternal || !strings.Contains(e, "internal error") || !strings.Contains(e, "please report") || strings.Contains(e, "goroutine") {
+		t.Errorf("code %d, stderr:\n%s", code, e)
+	}
+	code, _, e = run(t, "zz-panic", "--debug")
+	if code != exitInternal || !strings.Contains(e, "goroutine") {
+		t.Errorf("--debug should print the stack: code %d, stderr:\n%s", code, e)
+	}
+}
+
+const demo = "../../examples/vardel/case.yaml"
+
+func TestCheckDemo(t *testing.T) {
+	code, out, e := run(t, "check", demo)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, e)
+	}
+	for _, w := range []string{"Vardel Flats", "INJ-1", "PRD-5", "OOIP", "memory"} {
+		if !strings.Contains(out, w) {
+			t.Errorf("check output lacks %q:\n%s", w, out)
+		}
+	}
+}
+
+// TestOutputFolderSafety: a folder holding someone else's files is refused
+// unless --force, and with --force those files are left alone; a rerun into
+// floodtrace's own folder needs no --force.
+func TestOutputFolderSafety(t *testing.T) {
+	dir := t.TempDir()
+	mine := filepath.Join(dir, "notes.txt")
+	if err := os.WriteFile(mine, []byte("keep me"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, e := run(t, "run", demo, "--out", dir, "--no-pictures", "-q")
+	if code != exitInput || !strings.Contains(e, "notes.txt") || !strings.Contains(e, "--force") {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "summary.json")); err == nil {
+		t.Fatal("a refused run wrote files")
+	}
+	if code, _, e = run(t, "run", demo, "--out", dir, "--no-pictures", "-q", "--force"); code != 0 {
+		t.Fatalf("--force: code %d: %s", code, e)
+	}
+	if b, _ := os.ReadFile(mine); string(b) != "keep me" {
+		t.Fatal("the user's file was changed")
+	}
+	out := filepath.Join(t.TempDir(), "run")
+	for i := 0; i < 2; i++ {
+		if code, _, e = run(t, "run", demo, "--out", out, "--no-pictures", "-q"); code != 0 {
+			t.Fatalf("run %d into floodtrace's own folder: code %d: %s", i, code, e)
+		}
+	}
+	ents, _ := os.ReadDir(out)
+	for _, e := range ents {
+		if strings.Contains(e.Name(), "floodtrace-tmp") {
+			t.Errorf("temporary file left behind: %s", e.Name())
+		}
+	}
+}
+
+// TestDeterministicOutputs runs the demo with 1, 2 and 8 cores and
+// requires byte-identical data files.
+func TestDeterministicOutputs(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs the demo three times")
+	}
+	prev := runtime.GOMAXPROCS(0)
+	defer runtime.GOMAXPROCS(prev)
+	var ref map[string][]byte
+	for _, procs := range []int{1, 2, 8} {
+		runtime.GOMAXPROCS(procs)
+		dir := t.TempDir()
+		if code, _, e := run(t, "run", demo, "--out", dir, "--no-pictures", "-q"); code != 0 {
+			t.Fatalf("GOMAXPROCS=%d: code %d: %s", procs, code, e)
+		}
+		files := map[string][]byte{}
+		filepath.WalkDir(dir, func(p string, d os.DirEntry, err error) error {
+			if err == nil && !d.IsDir() {
+				rel, _ := filepath.Rel(dir, p)
+				files[rel], _ = os.ReadFile(p)
+			}
+			return nil
+		})
+		if ref == nil {
+			ref = files
+			if len(ref) < 10 {
+				t.Fatalf("only %d files written", len(ref))
+			}
+			continue
+		}
+		for name, b := range ref {
+			if !bytes.Equal(files[name], b) {
+				t.Errorf("GOMAXPROCS=%d: %s differs from the 1-core run", procs, name)
+			}
+		}
+	}
+}
