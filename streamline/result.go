@@ -82,8 +82,12 @@ type Result struct {
 	// injector-to-producer time. NaN where no line with flux reaches.
 	TOF, BackTOF, Travel []float64
 	// Volume is the traced pore volume of each cell, the sum over lines of
-	// flux*tau in the cell; it approaches the cell pore volume as the lines
-	// get denser.
+	// flux*tau in the cell. Its total approaches the pore volume of the
+	// flowing region as the lines get denser (error about proportional to
+	// the line spacing); cell by cell it scatters more, most near
+	// stagnation points, where a line that passes close by spends a long
+	// time in few cells. Users that map volumes between lines and cells
+	// can rescale tau cell by cell with it.
 	Volume []float64
 	// InjectorPartition and ProducerPartition give for each cell the well
 	// (index into Field.Wells) whose lines carry the largest share of the
@@ -153,6 +157,16 @@ type builder struct {
 // 1940) so that the lines of every injector face carry the face flux and
 // the lines of every producer carry its rate. The sum of flux*tau over all
 // lines then approaches the pore volume of the flowing region.
+//
+// Inside a well cell, where Pollock's linear field cannot represent the
+// point well, a line is charged the cell's mean residence time, pore
+// volume over throughput (common practice). A producer that also passes
+// flow on (a weak sink) keeps the lines that enter the middle of its faces,
+// in proportion to its share of the cell's inflow; the others go on.
+// Lines whose downstream end is not at a producer (stagnation point, step
+// cap, grid edge) carry no flux; lines that reach a producer but trace back
+// to no injector take their flux from their share of the producer face.
+// Ends away from wells are counted in Result.Warnings.
 func Trace(f *Field, s Settings) (*Result, error) {
 	if f == nil {
 		return nil, errors.New("streamline: nil field")

@@ -210,3 +210,23 @@ func TestBadInput(t *testing.T) {
 		t.Errorf("good field refused: %v", err)
 	}
 }
+
+// TestNoFlow: a field without flux (shut wells, or wells in cells that
+// carry nothing) gives no lines, all active cells stagnant, NaN times and
+// a warning for the producer that receives nothing.
+func TestNoFlow(t *testing.T) {
+	f := emptyField(4, 3, 7)
+	f.Wells = []Well{{"I", 0, 0}, {"P", 11, -2}}
+	r, err := Trace(f, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Lines) != 0 || len(r.Pairs) != 0 || !hasWarning(r, `producer "P"`) {
+		t.Errorf("%d lines, pairs %v, warnings %q", len(r.Lines), r.Pairs, r.Warnings)
+	}
+	for k := range r.Stagnant {
+		if !r.Stagnant[k] || !math.IsNaN(r.TOF[k]) || !math.IsNaN(r.BackTOF[k]) || r.InjectorPartition[k] != -1 {
+			t.Errorf("cell %d: stagnant %v, TOF %g, back TOF %g, partition %d", k, r.Stagnant[k], r.TOF[k], r.BackTOF[k], r.InjectorPartition[k])
+		}
+	}
+}
