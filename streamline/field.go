@@ -70,6 +70,7 @@ const (
 	StepCap
 )
 
+// String names the reason.
 func (e EndReason) String() string {
 	switch e {
 	case AtWell:
@@ -91,6 +92,7 @@ type FieldError struct {
 	Msg   string
 }
 
+// Error describes the defect.
 func (e *FieldError) Error() string {
 	if e.Index >= 0 {
 		return fmt.Sprintf("streamline: %s[%d]: %s", e.What, e.Index, e.Msg)

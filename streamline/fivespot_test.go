@@ -2,6 +2,7 @@ package streamline_test
 
 import (
 	"math"
+	"strconv"
 	"testing"
 
 	"floodtrace/reservoir"
@@ -203,16 +204,16 @@ func diffResult(a, b *streamline.Result) string {
 			la.Launch != lb.Launch || math.Float64bits(la.Flux) != math.Float64bits(lb.Flux) ||
 			math.Float64bits(la.TotalTau) != math.Float64bits(lb.TotalTau) || !same(la.Tau, lb.Tau) ||
 			len(la.Cells) != len(lb.Cells) || len(la.Path) != len(lb.Path) {
-			return "line " + itoa(i)
+			return "line " + strconv.Itoa(i)
 		}
 		for m := range la.Cells {
 			if la.Cells[m] != lb.Cells[m] {
-				return "cells of line " + itoa(i)
+				return "cells of line " + strconv.Itoa(i)
 			}
 		}
 		for m := range la.Path {
 			if la.Path[m] != lb.Path[m] {
-				return "path of line " + itoa(i)
+				return "path of line " + strconv.Itoa(i)
 			}
 		}
 	}
@@ -230,17 +231,13 @@ func diffResult(a, b *streamline.Result) string {
 	}
 	for i := range a.Pairs {
 		if a.Pairs[i] != b.Pairs[i] {
-			return "pair " + itoa(i)
+			return "pair " + strconv.Itoa(i)
 		}
 	}
 	if len(a.Warnings) != len(b.Warnings) {
 		return "warnings"
 	}
 	return ""
-}
-
-func itoa(i int) string {
-	return string(rune('0'+i/1000%10)) + string(rune('0'+i/100%10)) + string(rune('0'+i/10%10)) + string(rune('0'+i%10))
 }
 
 // TestVolumeBookkeeping checks, on a heterogeneous field with several

@@ -22,6 +22,7 @@ const (
 	FromCell
 )
 
+// String names the launch.
 func (l Launch) String() string {
 	switch l {
 	case FromInjector:
