@@ -126,14 +126,21 @@ func (f *FracFlow) DFw(s float64) float64 {
 	if x < 0 || x > 1 {
 		return 0
 	}
-	krw := c.KrwMax * math.Pow(x, c.Nw)
-	kro := c.KroMax * math.Pow(1-x, c.No)
+	// x^n = x * x^(n-1): two powers instead of four.
+	pw, po := math.Pow(x, c.Nw-1), math.Pow(1-x, c.No-1)
+	krw, kro := c.KrwMax*x*pw, c.KroMax*(1-x)*po
+	if x == 0 || c.Nw == 0 {
+		krw = c.KrwMax * math.Pow(x, c.Nw)
+	}
+	if x == 1 || c.No == 0 {
+		kro = c.KroMax * math.Pow(1-x, c.No)
+	}
 	dkrw, dkro := 0.0, 0.0
 	if c.Nw != 0 {
-		dkrw = c.KrwMax * c.Nw * math.Pow(x, c.Nw-1) / d
+		dkrw = c.KrwMax * c.Nw * pw / d
 	}
 	if c.No != 0 {
-		dkro = -c.KroMax * c.No * math.Pow(1-x, c.No-1) / d
+		dkro = -c.KroMax * c.No * po / d
 	}
 	lw, lo := krw/f.muW, kro/f.muO
 	dlw, dlo := dkrw/f.muW, dkro/f.muO

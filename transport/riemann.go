@@ -518,8 +518,8 @@ func (t *fanTable) invert(xi float64, dg func(float64) float64) float64 {
 	if fa == 0 {
 		return a
 	}
-	tol := 1e-14 * (math.Abs(a) + math.Abs(b) + 1e-300)
-	ftol := 1e-15 * (math.Abs(xi) + t.v[0])
+	tol := 1e-13 * (math.Abs(a) + math.Abs(b) + 1e-300)
+	ftol := 1e-14 * (math.Abs(xi) + t.v[0])
 	c := a
 	side := 0
 	for it := 0; it < 40; it++ {
