@@ -3,4 +3,13 @@
 // approximation, Peaceman well indices and rate or bottom-hole-pressure
 // well controls, and returns cell pressures, face fluxes, well rates and
 // bottom-hole pressures.
+//
+// Solve is the entry point; Assemble exposes the linear system for
+// benchmarks and preconditioner work. Regions cut off from every open well
+// are left out and reported; regions driven by rate-controlled wells alone
+// are solved with a gauge cell at pressure 0.
+//
+// References: Peaceman (1978, 1983) for the well model; Meijerink and van
+// der Vorst (1977) and Gustafsson (1978) for the incomplete Cholesky
+// preconditioners of package sparse.
 package pressure

@@ -61,7 +61,7 @@ func (rc radialCase) solve(t *testing.T) (*reservoir.Model, *Solution) {
 		iw := mustAddWell(t, m, "I"+string(rune('a'+w)), reservoir.Injector, c+d[0], c+d[1], reservoir.BHPControl, 3000)
 		iw.Radius = rc.rw
 	}
-	sol, err := Solve(Input{Model: m, Mobility: uniformMobility(m, rc.mu)}, Settings{Tol: 1e-12})
+	sol, err := Solve(Input{Model: m, Mobility: uniformMobility(m, rc.mu)}, Settings{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -182,7 +182,7 @@ func TestDoublet(t *testing.T) {
 			inj.Radius = tc.rw
 			prod := mustAddWell(t, m, "P", reservoir.Producer, c+tc.sep/2, c, reservoir.RateControl, tc.q)
 			prod.Radius = tc.rw
-			sol, err := Solve(Input{Model: m, Mobility: uniformMobility(m, tc.mu)}, Settings{Tol: 1e-12})
+			sol, err := Solve(Input{Model: m, Mobility: uniformMobility(m, tc.mu)}, Settings{})
 			if err != nil {
 				t.Fatal(err)
 			}
