@@ -81,7 +81,8 @@ func volume(s, dtau []float64) float64 {
 
 func TestAdvanceMassConservation(t *testing.T) {
 	// Conservative finite volumes change the water in place only by the
-	// boundary fluxes (LeVeque 2002, section 4.1); checked to round-off.
+	// boundary fluxes (LeVeque 2002, chapter 4, from memory); checked to
+	// round-off.
 	ff := sandstone()
 	fl, err := NewFlux(ff)
 	if err != nil {
@@ -173,8 +174,8 @@ func observedOrders(e []float64) []float64 {
 }
 
 func TestAdvanceConvergesToRiemann(t *testing.T) {
-	// Expected L1 orders (LeVeque 2002, sections 8.6-8.7 and 12.?, from
-	// memory): for a linear contact discontinuity, first-order upwind
+	// Expected L1 orders (LeVeque 2002, section 8.7 on discontinuous
+	// data, from memory): for a linear contact discontinuity, first-order upwind
 	// converges at order 1/2 and limited second-order schemes at about
 	// 2/3; for a compressive (self-sharpening) Buckley-Leverett front the
 	// smeared zone stays a few cells wide, so both converge at about order
@@ -238,7 +239,8 @@ func TestAdvanceConvergesToRiemann(t *testing.T) {
 
 func TestTVDBeatsUpwind(t *testing.T) {
 	// At equal resolution the limited second-order scheme is closer to the
-	// exact solution (LeVeque 2002, chapter 6, from memory).
+	// exact solution (LeVeque 2002, chapter 6, from memory; the exact
+	// solution is the Riemann solution, Buckley and Leverett 1942).
 	ff := sandstone()
 	r, _ := NewRiemann(ff, 0.2, 0.75)
 	fl, _ := NewFlux(ff)

@@ -53,13 +53,15 @@ func NewFracFlow(rp reservoir.RelPerm, muW, muO float64) *FracFlow {
 	case reservoir.Corey:
 		f.corey = &c
 	case *reservoir.Corey:
-		if c != nil {
+		if c == nil {
+			f.rp = nil // a typed nil: no curves
+		} else {
 			cc := *c
 			f.corey = &cc
 		}
 	}
-	if rp != nil {
-		f.swc, f.sor = rp.Endpoints()
+	if f.rp != nil {
+		f.swc, f.sor = f.rp.Endpoints()
 	}
 	return f
 }
@@ -87,13 +89,20 @@ func (f *FracFlow) Endpoints() (swc, sor float64) { return f.swc, f.sor }
 // Mobility returns the total mobility krw/muw + kro/muo at saturation s
 // (reciprocal viscosity units).
 func (f *FracFlow) Mobility(s float64) float64 {
+	if f.rp == nil {
+		return math.NaN()
+	}
 	return f.rp.Krw(s)/f.muW + f.rp.Kro(s)/f.muO
 }
 
 // Fw returns the water fractional flow at saturation s (Buckley and
 // Leverett 1942). Where both phases are immobile it returns 0 below the
-// middle of the mobile range and 1 above it.
+// middle of the mobile range and 1 above it. Without relative
+// permeabilities it returns NaN.
 func (f *FracFlow) Fw(s float64) float64 {
+	if f.rp == nil {
+		return math.NaN()
+	}
 	lw := f.rp.Krw(s) / f.muW
 	lo := f.rp.Kro(s) / f.muO
 	t := lw + lo
@@ -110,6 +119,9 @@ func (f *FracFlow) Fw(s float64) float64 {
 // points of the mobile range, from the inside), numerical otherwise
 // (Ridders 1982).
 func (f *FracFlow) DFw(s float64) float64 {
+	if f.rp == nil {
+		return math.NaN()
+	}
 	if f.corey == nil {
 		lo, hi := f.swc, 1-f.sor
 		if s < lo || s > hi {
@@ -154,5 +166,8 @@ func (f *FracFlow) DFw(s float64) float64 {
 // EndpointMobilityRatio returns M = (krw(1-sor)/muw) / (kro(swc)/muo), the
 // end-point mobility ratio of water displacing oil (Craig 1971).
 func (f *FracFlow) EndpointMobilityRatio() float64 {
+	if f.rp == nil {
+		return math.NaN()
+	}
 	return (f.rp.Krw(1-f.sor) / f.muW) / (f.rp.Kro(f.swc) / f.muO)
 }

@@ -57,7 +57,8 @@ var ErrNegativeSpeed = errors.New("transport: fractional flow decreases with sat
 // The envelope is built from 2048 samples by Andrew's (1979) monotone-chain
 // upper hull; tangent points are then refined by bisection on the tangency
 // condition fw(y) - fw(x) - fw'(x)(y-x) = 0, so shock saturations are
-// accurate to round-off given an accurate derivative.
+// accurate to round-off given an accurate derivative. A Riemann is
+// read-only after construction and safe for concurrent use if its curve is.
 type Riemann struct {
 	c           Curve
 	sInit, sInj float64

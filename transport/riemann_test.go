@@ -408,13 +408,15 @@ func TestWelgeAverageSaturation(t *testing.T) {
 	}
 	const tau = 100.0
 	tbt := r.Breakthrough(tau)
+	// Pore volumes injected into the streamline, t/tau, as multiples of the
+	// breakthrough value 1/fw'(Sf).
 	for _, m := range []float64{0.4, 0.9, 1.0, 1.3, 2, 4, 10} {
 		tt := m * tbt
 		xi := tau / tt
 		got := r.AverageSaturation(tau, tt)
 		num := integrate(r, 0, tau, tt) / tau
 		if d := math.Abs(got - num); d > 1e-9 {
-			t.Errorf("t=%.3g tbt: AverageSaturation %.12f, quadrature of Saturation %.12f", m, got, num)
+			t.Errorf("PVI=%.3g PVIbt: AverageSaturation %.12f, quadrature of Saturation %.12f", m, got, num)
 		}
 		if m > 1 {
 			// After breakthrough, Welge (1952): Sw_avg = Sw2 + (1-fw2)/fw'(Sw2),
@@ -422,7 +424,7 @@ func TestWelgeAverageSaturation(t *testing.T) {
 			s2 := r.Saturation(xi)
 			welge := s2 + (1-ff.Fw(s2))/ff.DFw(s2)
 			if d := math.Abs(welge - num); d > 1e-8 {
-				t.Errorf("t=%.3g tbt: Welge %.12f, quadrature %.12f", m, welge, num)
+				t.Errorf("PVI=%.3g PVIbt: Welge %.12f, quadrature %.12f", m, welge, num)
 			}
 			if d := math.Abs(r.OutletFw(tau, tt) - ff.Fw(s2)); d > 0 {
 				t.Errorf("outlet fw off by %g", d)
@@ -488,6 +490,7 @@ func TestRiemannErrors(t *testing.T) {
 		want        error
 	}{
 		{"nil curve", nil, 0, 1, nil},
+		{"typed nil relperm", NewFracFlow((*reservoir.Corey)(nil), 1, 1), 0, 1, nil},
 		{"NaN saturation", lin, math.NaN(), 1, nil},
 		{"injected above 1", lin, 0, 1.2, nil},
 		{"initial below 0", lin, -0.1, 1, nil},
@@ -506,6 +509,20 @@ func TestRiemannErrors(t *testing.T) {
 	}
 	if _, err := NewRiemannFunc(nil, 0, 1); err == nil {
 		t.Error("nil func accepted")
+	}
+	// Injecting above 1-sor: fw is flat there, a standing shock at the
+	// inlet (speed 0) and the usual Welge solution (1952) beyond it.
+	ff := sandstone()
+	r0, err := NewRiemann(ff, 0.2, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ref, _ := NewRiemann(ff, 0.2, 0.75)
+	if w := r0.Waves(); w[0].Kind != Shock || w[0].FastSpeed != 0 || math.Abs(w[0].Ahead-0.75) > 1e-12 {
+		t.Errorf("standing shock expected first: %v", w)
+	}
+	if d := math.Abs(r0.FrontSaturation() - ref.FrontSaturation()); d > 1e-12 {
+		t.Errorf("front saturation %g, want %g", r0.FrontSaturation(), ref.FrontSaturation())
 	}
 	// Nothing injected: no waves, nothing moves.
 	r, err := NewRiemann(lin, 0.3, 0.3)
