@@ -798,6 +798,9 @@ func cellColours(s Scene, values []float64, sc Scale) []color.RGBA {
 // north arrow and a scale bar. NaN values are drawn hatched as "no
 // value"; inactive cells light grey.
 func DrawField(s Scene, values []float64, sc Scale, w, h int) (*image.RGBA, error) {
+	if err := checkScene(s); err != nil {
+		return nil, err
+	}
 	if len(values) != s.Grid.N() {
 		return nil, fmt.Errorf("render: %d values for a %dx%d grid", len(values), s.Grid.NX, s.Grid.NY)
 	}
@@ -834,6 +837,9 @@ func DrawField(s Scene, values []float64, sc Scale, w, h int) (*image.RGBA, erro
 // of the categorical palette (in the order of names), boundaries between
 // partitions are outlined, and the legend lists the wells.
 func DrawPartition(s Scene, part []int, names []string, legendTitle string, w, h int) (*image.RGBA, error) {
+	if err := checkScene(s); err != nil {
+		return nil, err
+	}
 	if len(part) != s.Grid.N() {
 		return nil, fmt.Errorf("render: %d partition values for a %dx%d grid", len(part), s.Grid.NX, s.Grid.NY)
 	}

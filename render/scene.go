@@ -95,6 +95,9 @@ func (sc Scale) Value(t float64) float64 {
 // constant. It reports an error when no usable value exists or the bounds
 // are invalid.
 func (sc Scale) Resolve(values []float64, active []bool) (Scale, error) {
+	if active != nil && len(active) != len(values) {
+		return sc, fmt.Errorf("render: scale %q: %d values for %d mask cells", sc.Label, len(values), len(active))
+	}
 	if sc.Min == 0 && sc.Max == 0 {
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for k, v := range values {
@@ -210,6 +213,9 @@ func NewLayout(g reservoir.Grid, w, h int) (Layout, error) {
 		return Layout{}, fmt.Errorf("render: %dx%d pixels leave no room for the map", w, h)
 	}
 	ppu = math.Min(float64(mw)/wm, float64(mh)/hm)
+	// The tight pixel cover of the grid at that scale.
+	mw = int(math.Ceil(wm*ppu - 1e-6))
+	mh = int(math.Ceil(hm*ppu - 1e-6))
 	x0 := int(math.Round(ax0 + ((ax1-ax0)-float64(mw))/2))
 	y0 := int(math.Round(ay0 + ((ay1-ay0)-float64(mh))/2))
 	l.Map = image.Rect(x0, y0, x0+mw, y0+mh)
