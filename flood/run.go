@@ -27,6 +27,9 @@ type Settings struct {
 	Pressure pressure.Settings
 	// Log, when set, receives one line per stage.
 	Log func(format string, args ...any)
+	// Engine selects the engine: "streamline" (the default, also for "")
+	// or "grid" (the IMPES reference engine, RunGrid).
+	Engine string
 }
 
 // Snapshot is a saturation map at one time.
@@ -138,6 +141,16 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	}
 	if m.Run.End <= 0 {
 		return nil, errors.New("run.end must be positive")
+	}
+	switch s.Engine {
+	case "", "streamline":
+	case "grid":
+		return RunGrid(m, s, GridOptions{})
+	default:
+		return nil, fmt.Errorf("unknown engine %q (want streamline or grid)", s.Engine)
+	}
+	if needsUpdates(m) {
+		return RunUpdates(m, s, UpdateOptions{})
 	}
 	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)

@@ -1,0 +1,163 @@
+package flood
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"floodtrace/reservoir"
+)
+
+// WellSchedule gives the state of every well at any time of a run, from
+// the wells of the case (Model.Wells, with Well.Open for a well drilled
+// later) and its schedule events (Model.Schedule: rate, BHP, shut-in,
+// reopening, conversion between injector and producer).
+//
+// States are piecewise constant in time: an event at day T applies from T
+// on, so the state on [T, next change) is the state after every event up to
+// and including T, in the order of the case file. A well with Open = d is
+// shut before day d and opens at d. A conversion keeps the well's control
+// and target unless the event also gives a rate or a BHP. The zero value
+// has no wells; use NewWellSchedule.
+type WellSchedule struct {
+	wells   []reservoir.Well
+	events  []reservoir.Event // sorted by time (stable)
+	changes []float64         // times in (0, inf) where some state changes
+}
+
+// NewWellSchedule checks the schedule of m against its wells and returns
+// the schedule. Events naming unknown wells, or with times that are not
+// finite and non-negative, are errors.
+func NewWellSchedule(m *reservoir.Model) (*WellSchedule, error) {
+	if m == nil {
+		return nil, fmt.Errorf("flood: schedule of a nil model")
+	}
+	s := &WellSchedule{wells: m.Wells, events: slices.Clone(m.Schedule)}
+	for i, e := range s.events {
+		if m.WellIndex(e.Well) < 0 {
+			return nil, fmt.Errorf("flood: schedule event %d (day %g) names unknown well %q", i+1, e.Time, e.Well)
+		}
+		if !(e.Time >= 0) || math.IsInf(e.Time, 0) {
+			return nil, fmt.Errorf("flood: schedule event %d for well %s has time %g", i+1, e.Well, e.Time)
+		}
+		if e.Convert != "" && e.Convert != reservoir.Injector && e.Convert != reservoir.Producer {
+			return nil, fmt.Errorf("flood: schedule event %d for well %s converts to unknown type %q", i+1, e.Well, e.Convert)
+		}
+	}
+	slices.SortStableFunc(s.events, func(a, b reservoir.Event) int {
+		switch {
+		case a.Time < b.Time:
+			return -1
+		case a.Time > b.Time:
+			return 1
+		}
+		return 0
+	})
+	for _, w := range m.Wells {
+		if !(w.Open >= 0) || math.IsInf(w.Open, 0) {
+			return nil, fmt.Errorf("flood: well %s opens at day %g", w.Name, w.Open)
+		}
+		if w.Open > 0 {
+			s.changes = append(s.changes, w.Open)
+		}
+	}
+	for _, e := range s.events {
+		if e.Time > 0 {
+			s.changes = append(s.changes, e.Time)
+		}
+	}
+	slices.Sort(s.changes)
+	s.changes = slices.Compact(s.changes)
+	return s, nil
+}
+
+// Changes returns the times after day 0 at which some well changes state
+// (openings and events), in increasing order, up to and including end.
+func (s *WellSchedule) Changes(end float64) []float64 {
+	var out []float64
+	for _, t := range s.changes {
+		if t <= end {
+			out = append(out, t)
+		}
+	}
+	return out
+}
+
+// HasChanges reports whether any well changes state after day 0 and up to
+// day end: the case then needs pressure updates.
+func (s *WellSchedule) HasChanges(end float64) bool {
+	return len(s.changes) > 0 && s.changes[0] <= end || s.hasDayZeroEvents()
+}
+
+func (s *WellSchedule) hasDayZeroEvents() bool {
+	return len(s.events) > 0 && s.events[0].Time == 0
+}
+
+// At returns the wells in force at day t (see WellSchedule), in the order
+// of Model.Wells: a fresh slice the caller may keep. Wells not yet open or
+// shut in have Shut set.
+func (s *WellSchedule) At(t float64) []reservoir.Well {
+	ws := make([]reservoir.Well, len(s.wells))
+	s.AtInto(ws, t)
+	return ws
+}
+
+// AtInto is At writing into ws, which must have one element per well.
+func (s *WellSchedule) AtInto(ws []reservoir.Well, t float64) {
+	copy(ws, s.wells)
+	// reopened[i] records an explicit reopening, which also opens a well
+	// whose drilling day has not come (the case checker treats it so).
+	reopened := make([]bool, len(ws))
+	for _, e := range s.events {
+		if e.Time > t {
+			break
+		}
+		i := s.index(e.Well)
+		w := &ws[i]
+		switch {
+		case e.Shut:
+			w.Shut = true
+			reopened[i] = false
+		case e.Reopen:
+			w.Shut = false
+			reopened[i] = true
+		}
+		if e.Convert != "" {
+			w.Type = e.Convert
+		}
+		if !math.IsNaN(e.Rate) {
+			w.Control, w.Rate = reservoir.RateControl, e.Rate
+		}
+		if !math.IsNaN(e.BHP) {
+			w.Control, w.BHP = reservoir.BHPControl, e.BHP
+		}
+	}
+	for i := range ws {
+		if ws[i].Open > t && !reopened[i] {
+			ws[i].Shut = true
+		}
+	}
+}
+
+func (s *WellSchedule) index(name string) int {
+	for i := range s.wells {
+		if s.wells[i].Name == name {
+			return i
+		}
+	}
+	return -1
+}
+
+// EverType reports whether well i is of type typ at some time in [0, end]:
+// a converted well is both an injector and a producer over the run.
+func (s *WellSchedule) EverType(i int, typ reservoir.WellType, end float64) bool {
+	if s.wells[i].Type == typ {
+		return true
+	}
+	for _, e := range s.events {
+		if e.Time <= end && e.Well == s.wells[i].Name && e.Convert == typ {
+			return true
+		}
+	}
+	return false
+}

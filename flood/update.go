@@ -1,0 +1,1052 @@
+package flood
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"slices"
+	"sync"
+
+	"floodtrace/pressure"
+	"floodtrace/reservoir"
+	"floodtrace/streamline"
+	"floodtrace/transport"
+)
+
+// UpdateOptions tunes the pressure-update mode (RunUpdates). The zero
+// value is the default used by Run.
+type UpdateOptions struct {
+	// Scheme is the 1D transport scheme along the streamlines; the zero
+	// value is first-order upwind (see transport.Advance).
+	Scheme transport.Scheme
+	// CFL is the Courant number of the 1D sub-steps; 0 = the transport
+	// package's default for the scheme.
+	CFL float64
+	// Threshold is the produced water fraction that marks a producer's
+	// water breakthrough; 0 = 1e-3.
+	Threshold float64
+}
+
+// BreakthroughThreshold is the default water fraction of a producer's
+// rate that marks its water breakthrough in the numerical engines
+// (pressure updates and grid).
+const BreakthroughThreshold = 1e-3
+
+// breakthroughProbes is the number of equal parts of a report interval in
+// which a breakthrough is located (see RunUpdates).
+const breakthroughProbes = 32
+
+// RunUpdates runs the case with streamlines updated in time: at each
+// update time the total mobility of every cell is computed from its water
+// saturation, the pressure is solved with the wells in force at that time,
+// streamlines are traced anew, the cell saturations are mapped onto them
+// (each segment takes the saturation of its cell), the 1D transport
+// equation dS/dt + dfw/dtau = 0 is solved numerically along each line over
+// the interval (Buckley and Leverett 1942; transport.Advance, each line
+// with its own stable sub-steps), and the line saturations are mapped
+// back to the cells by flux*tau weighting. This is the
+// IMPES-like sequence of streamline simulation (Batycky, Blunt and Thiele
+// 1997; Thiele, Batycky and Blunt 1996, from memory).
+//
+// Update times are the N = run.pressure_updates times evenly spaced over
+// the run (0, end/N, 2*end/N, ...) or 0 and the listed run.update_times,
+// together with every schedule event and well opening (WellSchedule).
+//
+// Conservation. The time of flight of the lines crossing a cell is
+// rescaled so that their flux*tau adds up to the cell's pore volume; the
+// saturation of a line segment is its cell's, and the cell's is the
+// flux*tau weighted mean of its segments, so both mappings conserve water
+// exactly. Along a line, the time of flight is re-partitioned into nodes of
+// comparable length (segments split or merged, transport.Remap, which is
+// conservative) so that a line clipping a cell corner does not dictate the
+// sub-step. Cells that no line crosses keep their saturation. The water
+// balance (injected - produced - change of water in place) / injected is
+// reported in Result.MassBalanceError.
+//
+// Producers. A producer's water cut over a report interval is the
+// flux-weighted mean water fraction leaving its lines, its rates those of
+// the pressure solves in force (report values are averages over the report
+// interval, so they integrate to the cumulative volumes). A producer that no
+// line reaches produces at the water fraction of its cell. Breakthrough is
+// the first time the produced water fraction exceeds Threshold: the report
+// interval in which it happens is advanced again in 32 equal parts and the
+// crossing interpolated, so it is located to 1/32 of the report interval
+// (and within the resolution of the 1D scheme). AvgSw is the pore-volume
+// weighted saturation of the cells of the producer's partition.
+//
+// Lines are advanced in parallel over Settings.Workers goroutines; every
+// reduction runs in line order, so results do not depend on the count.
+func RunUpdates(m *reservoir.Model, s Settings, o UpdateOptions) (*Result, error) {
+	u, err := newUpdateRun(m, s, o)
+	if err != nil {
+		return nil, err
+	}
+	if err := u.run(); err != nil {
+		return nil, err
+	}
+	return u.r, nil
+}
+
+// needsUpdates reports whether the case asks for pressure updates or has a
+// schedule that the fixed-streamline path cannot honour.
+func needsUpdates(m *reservoir.Model) bool {
+	if m.Run.PressureUpdates > 1 || len(m.Run.UpdateTimes) > 0 {
+		return true
+	}
+	if len(m.Schedule) > 0 {
+		return true
+	}
+	for _, w := range m.Wells {
+		if w.Open > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// UpdateTimes returns the pressure-update times of a run: evenly spaced
+// (run.pressure_updates) or 0 and run.update_times, merged with the
+// schedule's change times, sorted, without duplicates, all in [0, end).
+func UpdateTimes(m *reservoir.Model, sched *WellSchedule) []float64 {
+	end := m.Run.End
+	ts := []float64{0}
+	if len(m.Run.UpdateTimes) > 0 {
+		ts = append(ts, m.Run.UpdateTimes...)
+	} else if n := m.Run.PressureUpdates; n > 1 {
+		for k := 1; k < n; k++ {
+			ts = append(ts, end*float64(k)/float64(n))
+		}
+	}
+	if sched != nil {
+		ts = append(ts, sched.Changes(end)...)
+	}
+	slices.Sort(ts)
+	out := ts[:0]
+	for _, t := range ts {
+		if !(t >= 0 && t < end*(1-1e-12)) {
+			continue
+		}
+		if len(out) > 0 && t-out[len(out)-1] <= 1e-9*end {
+			continue
+		}
+		out = append(out, t)
+	}
+	return out
+}
+
+// updateRun is the state of one pressure-update run.
+type updateRun struct {
+	m       *reservoir.Model
+	s       Settings
+	o       UpdateOptions
+	r       *Result
+	ff      *transport.FracFlow
+	fl      *transport.Flux
+	set     transport.Settings
+	sched   *WellSchedule
+	workers int
+	logf    func(string, ...any)
+
+	pv, sw     []float64
+	swi, sInj  float64
+	sLine      float64 // inlet state of lines from injectors (fw exactly 1)
+	threshold  float64
+	wells      []reservoir.Well // state in force
+	mob        []float64
+	seen       map[string]bool // warnings already given
+	reports    []float64
+	stops      []float64 // report, snapshot and frame times, sorted
+	snapTimes  []float64
+	frameTimes []float64
+
+	// Well bookkeeping.
+	prodOf, injOf  []int     // model well -> producer / injector index, -1
+	perW, perL     []float64 // per producer: water and liquid of the current report period
+	cumW, cumL     []float64 // per producer: cumulative water and liquid
+	cumInj         float64   // cumulative injected water
+	otherProduced  float64   // water leaving through wells that are not producers
+	unsourced      float64   // water entering lines that start at no injector
+	periodStart    float64
+	nextReport     int
+	rate           []float64 // per producer: rate of the solve in force
+	broken         []bool    // per producer: breakthrough found
+	partition      []int     // producer partition of the current trace
+	firstTraceDone bool
+
+	// Streamline transport buffers, reused across updates.
+	ls       *lineSet
+	act      []bool    // line is transported
+	lprod    []int     // producer index of each line, -1 none, -2 other sink
+	sIn      []float64 // inlet saturation of each line
+	injWater []bool    // the inlet injects water (inlet state fixed)
+	gstart   []int     // node offsets (reserved spans)
+	gn       []int     // node count of each line
+	gs, gd   []float64 // node saturations and node time of flight
+	backup   []float64 // node saturations at the start of a chunk
+	segS     []float64 // segment saturations
+	out      []float64 // mean outlet fw of each line over a chunk
+	lerr     []error
+	scratch  []lineScratch
+	acc, vol []float64 // cell accumulators
+}
+
+type lineScratch struct {
+	ws         transport.Workspace
+	src, srcd  []float64
+	dst, dstd  []float64
+	probe      []float64
+	probeNodes []float64
+}
+
+func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, error) {
+	if m == nil {
+		return nil, errors.New("flood: nil model")
+	}
+	if !(m.Run.End > 0) || math.IsInf(m.Run.End, 0) {
+		return nil, errors.New("run.end must be positive")
+	}
+	if s.Workers < 0 {
+		return nil, fmt.Errorf("flood: negative worker count %d", s.Workers)
+	}
+	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
+	if err := ff.Validate(); err != nil {
+		return nil, fmt.Errorf("fractional flow: %w", err)
+	}
+	fl, err := transport.NewFlux(ff)
+	if err != nil {
+		return nil, fmt.Errorf("fractional flow: %w", err)
+	}
+	sched, err := NewWellSchedule(m)
+	if err != nil {
+		return nil, err
+	}
+	_, sor := ff.Endpoints()
+	u := &updateRun{m: m, s: s, o: o, ff: ff, fl: fl, sched: sched,
+		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
+		swi:  m.Fluids.InitialSw,
+		sInj: 1 - sor,
+		seen: map[string]bool{},
+		logf: s.Log,
+	}
+	if u.logf == nil {
+		u.logf = func(string, ...any) {}
+	}
+	// Injectors inject water only. The flux table interpolates fw between
+	// its nodes, so at a kink of the curve at 1-sor its value there may
+	// differ from 1 in the last digits; any state in [1-sor, 1] has true
+	// fw = 1, and the table is exact at its end node 1.
+	u.sLine = u.sInj
+	if fl.Fw(1) == 1 {
+		u.sLine = 1
+	}
+	if !(u.swi >= 0 && u.swi <= 1) {
+		return nil, fmt.Errorf("flood: initial water saturation %g outside [0, 1]", u.swi)
+	}
+	u.threshold = o.Threshold
+	if !(u.threshold > 0) {
+		u.threshold = BreakthroughThreshold
+	}
+	u.workers = s.Workers
+	if u.workers == 0 {
+		u.workers = runtime.GOMAXPROCS(0)
+	}
+	u.r = &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
+	return u, nil
+}
+
+func (u *updateRun) warn(msg string) {
+	if !u.seen[msg] {
+		u.seen[msg] = true
+		u.r.Warnings = append(u.r.Warnings, msg)
+	}
+}
+
+// setupWells builds the producer and injector lists: every well that is a
+// producer (injector) at some time of the run.
+func (u *updateRun) setupWells(nt int) {
+	m, r := u.m, u.r
+	nw := len(m.Wells)
+	u.prodOf = make([]int, nw)
+	u.injOf = make([]int, nw)
+	for i, w := range m.Wells {
+		u.prodOf[i], u.injOf[i] = -1, -1
+		if u.sched.EverType(i, reservoir.Producer, m.Run.End) {
+			u.prodOf[i] = len(r.Producers)
+			r.Producers = append(r.Producers, Producer{Name: w.Name, Well: i,
+				WaterCut: make([]float64, nt), OilRate: make([]float64, nt), WaterRate: make([]float64, nt),
+				CumOil: make([]float64, nt), CumWater: make([]float64, nt), AvgSw: make([]float64, nt),
+				TracerBreakthrough: math.NaN(), Breakthrough: math.NaN()})
+		}
+		if u.sched.EverType(i, reservoir.Injector, m.Run.End) {
+			u.injOf[i] = len(r.Injectors)
+			r.Injectors = append(r.Injectors, Injector{Name: w.Name, Well: i})
+		}
+	}
+	np := len(r.Producers)
+	u.perW, u.perL = make([]float64, np), make([]float64, np)
+	u.cumW, u.cumL = make([]float64, np), make([]float64, np)
+	u.rate = make([]float64, np)
+	u.broken = make([]bool, np)
+}
+
+func (u *updateRun) run() error {
+	m, r := u.m, u.r
+	end := m.Run.End
+	n := m.Grid.N()
+	u.pv = m.PoreVolumes()
+	u.sw = make([]float64, n)
+	for c := range u.sw {
+		u.sw[c] = u.swi
+	}
+	u.mob = make([]float64, n)
+	u.acc, u.vol = make([]float64, n), make([]float64, n)
+	u.wells = make([]reservoir.Well, len(m.Wells))
+
+	u.reports = ReportTimes(end, m.Run.ReportEvery)
+	r.Times = u.reports
+	nt := len(u.reports)
+	r.PVI = make([]float64, nt)
+	u.setupWells(nt)
+	u.snapTimes = snapshotTimes(m)
+	for _, k := range frameIndices(nt, u.s.Frames) {
+		u.frameTimes = append(u.frameTimes, u.reports[k])
+	}
+	u.stops = append(append(slices.Clone(u.reports), u.snapTimes...), u.frameTimes...)
+	slices.Sort(u.stops)
+	u.stops = slices.Compact(u.stops)
+
+	updates := UpdateTimes(m, u.sched)
+	if u.sched.HasChanges(end) {
+		u.warn(fmt.Sprintf("the case has %d schedule event(s) and %d well opening(s) after day 0: run with pressure updates (%d pressure solves) to honour them",
+			len(m.Schedule), len(u.sched.Changes(end))-countEventTimes(m, end), len(updates)))
+	}
+	if mr := u.ff.EndpointMobilityRatio(); mr > 2 && len(updates) < 5 {
+		u.warn(fmt.Sprintf("end-point mobility ratio is %.2g (above 2) and the run has only %d pressure solve(s): use more pressure updates (run.pressure_updates) for a better estimate", mr, len(updates)))
+	}
+	u.logf("pressure updates: %d solves over %g days", len(updates), end)
+	for i, t0 := range updates {
+		t1 := end
+		if i+1 < len(updates) {
+			t1 = updates[i+1]
+		}
+		if err := u.interval(i, t0, t1); err != nil {
+			return err
+		}
+	}
+	u.finish()
+	return nil
+}
+
+// countEventTimes counts the distinct positive event times up to end that
+// are not well openings (for the summary warning only).
+func countEventTimes(m *reservoir.Model, end float64) int {
+	var ts []float64
+	for _, e := range m.Schedule {
+		if e.Time > 0 && e.Time <= end {
+			ts = append(ts, e.Time)
+		}
+	}
+	var opens []float64
+	for _, w := range m.Wells {
+		if w.Open > 0 && w.Open <= end {
+			opens = append(opens, w.Open)
+		}
+	}
+	slices.Sort(ts)
+	ts = slices.Compact(ts)
+	k := 0
+	for _, t := range ts {
+		if !slices.Contains(opens, t) {
+			k++
+		}
+	}
+	return k
+}
+
+// solve computes the total mobility from the cell saturations and solves
+// the pressure with the wells in force at t.
+func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
+	m := u.m
+	u.sched.AtInto(u.wells, t)
+	for c := range u.mob {
+		if m.Active[c] {
+			u.mob[c] = u.ff.Mobility(u.sw[c])
+		} else {
+			u.mob[c] = 0
+		}
+	}
+	sol, err := pressure.Solve(pressure.Input{Model: m, Mobility: u.mob, Wells: u.wells}, u.s.Pressure)
+	if err != nil {
+		return nil, fmt.Errorf("pressure solve at day %g: %w", t, err)
+	}
+	r := u.r
+	r.Solves++
+	r.Iterations += sol.Iterations
+	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
+	for _, w := range sol.Warnings {
+		u.warn(w)
+	}
+	for _, w := range sol.Wells {
+		rate := math.Abs(w.Q)
+		if w.Shut {
+			rate = 0
+		}
+		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP})
+	}
+	return sol, nil
+}
+
+// interval runs one pressure solve and the transport up to t1.
+func (u *updateRun) interval(idx int, t0, t1 float64) error {
+	m, r := u.m, u.r
+	u.logf("update %d at day %g: pressure", idx+1, t0)
+	sol, err := u.solve(t0)
+	if err != nil {
+		return err
+	}
+	first := r.Pressure == nil
+	if first {
+		r.Pressure = sol
+	}
+	// Well rates of the interval.
+	flowing := false
+	for p := range u.rate {
+		u.rate[p] = 0
+	}
+	for wi, w := range sol.Wells {
+		if w.Shut || w.Q == 0 {
+			continue
+		}
+		flowing = true
+		if w.Q < 0 && u.prodOf[wi] >= 0 {
+			u.rate[u.prodOf[wi]] = -w.Q
+		}
+		if w.Q > 0 && u.injOf[wi] >= 0 {
+			in := &r.Injectors[u.injOf[wi]]
+			if w.LimitReached && w.Control == reservoir.BHPControl {
+				in.MaxBHPReached = true
+			}
+		}
+	}
+	for k := range r.Injectors {
+		in := &r.Injectors[k]
+		in.Rate = 0
+		if w := sol.Wells[in.Well]; !w.Shut && w.Type == reservoir.Injector {
+			in.Rate = math.Max(w.Q, 0)
+		}
+	}
+	for p := range r.Producers {
+		r.Producers[p].Rate = u.rate[p]
+	}
+
+	var tr *streamline.Result
+	if flowing {
+		count := m.Run.Streamlines
+		if u.s.Streamlines > 0 {
+			count = u.s.Streamlines
+		}
+		keep := !u.firstTraceDone
+		tr, err = streamline.Trace(Field(m, sol), streamline.Settings{Count: count, Workers: u.workers, KeepPaths: keep})
+		if err != nil {
+			return fmt.Errorf("streamlines at day %g: %w", t0, err)
+		}
+		for _, w := range tr.Warnings {
+			u.warn(w)
+		}
+		if !u.firstTraceDone {
+			u.firstTraceDone = true
+			r.Trace = tr
+			r.StreamlineCount = len(tr.Lines)
+			r.Phi, r.F = streamline.FPhi(u.pv, totalTravel(tr))
+			r.Lorenz = streamline.Lorenz(r.Phi, r.F)
+			r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
+			r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+		}
+		u.partition = tr.ProducerPartition
+		u.ls = newLineSet(m, tr, u.pv)
+		if err := u.setupLines(sol, t0); err != nil {
+			return err
+		}
+	} else {
+		u.warn(fmt.Sprintf("no well flows from day %g: saturations stay as they are", t0))
+		u.ls = nil
+	}
+
+	// Advance from stop to stop.
+	t := t0
+	for t < t1 {
+		next := t1
+		k, found := slices.BinarySearch(u.stops, t)
+		if found {
+			k++
+		}
+		if k < len(u.stops) && u.stops[k] < t1 {
+			next = u.stops[k]
+		}
+		if err := u.chunk(sol, t, next); err != nil {
+			return err
+		}
+		t = next
+		u.mapToCells()
+		u.atStop(t)
+	}
+	return nil
+}
+
+// setupLines prepares the transport of the current streamlines: which
+// lines move water, their producers and inlets, their nodes, and the
+// initial node saturations from the cells.
+func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
+	ls, r := u.ls, u.r
+	nl := len(ls.q)
+	u.act = growBool(u.act, nl)
+	u.lprod = growInt(u.lprod, nl)
+	u.sIn = growF(u.sIn, nl)
+	u.injWater = growBool(u.injWater, nl)
+	u.out = growF(u.out, nl)
+	u.gstart = growInt(u.gstart, nl+1)
+	u.gn = growInt(u.gn, nl)
+	if cap(u.lerr) < nl {
+		u.lerr = make([]error, nl)
+	}
+	u.lerr = u.lerr[:nl]
+	clear(u.lerr)
+	nseg := len(ls.cell)
+	u.segS = growF(u.segS, nseg)
+	for s, c := range ls.cell {
+		u.segS[s] = u.sw[c]
+	}
+	// Node counts, serially: at most twice the positive segments.
+	u.gstart[0] = 0
+	np := len(r.Producers)
+	lineFlux := make([]float64, np)
+	minTau := make([]float64, np)
+	for p := range minTau {
+		minTau[p] = math.Inf(1)
+	}
+	for i := range nl {
+		u.act[i] = false
+		u.lprod[i] = -1
+		npos := 0
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if ls.b[s] > ls.a[s] {
+				npos++
+			}
+		}
+		if ls.q[i] > 0 && ls.prod[i] >= 0 && ls.total[i] > 0 && npos > 0 {
+			u.act[i] = true
+			w := ls.prod[i]
+			if sol.Wells[w].Type == reservoir.Producer && u.prodOf[w] >= 0 {
+				p := u.prodOf[w]
+				u.lprod[i] = p
+				lineFlux[p] += ls.q[i]
+				if ls.inj[i] >= 0 {
+					minTau[p] = math.Min(minTau[p], ls.total[i])
+				}
+			} else {
+				u.lprod[i] = -2
+			}
+			inj := ls.inj[i]
+			u.injWater[i] = inj >= 0 && sol.Wells[inj].Type == reservoir.Injector
+		}
+		nn := 0
+		if u.act[i] {
+			nn = 2 * npos
+		}
+		u.gstart[i+1] = u.gstart[i] + nn
+	}
+	for p := range r.Producers {
+		P := &r.Producers[p]
+		// Tracer breakthrough: the smallest time of flight of the first
+		// solve in which a line from an injector reaches the producer.
+		if math.IsNaN(P.TracerBreakthrough) && !math.IsInf(minTau[p], 1) {
+			P.TracerBreakthrough = t0 + minTau[p]
+		}
+		if u.rate[p] > 0 && lineFlux[p] == 0 {
+			u.warn(fmt.Sprintf("producer %s: no streamline reaches it from day %g; it produces at the water fraction of its cell", P.Name, t0))
+		}
+		P.DrainedVolume = 0
+	}
+	for i := range nl {
+		if p := u.lprod[i]; p >= 0 {
+			r.Producers[p].DrainedVolume += ls.q[i] * ls.total[i]
+		}
+	}
+	total := u.gstart[nl]
+	u.gs = growF(u.gs, total)
+	u.gd = growF(u.gd, total)
+	u.backup = growF(u.backup, total)
+	if len(u.scratch) < u.workers {
+		u.scratch = make([]lineScratch, u.workers)
+	}
+	u.parallel(nl, func(w, i int) {
+		if !u.act[i] {
+			return
+		}
+		sc := &u.scratch[w]
+		n := u.nodes(i, sc)
+		u.gn[i] = n
+		gs, gd := u.lineNodes(i)
+		copy(gd, sc.dstd[:n])
+		u.lerr[i] = transport.Remap(gs, gd, sc.src, sc.srcd)
+		if !u.injWater[i] {
+			u.sIn[i] = gs[0]
+		} else {
+			u.sIn[i] = u.sLine
+		}
+	})
+	return u.firstError("mapping cells onto streamlines")
+}
+
+// nodes builds the node partition of line i's time of flight in
+// sc.dstd and the positive segments (saturations and times) in sc.src and
+// sc.srcd, and returns the node count. With h = total/segments, segments
+// longer than h are split into pieces of length in [h, 2h) and runs of
+// shorter ones merged into nodes of at least h/2.
+func (u *updateRun) nodes(i int, sc *lineScratch) int {
+	ls := u.ls
+	sc.src, sc.srcd = sc.src[:0], sc.srcd[:0]
+	for s := ls.start[i]; s < ls.start[i+1]; s++ {
+		if d := ls.b[s] - ls.a[s]; d > 0 {
+			sc.src = append(sc.src, u.segS[s])
+			sc.srcd = append(sc.srcd, d)
+		}
+	}
+	T := 0.0
+	for _, d := range sc.srcd {
+		T += d
+	}
+	h := T / float64(len(sc.srcd))
+	sc.dstd = sc.dstd[:0]
+	pending := 0.0
+	for _, d := range sc.srcd {
+		if d >= h {
+			k := max(int(d/h), 1)
+			piece := d / float64(k)
+			for j := range k {
+				v := piece
+				if j == 0 {
+					v += pending
+				}
+				sc.dstd = append(sc.dstd, v)
+			}
+			pending = 0
+			continue
+		}
+		pending += d
+		if pending >= 0.5*h {
+			sc.dstd = append(sc.dstd, pending)
+			pending = 0
+		}
+	}
+	if pending > 0 {
+		if n := len(sc.dstd); n > 0 {
+			sc.dstd[n-1] += pending
+		} else {
+			sc.dstd = append(sc.dstd, pending)
+		}
+	}
+	return len(sc.dstd)
+}
+
+func (u *updateRun) lineNodes(i int) (gs, gd []float64) {
+	a := u.gstart[i]
+	return u.gs[a : a+u.gn[i]], u.gd[a : a+u.gn[i]]
+}
+
+func (u *updateRun) firstError(what string) error {
+	for i, e := range u.lerr {
+		if e != nil {
+			return fmt.Errorf("%s: streamline %d: %w", what, i, e)
+		}
+	}
+	return nil
+}
+
+// parallel runs fn for i in [0, n) on the workers, each taking a fixed,
+// interleaved set of blocks (static partition). fn must write only to
+// per-i slots or per-worker scratch.
+func (u *updateRun) parallel(n int, fn func(worker, i int)) {
+	const block = 8
+	workers := min(u.workers, (n+block-1)/block)
+	if workers <= 1 {
+		for i := range n {
+			fn(0, i)
+		}
+		return
+	}
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Go(func() {
+			for start := w * block; start < n; start += workers * block {
+				for i := start; i < min(start+block, n); i++ {
+					fn(w, i)
+				}
+			}
+		})
+	}
+	wg.Wait()
+}
+
+// chunk advances every line from t to t1 and books the production.
+func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
+	dt := t1 - t
+	if !(dt > 0) {
+		return nil
+	}
+	r := u.r
+	// Injection.
+	inj := 0.0
+	for wi, w := range sol.Wells {
+		if w.Shut || !(w.Q > 0) {
+			continue
+		}
+		if w.Type == reservoir.Injector {
+			inj += w.Q * dt
+			if k := u.injOf[wi]; k >= 0 {
+				r.Injectors[k].CumWater += w.Q * dt
+			}
+		} else {
+			// A producer that takes fluid in under BHP control: it
+			// returns water at its cell's water fraction.
+			inj += w.Q * dt * u.fl.Fw(u.sw[w.Cell])
+		}
+	}
+	u.cumInj += inj
+	np := len(r.Producers)
+	water := make([]float64, np)
+	flux := make([]float64, np)
+	inst := make([]float64, np) // instantaneous outlet water at t1
+	watchBT := false
+	if u.ls != nil {
+		for p := range np {
+			if !u.broken[p] && u.rate[p] > 0 {
+				watchBT = true
+			}
+		}
+		if watchBT {
+			copy(u.backup, u.gs)
+		}
+		u.parallel(len(u.ls.q), func(w, i int) {
+			if !u.act[i] {
+				return
+			}
+			gs, gd := u.lineNodes(i)
+			sIn := u.sIn[i]
+			if !u.injWater[i] {
+				sIn = gs[0]
+			}
+			u.sIn[i] = sIn
+			out, _, err := u.scratch[w].ws.Advance(gs, gd, sIn, dt, u.fl, u.set)
+			u.out[i], u.lerr[i] = out, err
+		})
+		if err := u.firstError(fmt.Sprintf("transport from day %g to %g", t, t1)); err != nil {
+			return err
+		}
+		for i := range u.ls.q {
+			if !u.act[i] {
+				continue
+			}
+			q := u.ls.q[i]
+			if !u.injWater[i] {
+				u.unsourced += q * dt * u.fl.Fw(u.sIn[i])
+			}
+			switch p := u.lprod[i]; {
+			case p >= 0:
+				water[p] += q * u.out[i]
+				flux[p] += q
+				gs, _ := u.lineNodes(i)
+				inst[p] += q * u.fl.Fw(gs[len(gs)-1])
+			case p == -2:
+				u.otherProduced += q * u.out[i] * dt
+			}
+		}
+	}
+	for p := range np {
+		P := &r.Producers[p]
+		if u.rate[p] <= 0 {
+			continue
+		}
+		var fw float64
+		if flux[p] > 0 {
+			fw = water[p] / flux[p]
+		} else {
+			fw = u.fl.Fw(u.sw[m0cell(u.m, P.Well)])
+		}
+		u.perW[p] += u.rate[p] * fw * dt
+		u.perL[p] += u.rate[p] * dt
+		if !u.broken[p] && (fw > u.threshold || flux[p] > 0 && inst[p] > u.threshold*flux[p]) {
+			u.broken[p] = true
+			P.Breakthrough = u.locate(p, t, dt, flux[p] > 0)
+		}
+	}
+	return nil
+}
+
+func m0cell(m *reservoir.Model, w int) int { return m.Wells[w].Cell }
+
+// locate finds the breakthrough time of producer p within the chunk that
+// starts at t and lasts dt: the chunk is advanced again from its saved
+// state in breakthroughProbes equal parts, and the water fraction, taken as
+// the part averages at the part midpoints, is interpolated to the
+// threshold.
+func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
+	if !hasLines {
+		return t + dt
+	}
+	const K = breakthroughProbes
+	ls := u.ls
+	// Per line, the outlet water fraction of each part, in line order.
+	var lines []int
+	for i := range ls.q {
+		if u.act[i] && u.lprod[i] == p {
+			lines = append(lines, i)
+		}
+	}
+	probes := make([]float64, len(lines)*K)
+	errs := make([]error, len(lines))
+	u.parallel(len(lines), func(w, j int) {
+		i := lines[j]
+		sc := &u.scratch[w]
+		a, b := u.gstart[i], u.gstart[i]+u.gn[i]
+		sc.probeNodes = append(sc.probeNodes[:0], u.backup[a:b]...)
+		gd := u.gd[a:b]
+		sIn := u.sIn[i]
+		for k := range K {
+			if !u.injWater[i] {
+				sIn = sc.probeNodes[0]
+			}
+			out, _, err := sc.ws.Advance(sc.probeNodes, gd, sIn, dt/K, u.fl, u.set)
+			if err != nil {
+				errs[j] = err
+				return
+			}
+			probes[j*K+k] = out
+		}
+	})
+	for _, e := range errs {
+		if e != nil {
+			return t + dt
+		}
+	}
+	frac := make([]float64, K)
+	flux := 0.0
+	for j, i := range lines {
+		q := ls.q[i]
+		flux += q
+		for k := range K {
+			frac[k] += q * probes[j*K+k]
+		}
+	}
+	prevT, prevV := t, 0.0
+	// Water fraction at the start of the chunk: the outlet nodes' state.
+	for _, i := range lines {
+		b := u.gstart[i] + u.gn[i]
+		prevV += ls.q[i] * u.fl.Fw(u.backup[b-1])
+	}
+	prevV /= flux
+	if prevV > u.threshold {
+		return t
+	}
+	for k := range K {
+		v := frac[k] / flux
+		tk := t + (float64(k)+0.5)*dt/K
+		if v > u.threshold {
+			return prevT + (tk-prevT)*(u.threshold-prevV)/(v-prevV)
+		}
+		prevT, prevV = tk, v
+	}
+	return t + dt
+}
+
+// mapToCells maps the node saturations back to the segments and the cells
+// (flux*tau weighting); cells no line crosses keep their saturation.
+func (u *updateRun) mapToCells() {
+	if u.ls == nil {
+		return
+	}
+	ls := u.ls
+	nl := len(ls.q)
+	u.parallel(nl, func(w, i int) {
+		if !u.act[i] {
+			return
+		}
+		sc := &u.scratch[w]
+		sc.dstd = sc.dstd[:0]
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if d := ls.b[s] - ls.a[s]; d > 0 {
+				sc.dstd = append(sc.dstd, d)
+			}
+		}
+		sc.dst = growF(sc.dst, len(sc.dstd))
+		gs, gd := u.lineNodes(i)
+		u.lerr[i] = transport.Remap(sc.dst, sc.dstd, gs, gd)
+		j := 0
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if ls.b[s] > ls.a[s] {
+				u.segS[s] = sc.dst[j]
+				j++
+			}
+		}
+	})
+	clear(u.acc)
+	clear(u.vol)
+	for i := range nl {
+		if !u.act[i] {
+			continue
+		}
+		q := ls.q[i]
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			d := ls.b[s] - ls.a[s]
+			if d > 0 {
+				c := ls.cell[s]
+				u.acc[c] += q * d * u.segS[s]
+				u.vol[c] += q * d
+			}
+		}
+	}
+	for c, v := range u.vol {
+		if v > 0 {
+			u.sw[c] = u.acc[c] / v
+		}
+	}
+}
+
+// atStop records what is due at time t: report values, snapshots, frames.
+func (u *updateRun) atStop(t float64) {
+	r := u.r
+	k := u.nextReport
+	if k < len(u.reports) && t >= u.reports[k]*(1-1e-12) {
+		u.nextReport++
+		r.PVI[k] = u.cumInj / r.PoreVolume
+		span := t - u.periodStart
+		u.periodStart = t
+		for p := range r.Producers {
+			P := &r.Producers[p]
+			u.cumW[p] += u.perW[p]
+			u.cumL[p] += u.perL[p]
+			if u.perL[p] > 0 && span > 0 {
+				P.WaterCut[k] = u.perW[p] / u.perL[p]
+				P.WaterRate[k] = u.perW[p] / span
+				P.OilRate[k] = (u.perL[p] - u.perW[p]) / span
+			}
+			P.CumWater[k] = u.cumW[p]
+			P.CumOil[k] = u.cumL[p] - u.cumW[p]
+			u.perW[p], u.perL[p] = 0, 0
+			P.AvgSw[k] = u.partitionSw(P.Well)
+		}
+	}
+	if slices.Contains(u.snapTimes, t) {
+		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: u.cumInj / r.PoreVolume, Sw: u.cellMap()})
+	}
+	if slices.Contains(u.frameTimes, t) {
+		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: u.cumInj / r.PoreVolume, Sw: u.cellMap()})
+	}
+}
+
+// partitionSw returns the pore-volume weighted saturation of the cells
+// that drain to well w, or NaN when none does.
+func (u *updateRun) partitionSw(w int) float64 {
+	if u.partition == nil {
+		return math.NaN()
+	}
+	s, v := 0.0, 0.0
+	for c, p := range u.partition {
+		if p == w {
+			s += u.pv[c] * u.sw[c]
+			v += u.pv[c]
+		}
+	}
+	if v == 0 {
+		return math.NaN()
+	}
+	return s / v
+}
+
+func (u *updateRun) cellMap() []float64 {
+	out := make([]float64, len(u.sw))
+	for c := range out {
+		if u.m.Active[c] {
+			out[c] = u.sw[c]
+		} else {
+			out[c] = math.NaN()
+		}
+	}
+	return out
+}
+
+// finish fills the field series and the mass balance.
+func (u *updateRun) finish() {
+	r := u.r
+	fillField(r)
+	dW := 0.0
+	for c, v := range u.sw {
+		if u.m.Active[c] {
+			dW += u.pv[c] * (v - u.swi)
+		}
+	}
+	produced := u.otherProduced
+	for p := range r.Producers {
+		produced += u.cumW[p]
+	}
+	if u.cumInj > 0 {
+		r.MassBalanceError = (u.cumInj - produced - dW) / u.cumInj
+	}
+	if u.unsourced > 1e-6*u.cumInj && u.cumInj > 0 {
+		u.warn(fmt.Sprintf("%.2g of the injected volume entered streamlines that start at no injector (at the water fraction of their first cell); it shows in the mass balance", u.unsourced/u.cumInj))
+	}
+	for p := range r.Producers {
+		P := &r.Producers[p]
+		if P.Breakthrough > u.m.Run.End {
+			P.Breakthrough = math.NaN()
+		}
+	}
+}
+
+// fillField sums the producers into the field series.
+func fillField(r *Result) {
+	nt := len(r.Times)
+	r.FieldWaterCut = make([]float64, nt)
+	r.FieldOilRate = make([]float64, nt)
+	r.FieldWaterRate = make([]float64, nt)
+	r.FieldCumOil = make([]float64, nt)
+	r.FieldCumWater = make([]float64, nt)
+	r.RecoveryFactor = make([]float64, nt)
+	for k := range nt {
+		for p := range r.Producers {
+			P := &r.Producers[p]
+			r.FieldOilRate[k] += P.OilRate[k]
+			r.FieldWaterRate[k] += P.WaterRate[k]
+			r.FieldCumOil[k] += P.CumOil[k]
+			r.FieldCumWater[k] += P.CumWater[k]
+		}
+		if q := r.FieldOilRate[k] + r.FieldWaterRate[k]; q > 0 {
+			r.FieldWaterCut[k] = r.FieldWaterRate[k] / q
+		}
+		if r.OOIP > 0 {
+			r.RecoveryFactor[k] = r.FieldCumOil[k] / r.OOIP
+		}
+	}
+}
+
+func growF(b []float64, n int) []float64 {
+	if cap(b) < n {
+		return make([]float64, n)
+	}
+	return b[:n]
+}
+
+func growInt(b []int, n int) []int {
+	if cap(b) < n {
+		return make([]int, n)
+	}
+	return b[:n]
+}
+
+func growBool(b []bool, n int) []bool {
+	if cap(b) < n {
+		return make([]bool, n)
+	}
+	return b[:n]
+}
