@@ -534,7 +534,7 @@ func (g *gridRun) step(t, dt float64) {
 			if !m.Active[c] || !(g.pv[c] > 0) {
 				continue
 			}
-			d := 0.0 // water volume rate into the cell
+			d := 0.0                                   // water volume rate into the cell
 			water := func(q float64, cu int) float64 { // q > 0 from cu into c
 				return q * g.fw[cu]
 			}
