@@ -215,9 +215,9 @@ func (c *mapCanvas) faults(onDark bool) {
 			}
 			dc.NewSubPath()
 		}
-		casing, line := color.RGBA{255, 255, 255, 230}, colFault
+		casing, line := color.Color(color.NRGBA{255, 255, 255, 230}), color.Color(colFault)
 		if onDark {
-			casing, line = color.RGBA{0, 0, 0, 200}, colFaultOnDark
+			casing, line = color.NRGBA{0, 0, 0, 200}, colFaultOnDark
 		}
 		if pass == 0 {
 			dc.SetColor(casing)
@@ -373,7 +373,7 @@ func (c *mapCanvas) wells() {
 			drawProducer(c.dc, ps[i].x, ps[i].y, r)
 		}
 	}
-	size := math.Max(9, 21*c.l.S)
+	size := math.Max(11, 21*c.l.S)
 	face := c.f.get(bold, size)
 	for i, w := range c.s.Wells {
 		c.placeLabel(w.Name, face, size, ps[i].x, ps[i].y, r*1.3+5*c.l.S, colInk)
@@ -431,7 +431,7 @@ func (c *mapCanvas) placeLabel(s string, face font.Face, size, x, y, d float64, 
 // faultLabels writes each fault name beside its trace, a fifth of the way
 // along it, offset on the north side of the line.
 func (c *mapCanvas) faultLabels() {
-	size := math.Max(8, 17*c.l.S)
+	size := math.Max(10, 17*c.l.S)
 	face := c.f.get(italic, size)
 	m := c.l.Map
 	for n, tr := range c.s.Faults {
@@ -878,7 +878,7 @@ func DrawPartition(s Scene, part []int, names []string, legendTitle string, w, h
 	c.fillCells(col)
 	c.edges(func(a, b int) bool {
 		return a >= 0 && b >= 0 && c.active(a) && c.active(b) && part[a] != part[b]
-	}, color.RGBA{40, 44, 52, 150}, math.Max(1, 1.3*c.l.S))
+	}, color.NRGBA{40, 44, 52, 150}, math.Max(1, 1.3*c.l.S))
 	c.outline()
 	c.faults(false)
 	c.wells()
