@@ -534,27 +534,26 @@ func (g *gridRun) step(t, dt float64) {
 			if !m.Active[c] || !(g.pv[c] > 0) {
 				continue
 			}
-			d := 0.0                                   // water volume rate into the cell
-			water := func(q float64, cu int) float64 { // q > 0 from cu into c
-				return q * g.fw[cu]
-			}
+			// d is the water volume rate into the cell: through each face
+			// the upstream cell's fw times the face flux.
+			d := 0.0
 			if q := fx[gr.XFace(i, j)]; q > 0 {
-				d += water(q, c-1)
+				d += q * g.fw[c-1]
 			} else if q < 0 {
 				d += q * g.fw[c]
 			}
 			if q := fx[gr.XFace(i+1, j)]; q < 0 {
-				d += water(-q, c+1)
+				d -= q * g.fw[c+1]
 			} else if q > 0 {
 				d -= q * g.fw[c]
 			}
 			if q := fy[gr.YFace(i, j)]; q > 0 {
-				d += water(q, c-nx)
+				d += q * g.fw[c-nx]
 			} else if q < 0 {
 				d += q * g.fw[c]
 			}
 			if q := fy[gr.YFace(i, j+1)]; q < 0 {
-				d += water(-q, c+nx)
+				d -= q * g.fw[c+nx]
 			} else if q > 0 {
 				d -= q * g.fw[c]
 			}
