@@ -46,14 +46,15 @@ const (
 	fieldChannel1e6                      // sinuous 1000 md channels in 0.001 md
 	fieldAnisotropic                     // log-normal sigma 1 with kx/ky = 100
 	fieldInactive                        // log-normal sigma 2, a hole, a notch and a sealing fault
+	fieldRough                           // log-normal sigma 2.5, correlation length 2 cells
 )
 
 var amgFieldKinds = []amgFieldKind{fieldLogNormal1, fieldLogNormal2, fieldLogNormal25,
-	fieldChannel1e3, fieldChannel1e6, fieldAnisotropic, fieldInactive}
+	fieldChannel1e3, fieldChannel1e6, fieldAnisotropic, fieldInactive, fieldRough}
 
 func (k amgFieldKind) String() string {
 	return [...]string{"lognormal-1.0", "lognormal-2.0", "lognormal-2.5", "channel-1e3",
-		"channel-1e6", "anisotropic-100", "inactive"}[k]
+		"channel-1e6", "anisotropic-100", "inactive", "rough-2.5"}[k]
 }
 
 // amgFivePlusOne is the well pattern: four producers at bottom-hole
@@ -86,6 +87,8 @@ func newAMGProblem(kind amgFieldKind, nx, ny int, seed uint64) amgProblem {
 		for k, v := range pb.kx {
 			pb.ky[k] = v / 100
 		}
+	case fieldRough:
+		pb.kx = amgLogNormalField(nx, ny, 100, 2.5, 2, seed)
 	case fieldInactive:
 		pb.kx = amgLogNormalField(nx, ny, 100, 2.0, corr, seed)
 		pb.active = make([]bool, nx*ny)
@@ -519,16 +522,24 @@ func TestAMGSymmetricPositive(t *testing.T) {
 // 1000x1000 runs unless -short.
 // At 1000x1000 the log-normal fields of standard deviation 1 and 2 are
 // left out to keep the test short: they share the seed and correlation of
-// the 2.5 field, which bounds them.
+// the 2.5 field, which bounds them. The rough field (correlation length 2
+// cells, contrast about 1e7 between neighbouring regions) lies outside the
+// issue's list; it is held to a looser bound of 40 at 100x100 and 300x300
+// only, to catch a breakdown.
 func TestAMGIterationBounds(t *testing.T) {
 	sizes := []int{100, 300}
 	if !testing.Short() {
 		sizes = append(sizes, 1000)
 	}
 	skip := func(kind amgFieldKind, s int) bool {
-		return s >= 1000 && (kind == fieldLogNormal1 || kind == fieldLogNormal2)
+		return s >= 1000 && (kind == fieldLogNormal1 || kind == fieldLogNormal2 || kind == fieldRough)
 	}
-	const maxIter = 29
+	bound := func(kind amgFieldKind) int {
+		if kind == fieldRough {
+			return 40
+		}
+		return 29 // under 30 (issue 9)
+	}
 	var table strings.Builder
 	fmt.Fprintf(&table, "\n%-16s", "field")
 	for _, s := range sizes {
@@ -554,8 +565,8 @@ func TestAMGIterationBounds(t *testing.T) {
 			}
 			st := h.Stats()
 			fmt.Fprintf(&table, " %6d/%-6.2f", res.Iterations, st.OperatorComplexity)
-			if res.Iterations > maxIter {
-				t.Errorf("%v %dx%d: %d iterations, want <= %d (%v)", kind, s, s, res.Iterations, maxIter, st)
+			if res.Iterations > bound(kind) {
+				t.Errorf("%v %dx%d: %d iterations, want <= %d (%v)", kind, s, s, res.Iterations, bound(kind), st)
 			}
 			if st.OperatorComplexity > 2 {
 				t.Errorf("%v %dx%d: operator complexity %.3f > 2", kind, s, s, st.OperatorComplexity)
