@@ -399,18 +399,23 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		return fmt.Errorf("streamlines at day %g: %w", t, err)
 	}
 	g.partition = tr.ProducerPartition
+	// Tracer breakthrough and drained volume with the time of flight
+	// rescaled to the cell pore volumes, as in the streamline modes.
+	ls := newLineSet(m, tr, g.pv)
 	for p := range r.Producers {
 		P := &r.Producers[p]
-		if math.IsNaN(P.TracerBreakthrough) {
-			if tb := tr.Breakthrough(P.Well); !math.IsNaN(tb) {
-				P.TracerBreakthrough = t + tb
+		P.DrainedVolume = 0
+		minTau := math.Inf(1)
+		for i := range ls.q {
+			if ls.prod[i] == P.Well && ls.q[i] > 0 {
+				P.DrainedVolume += ls.q[i] * ls.total[i]
+				if ls.inj[i] >= 0 {
+					minTau = math.Min(minTau, ls.total[i])
+				}
 			}
 		}
-		P.DrainedVolume = 0
-		for i := range tr.Lines {
-			if l := &tr.Lines[i]; l.Producer == P.Well {
-				P.DrainedVolume += l.Flux * l.TotalTau
-			}
+		if math.IsNaN(P.TracerBreakthrough) && !math.IsInf(minTau, 1) {
+			P.TracerBreakthrough = t + minTau
 		}
 	}
 	if first {

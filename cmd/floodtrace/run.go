@@ -24,6 +24,8 @@ var runFlags struct {
 	format      string
 	noPictures  bool
 	quiet       bool
+	engine      string
+	updates     int
 }
 
 func init() {
@@ -44,12 +46,16 @@ last: a folder without it holds an unfinished run.
 Examples:
   floodtrace run examples/vardel/case.yaml --out out/vardel
   floodtrace run case.yaml --out runs/base --streamlines 4000 --size 1280x720
-  floodtrace run case.yaml --out runs/quick --no-pictures`,
+  floodtrace run case.yaml --out runs/quick --no-pictures
+  floodtrace run case.yaml --out runs/updated --updates 20
+  floodtrace run case.yaml --out runs/grid --engine grid`,
 		NArgs: exactly(1),
 		Flags: func(fs *pflag.FlagSet) {
 			fs.StringVarP(&runFlags.out, "out", "o", "", "output folder (required)")
 			fs.BoolVar(&runFlags.force, "force", false, "write into a folder that holds other files (they are left alone)")
 			fs.IntVar(&runFlags.streamlines, "streamlines", 0, "number of streamlines (default: the case's run.streamlines)")
+			fs.StringVar(&runFlags.engine, "engine", "streamline", "streamline (fixed or updated streamlines) or grid (cell-based IMPES reference)")
+			fs.IntVar(&runFlags.updates, "updates", 0, "pressure solves over the run, overriding run.pressure_updates (1 = fixed streamlines)")
 			fs.IntVar(&runFlags.workers, "workers", 0, "goroutines for tracing (default: all cores; results do not depend on it)")
 			fs.StringVar(&runFlags.size, "size", "1920x1080", "picture size WxH")
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
@@ -71,6 +77,12 @@ func runRun(args []string) error {
 	if runFlags.format != "png" && runFlags.format != "svg" {
 		return usageError{fmt.Sprintf("--format must be png or svg, not %q", runFlags.format)}
 	}
+	if runFlags.engine != "streamline" && runFlags.engine != "grid" {
+		return usageError{fmt.Sprintf("--engine must be streamline or grid, not %q", runFlags.engine)}
+	}
+	if runFlags.updates < 0 {
+		return usageError{fmt.Sprintf("--updates must be positive, not %d", runFlags.updates)}
+	}
 	start := time.Now()
 	logf := func(format string, a ...any) {
 		if !runFlags.quiet {
@@ -82,11 +94,14 @@ func runRun(args []string) error {
 		return err
 	}
 	logf("case %s: %d x %d cells, %d wells", args[0], m.Grid.NX, m.Grid.NY, len(m.Wells))
+	if runFlags.updates > 0 {
+		m.Run.PressureUpdates, m.Run.UpdateTimes = runFlags.updates, nil
+	}
 	d, err := outdir.Open(runFlags.out, runFlags.force)
 	if err != nil {
 		return err
 	}
-	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf})
+	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: runFlags.engine})
 	if err != nil {
 		return err
 	}
