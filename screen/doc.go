@@ -1,0 +1,37 @@
+// Package screen ranks candidate well placements and layouts of a
+// waterflood: new wells on an infill lattice, whole well lists, and the
+// regular patterns of the trade (five-spot, inverted nine-spot, direct and
+// staggered line drive), each run with the full streamline computation of
+// package flood on every permeability realization of an ensemble.
+//
+// A screen is described by a spec (LoadSpec), expanded into a Plan (the
+// candidate list and a hash of every input), executed on all cores
+// (Execute) with one line per finished candidate appended to
+// results.jsonl, so an interrupted screen resumes where it stopped, and
+// ranked (Rank) from those lines. Shards (disjoint round-robin parts of
+// the candidate list) run anywhere and merge into the ranking a whole run
+// gives.
+//
+// Objectives. "oil" is the field cumulative oil at the horizon. "value" is
+// a simple discounted cash flow (common practice): the sum over report
+// intervals of oil_price*oil - water_cost*produced water -
+// injection_cost*injected water, each discounted by (1+r)^(-t/365.25) at
+// the end of its interval, minus well_cost per new well. It is a screening
+// number, not an investment decision.
+//
+// Percentiles. Over the realizations, the objective of a candidate is
+// summarised by its mean and its P10, P50 and P90, where Pxx is the xx-th
+// percentile of the values (linear interpolation between order
+// statistics, definition 7 of Hyndman and Fan 1996). P10 is thus the low,
+// cautious case: the value exceeded with 90% probability. Ranking by P10
+// ranks by that cautious case.
+//
+// ranking.csv columns: rank; candidate (its name); x,y (the new well of an
+// infill candidate, blank for layouts and patterns); objective (the mean
+// over realizations); objective_p10, objective_p50, objective_p90;
+// cum_oil and cum_water (field cumulative oil and produced water at the
+// horizon, means over realizations); first_breakthrough_days (the first
+// arrival of injected water at any producer, the median over realizations
+// counting "none before the horizon" as late; blank when that median is
+// beyond the horizon).
+package screen

@@ -1,0 +1,227 @@
+package screen
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+)
+
+// Statistic names what the ranking sorts by.
+type Statistic string
+
+// Ranking statistics. P10 is the cautious low case (see Percentile).
+const (
+	Mean Statistic = "mean"
+	P10  Statistic = "p10"
+	P50  Statistic = "p50"
+	P90  Statistic = "p90"
+)
+
+// ParseStatistic reads mean, p10, p50 or p90 (case-insensitive).
+func ParseStatistic(s string) (Statistic, error) {
+	switch st := Statistic(strings.ToLower(s)); st {
+	case Mean, P10, P50, P90:
+		return st, nil
+	}
+	return "", fmt.Errorf("rank by %q: use mean, p10 (the cautious low case), p50 or p90", s)
+}
+
+// Percentile returns the p-th percentile (0 <= p <= 100) of the values by
+// linear interpolation between order statistics: with the values sorted
+// ascending as x[0..n-1] and h = (n-1)p/100, the result is
+// x[floor h] + (h - floor h)(x[floor h + 1] - x[floor h]) (definition 7 of
+// Hyndman and Fan 1996, "Sample quantiles in statistical packages", The
+// American Statistician 50(4)). So Percentile(v, 10) is the low value
+// exceeded by about 90% of the realizations. +Inf values are allowed; NaN
+// is returned for no values.
+func Percentile(values []float64, p float64) float64 {
+	n := len(values)
+	if n == 0 {
+		return math.NaN()
+	}
+	x := append([]float64(nil), values...)
+	sort.Float64s(x)
+	h := float64(n-1) * p / 100
+	lo := int(math.Floor(h))
+	if lo < 0 {
+		return x[0]
+	}
+	if lo >= n-1 {
+		return x[n-1]
+	}
+	frac := h - float64(lo)
+	if frac == 0 || x[lo] == x[lo+1] {
+		return x[lo]
+	}
+	return x[lo] + frac*(x[lo+1]-x[lo])
+}
+
+// Row is one ranked candidate.
+type Row struct {
+	Rank      int
+	Index     int
+	Candidate string
+	Kind      Kind
+	X, Y      float64 // the new well of an infill candidate; NaN otherwise
+	// Objective statistics over the realizations.
+	Mean, P10, P50, P90 float64
+	// CumOil and CumWater are means over the realizations.
+	CumOil, CumWater float64
+	// FirstBreakthrough is the median first breakthrough (days); NaN when
+	// the median is beyond the horizon.
+	FirstBreakthrough float64
+	Realizations      int
+}
+
+// Failed is a candidate with at least one failed run.
+type Failed struct {
+	Index     int
+	Candidate string
+	Errors    []string // "realization: error"
+}
+
+// Ranking is the ordered list of candidates.
+type Ranking struct {
+	Objective Objective
+	By        Statistic
+	Rows      []Row
+	Failed    []Failed
+}
+
+// Rank orders the candidates of r by the statistic (Mean when empty),
+// best first; ties go to the lower candidate index. Candidates with a
+// failed run are listed in Failed, not ranked.
+func Rank(r *Results, by Statistic) *Ranking {
+	if by == "" {
+		by = Mean
+	}
+	obj := r.Objective
+	if obj == "" {
+		obj = Oil
+	}
+	rk := &Ranking{Objective: obj, By: by}
+	for _, rec := range r.Records {
+		var errs []string
+		for _, run := range rec.Runs {
+			if run.Error != "" {
+				errs = append(errs, run.Realization+": "+run.Error)
+			}
+		}
+		if len(errs) > 0 || len(rec.Runs) == 0 {
+			if len(rec.Runs) == 0 {
+				errs = append(errs, "no run")
+			}
+			rk.Failed = append(rk.Failed, Failed{Index: rec.Index, Candidate: rec.Candidate, Errors: errs})
+			continue
+		}
+		n := len(rec.Runs)
+		obs := make([]float64, n)
+		bts := make([]float64, n)
+		row := Row{Index: rec.Index, Candidate: rec.Candidate, Kind: rec.Kind, X: math.NaN(), Y: math.NaN(), Realizations: n}
+		if rec.X != nil && rec.Y != nil {
+			row.X, row.Y = *rec.X, *rec.Y
+		}
+		for i, run := range rec.Runs {
+			obs[i] = run.Objective(obj)
+			row.Mean += obs[i]
+			row.CumOil += run.CumOil
+			row.CumWater += run.CumWater
+			bts[i] = math.Inf(1)
+			if run.FirstBreakthrough != nil {
+				bts[i] = *run.FirstBreakthrough
+			}
+		}
+		row.Mean /= float64(n)
+		row.CumOil /= float64(n)
+		row.CumWater /= float64(n)
+		row.P10, row.P50, row.P90 = Percentile(obs, 10), Percentile(obs, 50), Percentile(obs, 90)
+		row.FirstBreakthrough = Percentile(bts, 50)
+		if math.IsInf(row.FirstBreakthrough, 1) || row.FirstBreakthrough > r.Horizon {
+			row.FirstBreakthrough = math.NaN()
+		}
+		rk.Rows = append(rk.Rows, row)
+	}
+	key := func(r Row) float64 {
+		switch by {
+		case P10:
+			return r.P10
+		case P50:
+			return r.P50
+		case P90:
+			return r.P90
+		}
+		return r.Mean
+	}
+	sort.SliceStable(rk.Rows, func(a, b int) bool {
+		ka, kb := key(rk.Rows[a]), key(rk.Rows[b])
+		if ka != kb {
+			return ka > kb
+		}
+		return rk.Rows[a].Index < rk.Rows[b].Index
+	})
+	for i := range rk.Rows {
+		rk.Rows[i].Rank = i + 1
+	}
+	return rk
+}
+
+// RankingHeader is the header line of ranking.csv.
+const RankingHeader = "rank,candidate,x,y,objective,objective_p10,objective_p50,objective_p90,cum_oil,cum_water,first_breakthrough_days"
+
+// WriteCSV writes the ranking as ranking.csv (columns in the package
+// documentation; numbers with 10 significant digits, blank for none).
+func (rk *Ranking) WriteCSV(w io.Writer) error {
+	bw := bufio.NewWriter(w)
+	bw.WriteString(RankingHeader + "\n")
+	for _, r := range rk.Rows {
+		fmt.Fprintf(bw, "%d,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s\n", r.Rank, csvText(r.Candidate), num(r.X), num(r.Y),
+			num(r.Mean), num(r.P10), num(r.P50), num(r.P90), num(r.CumOil), num(r.CumWater), num(r.FirstBreakthrough))
+	}
+	return bw.Flush()
+}
+
+// WriteRunsCSV writes every run of every candidate (runs.csv):
+// candidate,kind,realization,objective,cum_oil,cum_water,cum_injected,value,first_breakthrough_days,error.
+func WriteRunsCSV(w io.Writer, r *Results) error {
+	obj := r.Objective
+	if obj == "" {
+		obj = Oil
+	}
+	bw := bufio.NewWriter(w)
+	bw.WriteString("candidate,kind,realization,objective,cum_oil,cum_water,cum_injected,value,first_breakthrough_days,error\n")
+	for _, rec := range r.Records {
+		for _, run := range rec.Runs {
+			bt := math.NaN()
+			if run.FirstBreakthrough != nil {
+				bt = *run.FirstBreakthrough
+			}
+			ob := math.NaN()
+			if run.Error == "" {
+				ob = run.Objective(obj)
+			}
+			fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s\n", csvText(rec.Candidate), rec.Kind, csvText(run.Realization), num(ob),
+				num(run.CumOil), num(run.CumWater), num(run.CumInjected), num(run.Value), num(bt), csvText(run.Error))
+		}
+	}
+	return bw.Flush()
+}
+
+func num(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	return strconv.FormatFloat(v, 'g', 10, 64)
+}
+
+// csvText quotes a field when it holds a comma, a quote or a line break
+// (RFC 4180).
+func csvText(s string) string {
+	if !strings.ContainsAny(s, ",\"\n\r") {
+		return s
+	}
+	return `"` + strings.ReplaceAll(s, `"`, `""`) + `"`
+}

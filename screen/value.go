@@ -1,0 +1,103 @@
+package screen
+
+import (
+	"fmt"
+	"math"
+
+	"floodtrace/flood"
+)
+
+// RunOutcome is what a screen keeps of one run (one candidate on one
+// realization). Volumes are reservoir volumes at the horizon.
+type RunOutcome struct {
+	Realization string  `json:"realization"`
+	CumOil      float64 `json:"cum_oil"`
+	CumWater    float64 `json:"cum_water"`
+	CumInjected float64 `json:"cum_injected"`
+	// Value is the discounted cash flow of the spec's Economics (0
+	// prices give 0 less the well cost).
+	Value float64 `json:"value"`
+	// FirstBreakthrough is the first arrival of injected water at any
+	// producer, days; nil when none arrives before the horizon.
+	FirstBreakthrough *float64 `json:"first_breakthrough_days"`
+	Warnings          []string `json:"warnings,omitempty"`
+	// Error is set when the run failed; the other fields are then zero.
+	Error string `json:"error,omitempty"`
+}
+
+// Objective returns the run's value of objective o.
+func (r RunOutcome) Objective(o Objective) float64 {
+	if o == Value {
+		return r.Value
+	}
+	return r.CumOil
+}
+
+// DiscountFactor is (1+rate)^(-t/365.25): the present worth of one unit
+// received t days from now at an annual discount rate (end-of-period
+// discounting with a year of 365.25 days; common practice).
+func DiscountFactor(rate, t float64) float64 {
+	return math.Pow(1+rate, -t/365.25)
+}
+
+// CashFlow returns the discounted cash flow of a run from its cumulative
+// curves at the report times (days): for each report interval the oil,
+// produced water and injected water of the interval are priced
+//
+//	e.OilPrice*oil - e.WaterCost*water - e.InjectionCost*injected
+//
+// and discounted by DiscountFactor at the end of the interval, and
+// e.WellCost is subtracted per new well at time 0. A simple discounted
+// cash flow (common practice): no taxes, royalties, operating costs per
+// well or price changes. The slices must have equal lengths.
+func CashFlow(times, cumOil, cumWater, cumInjected []float64, e Economics, newWells int) (float64, error) {
+	n := len(times)
+	if len(cumOil) != n || len(cumWater) != n || len(cumInjected) != n {
+		return 0, fmt.Errorf("cash flow: %d times but %d, %d and %d cumulative values", n, len(cumOil), len(cumWater), len(cumInjected))
+	}
+	v := -e.WellCost * float64(newWells)
+	var t0, o0, w0, i0 float64
+	for k := 0; k < n; k++ {
+		if times[k] < t0 {
+			return 0, fmt.Errorf("cash flow: report times decrease at %g days", times[k])
+		}
+		net := e.OilPrice*(cumOil[k]-o0) - e.WaterCost*(cumWater[k]-w0) - e.InjectionCost*(cumInjected[k]-i0)
+		v += net * DiscountFactor(e.DiscountRate, times[k])
+		t0, o0, w0, i0 = times[k], cumOil[k], cumWater[k], cumInjected[k]
+	}
+	return v, nil
+}
+
+// Summarize reduces a finished run to its outcome.
+func Summarize(r *flood.Result, e Economics, newWells int) (RunOutcome, error) {
+	n := len(r.Times)
+	if n == 0 || len(r.FieldCumOil) != n || len(r.FieldCumWater) != n || len(r.PVI) != n {
+		return RunOutcome{}, fmt.Errorf("run has %d report times and curves of other lengths", n)
+	}
+	inj := make([]float64, n)
+	for k := range inj {
+		inj[k] = r.PVI[k] * r.PoreVolume
+	}
+	v, err := CashFlow(r.Times, r.FieldCumOil, r.FieldCumWater, inj, e, newWells)
+	if err != nil {
+		return RunOutcome{}, err
+	}
+	out := RunOutcome{CumOil: r.FieldCumOil[n-1], CumWater: r.FieldCumWater[n-1], CumInjected: inj[n-1], Value: v}
+	bt := math.Inf(1)
+	for _, p := range r.Producers {
+		if !math.IsNaN(p.Breakthrough) {
+			bt = math.Min(bt, p.Breakthrough)
+		}
+	}
+	if !math.IsInf(bt, 1) {
+		out.FirstBreakthrough = &bt
+	}
+	for _, x := range []float64{out.CumOil, out.CumWater, out.CumInjected, out.Value} {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return RunOutcome{}, fmt.Errorf("run gave a non-finite result (cum oil %g, cum water %g, injected %g, value %g)",
+				out.CumOil, out.CumWater, out.CumInjected, out.Value)
+		}
+	}
+	out.Warnings = r.Warnings
+	return out, nil
+}

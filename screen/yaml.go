@@ -1,0 +1,324 @@
+package screen
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+)
+
+// SpecError is a problem with a screening spec: the file, the line (0 if
+// unknown) and what is wrong.
+type SpecError struct {
+	Path string
+	Line int
+	Msg  string
+	Err  error // underlying cause, if any
+}
+
+// Error prints "path:line: msg" (or "path: msg" without a line).
+func (e *SpecError) Error() string {
+	if e.Line > 0 {
+		return e.Path + ":" + strconv.Itoa(e.Line) + ": " + e.Msg
+	}
+	return e.Path + ": " + e.Msg
+}
+
+// Unwrap returns the underlying cause.
+func (e *SpecError) Unwrap() error { return e.Err }
+
+// yparser walks the YAML tree of a spec and turns problems into
+// SpecErrors naming the line. It stops at the first problem: err is
+// sticky and later calls do nothing.
+type yparser struct {
+	path string
+	err  error
+}
+
+func (p *yparser) failf(n *yaml.Node, format string, a ...any) {
+	if p.err != nil {
+		return
+	}
+	line := 0
+	if n != nil {
+		line = n.Line
+	}
+	p.err = &SpecError{Path: p.path, Line: line, Msg: fmt.Sprintf(format, a...)}
+}
+
+func (p *yparser) ok() bool { return p.err == nil }
+
+// deref follows YAML aliases (bounded, so alias loops cannot hang).
+func deref(n *yaml.Node) *yaml.Node {
+	for i := 0; n != nil && n.Kind == yaml.AliasNode && i < 64; i++ {
+		n = n.Alias
+	}
+	return n
+}
+
+func describe(n *yaml.Node) string {
+	switch n.Kind {
+	case yaml.MappingNode:
+		return "a mapping"
+	case yaml.SequenceNode:
+		return "a list"
+	case yaml.ScalarNode:
+		if n.Tag == "!!null" {
+			return "nothing"
+		}
+		v := n.Value
+		if len(v) > 40 {
+			v = v[:40] + "..."
+		}
+		return fmt.Sprintf("%q", v)
+	}
+	return "something else"
+}
+
+// ymap is a checked YAML mapping: its values and key nodes by name.
+type ymap struct {
+	where string // "value", "candidates.infill", "layouts[2].wells[1]"
+	node  *yaml.Node
+	vals  map[string]*yaml.Node
+	keys  map[string]*yaml.Node
+}
+
+func (m *ymap) has(k string) bool {
+	if m == nil {
+		return false
+	}
+	_, ok := m.vals[k]
+	return ok
+}
+
+func (m *ymap) label(k string) string {
+	if m.where == "" {
+		return k
+	}
+	return m.where + "." + k
+}
+
+// mapping checks that n is a mapping whose keys are all allowed (an
+// unknown key is reported with its line and the nearest allowed key) and
+// that the required ones are present.
+func (p *yparser) mapping(n *yaml.Node, where string, allowed, required []string) *ymap {
+	n = deref(n)
+	if !p.ok() || n == nil {
+		return nil
+	}
+	name := where
+	if name == "" {
+		name = "the spec"
+	}
+	if n.Kind != yaml.MappingNode {
+		p.failf(n, "%s must be a mapping (key: value lines), found %s", name, describe(n))
+		return nil
+	}
+	m := &ymap{where: where, node: n, vals: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := deref(n.Content[i]), deref(n.Content[i+1])
+		if k.Kind != yaml.ScalarNode {
+			p.failf(k, "%s: a key must be a plain name, found %s", name, describe(k))
+			return nil
+		}
+		key := k.Value
+		if !contains(allowed, key) {
+			p.failf(k, "unknown key %q in %s; did you mean %q? (allowed: %s)", key, name, nearest(key, allowed), strings.Join(allowed, ", "))
+			return nil
+		}
+		if _, dup := m.vals[key]; dup {
+			p.failf(k, "key %q appears twice in %s (first on line %d)", key, name, m.keys[key].Line)
+			return nil
+		}
+		m.vals[key], m.keys[key] = v, k
+	}
+	for _, r := range required {
+		if _, ok := m.vals[r]; !ok {
+			p.failf(n, "%s: missing key %q", name, r)
+			return nil
+		}
+	}
+	return m
+}
+
+// number reads a finite number; check returns "" or what is wrong.
+func (p *yparser) number(m *ymap, key string, def float64, check func(float64) string) float64 {
+	if !p.ok() || !m.has(key) {
+		return def
+	}
+	n := m.vals[key]
+	v, msg := scalarNumber(n)
+	if msg == "" && check != nil {
+		msg = check(v)
+	}
+	if msg != "" {
+		p.failf(n, "%s %s", m.label(key), msg)
+		return def
+	}
+	return v
+}
+
+// scalarNumber parses a YAML scalar as a finite number.
+func scalarNumber(n *yaml.Node) (float64, string) {
+	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
+		return 0, "must be a number, found " + describe(n)
+	}
+	if n.Tag != "!!int" && n.Tag != "!!float" {
+		return 0, "must be a number, found " + describe(n)
+	}
+	v, err := strconv.ParseFloat(strings.ReplaceAll(n.Value, "_", ""), 64)
+	if err != nil {
+		var ne *strconv.NumError
+		if errors.As(err, &ne) && errors.Is(ne.Err, strconv.ErrRange) {
+			return 0, "is out of range"
+		}
+		// YAML spellings such as .inf, .nan, 0x1f, 0o17.
+		if n.Tag == "!!int" {
+			if i, err := strconv.ParseInt(n.Value, 0, 64); err == nil {
+				return float64(i), ""
+			}
+		}
+		return 0, "must be a finite number, found " + describe(n)
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, "must be a finite number, found " + describe(n)
+	}
+	return v, ""
+}
+
+func (p *yparser) integer(m *ymap, key string, def, lo, hi int) int {
+	if !p.ok() || !m.has(key) {
+		return def
+	}
+	n := m.vals[key]
+	v, msg := scalarNumber(n)
+	if msg == "" && v != math.Trunc(v) {
+		msg = "must be a whole number, found " + describe(n)
+	}
+	if msg == "" && (v < float64(lo) || v > float64(hi)) {
+		msg = fmt.Sprintf("= %s is outside [%d, %d]", n.Value, lo, hi)
+	}
+	if msg != "" {
+		p.failf(n, "%s %s", m.label(key), msg)
+		return def
+	}
+	return int(v)
+}
+
+func (p *yparser) str(m *ymap, key string) string {
+	if !p.ok() || !m.has(key) {
+		return ""
+	}
+	n := m.vals[key]
+	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
+		p.failf(n, "%s must be text, found %s", m.label(key), describe(n))
+		return ""
+	}
+	return strings.TrimSpace(n.Value)
+}
+
+// pair reads [a, b].
+func (p *yparser) pair(m *ymap, key string, def [2]float64, check func(float64) string) [2]float64 {
+	if !p.ok() || !m.has(key) {
+		return def
+	}
+	n := m.vals[key]
+	if n.Kind != yaml.SequenceNode || len(n.Content) != 2 {
+		p.failf(n, "%s must be a pair [a, b], found %s", m.label(key), describe(n))
+		return def
+	}
+	var out [2]float64
+	for i, c := range n.Content {
+		c = deref(c)
+		v, msg := scalarNumber(c)
+		if msg == "" && check != nil {
+			msg = check(v)
+		}
+		if msg != "" {
+			p.failf(c, "%s[%d] %s", m.label(key), i+1, msg)
+			return def
+		}
+		out[i] = v
+	}
+	return out
+}
+
+// list returns the items of a sequence (a single non-list value is an
+// error).
+func (p *yparser) list(m *ymap, key string) []*yaml.Node {
+	if !p.ok() || !m.has(key) {
+		return nil
+	}
+	n := m.vals[key]
+	if n.Kind != yaml.SequenceNode {
+		p.failf(n, "%s must be a list, found %s", m.label(key), describe(n))
+		return nil
+	}
+	out := make([]*yaml.Node, len(n.Content))
+	for i, c := range n.Content {
+		out[i] = deref(c)
+	}
+	return out
+}
+
+func positive(v float64) string {
+	if v > 0 {
+		return ""
+	}
+	return fmt.Sprintf("= %g must be positive", v)
+}
+
+func nonNegative(v float64) string {
+	if v >= 0 {
+		return ""
+	}
+	return fmt.Sprintf("= %g must not be negative", v)
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// nearest returns the element of list closest to s by edit distance
+// (Levenshtein 1966), case-insensitive; ties go to the earlier element.
+func nearest(s string, list []string) string {
+	best, bestD := "", math.MaxInt
+	ls := strings.ToLower(s)
+	for _, c := range list {
+		if d := editDistance(ls, strings.ToLower(c)); d < bestD {
+			best, bestD = c, d
+		}
+	}
+	return best
+}
+
+// editDistance is the Levenshtein (1966) distance between a and b, by the
+// two-row dynamic programme.
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			c := prev[j-1]
+			if ra[i-1] != rb[j-1] {
+				c++
+			}
+			cur[j] = min(c, prev[j]+1, cur[j-1]+1)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}
