@@ -98,6 +98,7 @@ func SeriesStyle(i int) (color.RGBA, []float64) {
 // niceTicker marks about n nice values (Heckbert 1990).
 type niceTicker struct{ n int }
 
+// Ticks implements plot.Ticker.
 func (t niceTicker) Ticks(lo, hi float64) []plot.Tick {
 	vs, step := LinearTicks(lo, hi, t.n)
 	dec := decimalsFor(step)

@@ -361,12 +361,19 @@ func (c *mapCanvas) wells() {
 	r := c.symbolRadius()
 	type pos struct{ x, y float64 }
 	ps := make([]pos, len(c.s.Wells))
+	m := c.l.Map
+	inside := func(p pos) bool {
+		return p.x >= float64(m.Min.X)-1 && p.x <= float64(m.Max.X)+1 && p.y >= float64(m.Min.Y)-1 && p.y <= float64(m.Max.Y)+1
+	}
 	for i, w := range c.s.Wells {
 		x, y := c.l.ToPixel(w.X, w.Y)
 		ps[i] = pos{x, y}
 		c.boxes = append(c.boxes, box{x - 1.3*r, y - 1.3*r, x + 1.3*r, y + 1.3*r})
 	}
 	for i, w := range c.s.Wells {
+		if !inside(ps[i]) {
+			continue // a well off the grid is not drawn over the legend
+		}
 		if w.Injector {
 			drawInjector(c.dc, ps[i].x, ps[i].y, r)
 		} else {
@@ -376,7 +383,9 @@ func (c *mapCanvas) wells() {
 	size := math.Max(11, 21*c.l.S)
 	face := c.f.get(bold, size)
 	for i, w := range c.s.Wells {
-		c.placeLabel(w.Name, face, size, ps[i].x, ps[i].y, r*1.3+5*c.l.S, colInk)
+		if inside(ps[i]) {
+			c.placeLabel(w.Name, face, size, ps[i].x, ps[i].y, r*1.3+5*c.l.S, colInk)
+		}
 	}
 }
 
@@ -585,7 +594,7 @@ func (c *mapCanvas) colourBar(sc Scale) {
 		ticks = LogTicks(sc.Min, sc.Max)
 	} else {
 		var step float64
-		ticks, step = LinearTicks(sc.Min, sc.Max, max(3, min(8, int(float64(n)/(48*s)))))
+		ticks, step = LinearTicks(sc.Min, sc.Max, max(3, min(9, int(float64(n)/(38*s)))))
 		dec = decimalsFor(step)
 	}
 	size := math.Max(8, 19*s)

@@ -11,7 +11,7 @@ import (
 // as storage capacity phi (increasing from 0 to 1) against flow capacity
 // F: twice the area between the curve and the 45-degree line, by the
 // trapezoid rule (Lake 1989, "Enhanced Oil Recovery"; Shook and Mitchell
-// 2009, SPE 124625). Points with NaN are skipped; the curve is closed at
+// 2009; both from memory). Points with NaN are skipped; the curve is closed at
 // (0,0) and (1,1) when it does not reach them.
 func LorenzCoefficient(phi, F []float64) (float64, error) {
 	if len(phi) != len(F) {
