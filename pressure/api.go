@@ -6,12 +6,11 @@ import (
 )
 
 // Settings controls a pressure solve. The zero value is a sensible default:
-// relative residual 1e-10, incomplete Cholesky preconditioning.
+// relative residual 1e-10 and DefaultPreconditioner.
 type Settings struct {
 	Tol float64 // relative residual of the linear solve; 0 = 1e-10
-	// Preconditioner builds the preconditioner; nil = incomplete Cholesky
-	// IC(0) (sparse.NewIC0). sparse.NewMIC0, the modified form, needs
-	// about half the iterations on pressure matrices.
+	// Preconditioner builds the preconditioner; nil = DefaultPreconditioner
+	// (IC(0) on small systems, algebraic multigrid on large ones).
 	Preconditioner sparse.PreconditionerFunc
 }
 

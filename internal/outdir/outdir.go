@@ -32,7 +32,20 @@ type Dir struct {
 // unless force is set; with force those files are left alone. A previous
 // summary.json is removed first, so the folder reads as unfinished until the
 // new run completes.
-func Open(dir string, force bool) (*Dir, error) {
+func Open(dir string, force bool) (*Dir, error) { return open(dir, force, false) }
+
+// Reopen opens the folder of a finished run to add or redraw files: the
+// run's own files, summary.json included, are kept (see KeepAll).
+func Reopen(dir string) (*Dir, error) {
+	d, err := open(dir, true, true)
+	if err != nil {
+		return nil, err
+	}
+	d.KeepAll()
+	return d, nil
+}
+
+func open(dir string, force, keepSummary bool) (*Dir, error) {
 	d := &Dir{Path: dir, old: map[string]bool{}, written: map[string]bool{}}
 	st, err := os.Stat(dir)
 	switch {
@@ -73,7 +86,7 @@ func Open(dir string, force bool) (*Dir, error) {
 			}
 			return nil, fmt.Errorf("%s: the folder holds %d file(s) floodtrace did not write (%s); choose another folder or use --force to write beside them", dir, len(foreign), strings.Join(ex, ", "))
 		}
-		if d.old["summary.json"] {
+		if d.old["summary.json"] && !keepSummary {
 			if err := os.Remove(filepath.Join(dir, "summary.json")); err != nil && !os.IsNotExist(err) {
 				return nil, err
 			}
@@ -111,6 +124,14 @@ func (d *Dir) Bytes(rel string, b []byte) error {
 func (d *Dir) Adopt(rel ...string) {
 	for _, r := range rel {
 		d.written[filepath.ToSlash(filepath.Clean(r))] = true
+	}
+}
+
+// KeepAll marks every file of the previous manifest as written, so Close
+// keeps them.
+func (d *Dir) KeepAll() {
+	for r := range d.old {
+		d.written[r] = true
 	}
 }
 

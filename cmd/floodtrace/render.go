@@ -1,0 +1,77 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/pflag"
+
+	"floodtrace/internal/outdir"
+	"floodtrace/render"
+)
+
+var renderFlags struct {
+	size   string
+	format string
+	frames int
+}
+
+func init() {
+	register(&command{
+		Name:  "render",
+		Usage: "render DIR [--size WxH] [--format png|svg] [--frames N]",
+		Short: "redraw the pictures and the report of a finished run",
+		Long: `Render redraws the maps, charts, animation and report.html of a finished run from
+its output files, without recomputing anything: use it for another picture size
+or chart format. DIR must hold a finished run (with summary.json).
+
+Examples:
+  floodtrace render out/vardel --size 1280x720
+  floodtrace render out/vardel --format svg
+  floodtrace render out/vardel --frames 12`,
+		NArgs: exactly(1),
+		Flags: func(fs *pflag.FlagSet) {
+			fs.StringVar(&renderFlags.size, "size", "1920x1080", "picture size WxH")
+			fs.StringVar(&renderFlags.format, "format", "png", "chart format: png or svg")
+			fs.IntVar(&renderFlags.frames, "frames", 0, "animation frames, chosen evenly among the saved maps (0 = all)")
+		},
+		Run: runRender,
+	})
+}
+
+func runRender(args []string) error {
+	dir := args[0]
+	w, h, err := parseSize(renderFlags.size)
+	if err != nil {
+		return usageError{err.Error()}
+	}
+	if renderFlags.format != "png" && renderFlags.format != "svg" {
+		return usageError{fmt.Sprintf("--format must be png or svg, not %q", renderFlags.format)}
+	}
+	if renderFlags.frames < 0 {
+		return usageError{"--frames must be 0 or more"}
+	}
+	if _, err := os.Stat(filepath.Join(dir, "summary.json")); err != nil {
+		return fmt.Errorf("%s: not a finished run (no summary.json)", dir)
+	}
+	// Reopen the folder so the manifest lists the new pictures and the
+	// run's own files are kept.
+	d, err := outdir.Reopen(dir)
+	if err != nil {
+		return err
+	}
+	rep, err := render.Run(dir, render.Options{Width: w, Height: h, Format: renderFlags.format, Frames: renderFlags.frames})
+	if err != nil {
+		return err
+	}
+	d.Adopt(rep.Files...)
+	if err := d.Close(); err != nil {
+		return err
+	}
+	for _, n := range rep.Notes {
+		fmt.Fprintf(stderr, "note: %s\n", n)
+	}
+	fmt.Fprintf(stdout, "drew %d file(s) in %s\n", len(rep.Files), dir)
+	return nil
+}
