@@ -1,0 +1,542 @@
+package reservoir
+
+import (
+	"bufio"
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// MaxCells is the largest grid the package loads: 50 million cells. Larger
+// grids are refused before any allocation, with an estimate of the memory
+// a run would need (EstimateMemory).
+const MaxCells = 50_000_000
+
+// maxLineBytes bounds one line of a map file (64 MiB): longer lines are
+// refused rather than buffered.
+const maxLineBytes = 64 << 20
+
+// Raster is a map read from a GIS ASCII raster. Values holds one value per
+// grid cell, k = j*NX + i with j = 0 the SOUTH row (the file lists rows from
+// north to south; the reader flips them); NODATA cells hold NaN.
+type Raster struct {
+	Grid      Grid
+	Values    []float64
+	NoData    float64 // the header's NODATA_value, if HasNoData
+	HasNoData bool
+}
+
+// rasterKeys are the header keys of a GIS ASCII raster (compared in lower
+// case).
+var rasterKeys = []string{"ncols", "nrows", "xllcorner", "xllcenter", "yllcorner", "yllcenter",
+	"cellsize", "dx", "dy", "nodata_value"}
+
+func isRasterKey(s string) bool {
+	s = strings.ToLower(s)
+	for _, k := range rasterKeys {
+		if s == k {
+			return true
+		}
+	}
+	return false
+}
+
+// lineReader reads a text map file line by line, tracking the line number,
+// stripping a UTF-8 byte-order mark and carriage returns, refusing binary
+// data and skipping blank lines and, where allowed, '#' comment lines.
+type lineReader struct {
+	sc       *bufio.Scanner
+	name     string
+	line     int
+	comments bool
+	pending  []string // a line pushed back by unread
+	pendLine int
+}
+
+func newLineReader(r io.Reader, name string, comments bool) *lineReader {
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 0, 64*1024), maxLineBytes)
+	return &lineReader{sc: sc, name: name, comments: comments}
+}
+
+// next returns the fields of the next non-blank line, or nil at the end of
+// the file.
+func (lr *lineReader) next() ([]string, error) {
+	if lr.pending != nil {
+		f := lr.pending
+		lr.pending = nil
+		lr.line = lr.pendLine
+		return f, nil
+	}
+	for lr.sc.Scan() {
+		lr.line++
+		b := lr.sc.Bytes()
+		if lr.line == 1 {
+			b = bytes.TrimPrefix(b, []byte("\xef\xbb\xbf"))
+		}
+		if i := bytes.IndexByte(b, 0); i >= 0 {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: "not a text file (NUL byte)"}
+		}
+		s := strings.TrimSpace(string(b))
+		if s == "" || (lr.comments && s[0] == '#') {
+			continue
+		}
+		f, err := splitFields(s)
+		if err != "" {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: err}
+		}
+		return f, nil
+	}
+	if err := lr.sc.Err(); err != nil {
+		if errors.Is(err, bufio.ErrTooLong) {
+			return nil, &InputError{Path: lr.name, Line: lr.line + 1, Msg: fmt.Sprintf("line longer than %d bytes", maxLineBytes), Err: ErrTooLarge}
+		}
+		return nil, &InputError{Path: lr.name, Msg: "reading: " + err.Error(), Err: err}
+	}
+	return nil, nil
+}
+
+func (lr *lineReader) unread(f []string) {
+	lr.pending = f
+	lr.pendLine = lr.line
+}
+
+// splitFields splits a line on commas if it has any, else on white space.
+// An empty field between commas is reported by its column.
+func splitFields(s string) ([]string, string) {
+	if !strings.ContainsRune(s, ',') {
+		return strings.Fields(s), ""
+	}
+	f := strings.Split(s, ",")
+	for i := range f {
+		f[i] = strings.TrimSpace(f[i])
+		if f[i] == "" {
+			return nil, fmt.Sprintf("column %d: empty value between commas", i+1)
+		}
+	}
+	return f, ""
+}
+
+// parseValue parses one map value. NaN and infinities are refused unless
+// they are the NODATA value; a NODATA value becomes NaN.
+func parseValue(tok string, nodata float64, hasNoData bool) (float64, string) {
+	v, err := strconv.ParseFloat(tok, 64)
+	if err != nil {
+		if errors.Is(err, strconv.ErrRange) {
+			return 0, fmt.Sprintf("%q is out of range", tok)
+		}
+		return 0, fmt.Sprintf("%q is not a number", tok)
+	}
+	if hasNoData && (v == nodata || (math.IsNaN(v) && math.IsNaN(nodata))) {
+		return math.NaN(), ""
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, fmt.Sprintf("%q is not a finite number", tok)
+	}
+	return v, ""
+}
+
+// checkSize refuses grids of more than limit cells, or with a non-positive
+// dimension, without allocating anything.
+func checkSize(name string, line int, nx, ny int64, limit int) error {
+	if nx <= 0 || ny <= 0 {
+		return &InputError{Path: name, Line: line, Msg: fmt.Sprintf("grid size %d x %d: both must be positive", nx, ny)}
+	}
+	if nx > int64(limit) || ny > int64(limit) || nx*ny > int64(limit) {
+		cells := float64(nx) * float64(ny)
+		est := float64(BytesPerCell) * cells
+		return &InputError{Path: name, Line: line, Err: ErrTooLarge, Msg: fmt.Sprintf(
+			"grid %d x %d = %.4g cells is too large: a run would need about %s of memory; the limit is %d cells (about %s)",
+			nx, ny, cells, formatBytes(est), limit, formatBytes(float64(BytesPerCell)*float64(limit)))}
+	}
+	return nil
+}
+
+// readRows reads ny rows of nx values, north row first, and returns them
+// flipped so that index j*nx+i has j = 0 at the south. Row and column
+// numbers in messages count from 1 at the top left of the file.
+func readRows(lr *lineReader, nx, ny int, nodata float64, hasNoData bool, what string) ([]float64, error) {
+	vals := make([]float64, 0, min(nx*ny, 4096))
+	row := 0
+	for {
+		f, err := lr.next()
+		if err != nil {
+			return nil, err
+		}
+		if f == nil {
+			break
+		}
+		row++
+		if row > ny {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("more than %d rows; expected %d (%s)", ny, ny, what)}
+		}
+		if len(f) != nx {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", row, len(f), nx)}
+		}
+		for c, tok := range f {
+			v, msg := parseValue(tok, nodata, hasNoData)
+			if msg != "" {
+				return nil, &InputError{Path: lr.name, Row: row, Col: c + 1, Msg: msg}
+			}
+			vals = append(vals, v)
+		}
+	}
+	if row < ny {
+		return nil, &InputError{Path: lr.name, Msg: fmt.Sprintf("only %d rows; expected %d (%s)", row, ny, what)}
+	}
+	// Flip north-first rows to south-first.
+	for a, b := 0, ny-1; a < b; a, b = a+1, b-1 {
+		ra, rb := vals[a*nx:(a+1)*nx], vals[b*nx:(b+1)*nx]
+		for i := range ra {
+			ra[i], rb[i] = rb[i], ra[i]
+		}
+	}
+	return vals, nil
+}
+
+// ReadASCIIRaster reads a GIS ASCII raster from r; name is used in
+// messages. The header holds, one "key value" pair per line and in any
+// order, ncols, nrows, xllcorner or xllcenter, yllcorner or yllcenter,
+// cellsize (or dx and dy) and optionally NODATA_value; keys are
+// case-insensitive. The nrows rows that follow, one per line, list ncols
+// values each from north to south, separated by white space (or commas).
+// Rasters of more than MaxCells cells are refused before reading the data.
+func ReadASCIIRaster(r io.Reader, name string) (*Raster, error) {
+	return readRaster(newLineReader(r, name, false), MaxCells)
+}
+
+func readRaster(lr *lineReader, limit int) (*Raster, error) {
+	h, err := readRasterHeader(lr, limit)
+	if err != nil {
+		return nil, err
+	}
+	return readRasterRows(lr, h)
+}
+
+func readRasterRows(lr *lineReader, h *Raster) (*Raster, error) {
+	vals, err := readRows(lr, h.Grid.NX, h.Grid.NY, h.NoData, h.HasNoData, "nrows")
+	if err != nil {
+		return nil, err
+	}
+	h.Values = vals
+	return h, nil
+}
+
+// readRasterHeader reads and validates the header of a raster; the
+// returned Raster has no values yet.
+func readRasterHeader(lr *lineReader, limit int) (*Raster, error) {
+	hdr := map[string]float64{}
+	hdrLine := map[string]int{}
+	for {
+		f, err := lr.next()
+		if err != nil {
+			return nil, err
+		}
+		if f == nil {
+			break
+		}
+		if len(f) == 0 || !startsWithLetter(f[0]) {
+			lr.unread(f)
+			break
+		}
+		key := strings.ToLower(f[0])
+		if !isRasterKey(key) {
+			if len(f) == 2 {
+				msg := fmt.Sprintf("unknown raster header key %q", f[0])
+				if s, ok := nearest(key, rasterKeys); ok {
+					msg += fmt.Sprintf("; did you mean %q?", s)
+				}
+				return nil, &InputError{Path: lr.name, Line: lr.line, Msg: msg}
+			}
+			lr.unread(f)
+			break
+		}
+		if len(f) != 2 {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("raster header line %q must be a key and one value", strings.Join(f, " "))}
+		}
+		if _, dup := hdr[key]; dup {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("raster header key %s given twice (first on line %d)", f[0], hdrLine[key])}
+		}
+		v, err2 := strconv.ParseFloat(f[1], 64)
+		if err2 != nil || (key != "nodata_value" && (math.IsNaN(v) || math.IsInf(v, 0))) {
+			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("raster header %s: %q is not a finite number", f[0], f[1])}
+		}
+		hdr[key], hdrLine[key] = v, lr.line
+	}
+	if len(hdr) == 0 {
+		if lr.line == 0 {
+			return nil, &InputError{Path: lr.name, Msg: "empty map file"}
+		}
+		return nil, &InputError{Path: lr.name, Line: lr.line, Msg: "no GIS ASCII raster header (ncols, nrows, xllcorner, yllcorner, cellsize, NODATA_value)"}
+	}
+	miss := func(k string) error {
+		return &InputError{Path: lr.name, Msg: "raster header has no " + k}
+	}
+	intKey := func(k string) (int64, error) {
+		v, ok := hdr[k]
+		if !ok {
+			return 0, miss(k)
+		}
+		if v != math.Trunc(v) || v < 1 || v > 1e12 {
+			return 0, &InputError{Path: lr.name, Line: hdrLine[k], Msg: fmt.Sprintf("raster header %s must be a positive whole number (got %g)", k, v)}
+		}
+		return int64(v), nil
+	}
+	nx, err := intKey("ncols")
+	if err != nil {
+		return nil, err
+	}
+	ny, err := intKey("nrows")
+	if err != nil {
+		return nil, err
+	}
+	var g Grid
+	_, hasCS := hdr["cellsize"]
+	_, hasDX := hdr["dx"]
+	_, hasDY := hdr["dy"]
+	switch {
+	case hasCS && (hasDX || hasDY):
+		return nil, &InputError{Path: lr.name, Line: hdrLine["cellsize"], Msg: "raster header gives both cellsize and dx/dy"}
+	case hasCS:
+		g.DX, g.DY = hdr["cellsize"], hdr["cellsize"]
+	case hasDX && hasDY:
+		g.DX, g.DY = hdr["dx"], hdr["dy"]
+	default:
+		return nil, miss("cellsize (or dx and dy)")
+	}
+	if !(g.DX > 0) || !(g.DY > 0) {
+		k := "cellsize"
+		if !hasCS {
+			k = "dx"
+		}
+		return nil, &InputError{Path: lr.name, Line: hdrLine[k], Msg: fmt.Sprintf("raster cell size must be positive (got %g x %g)", g.DX, g.DY)}
+	}
+	for _, axis := range []struct {
+		corner, center string
+		d              float64
+		dst            *float64
+	}{{"xllcorner", "xllcenter", g.DX, &g.X0}, {"yllcorner", "yllcenter", g.DY, &g.Y0}} {
+		c, okc := hdr[axis.corner]
+		m, okm := hdr[axis.center]
+		switch {
+		case okc && okm:
+			return nil, &InputError{Path: lr.name, Line: hdrLine[axis.center], Msg: fmt.Sprintf("raster header gives both %s and %s", axis.corner, axis.center)}
+		case okc:
+			*axis.dst = c
+		case okm:
+			*axis.dst = m - axis.d/2
+		default:
+			return nil, miss(axis.corner + " (or " + axis.center + ")")
+		}
+	}
+	if err := checkSize(lr.name, hdrLine["ncols"], nx, ny, limit); err != nil {
+		return nil, err
+	}
+	g.NX, g.NY = int(nx), int(ny)
+	nodata, hasND := hdr["nodata_value"]
+	return &Raster{Grid: g, NoData: nodata, HasNoData: hasND}, nil
+}
+
+func startsWithLetter(s string) bool {
+	c := s[0]
+	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c == '_'
+}
+
+// ReadMatrix reads a plain matrix map from r: ny rows of nx values, first
+// row north, values separated by white space or by commas; blank lines and
+// lines starting with '#' are skipped. The values are returned flipped so
+// that index k = j*nx + i has j = 0 at the south. A plain matrix has no
+// NODATA value: NaN and infinities are errors. name is used in messages.
+func ReadMatrix(r io.Reader, name string, nx, ny int) ([]float64, error) {
+	if err := checkSize(name, 0, int64(nx), int64(ny), MaxCells); err != nil {
+		return nil, err
+	}
+	lr := newLineReader(r, name, true)
+	vals, err := readRows(lr, nx, ny, 0, false, "ny")
+	if err != nil {
+		return nil, err
+	}
+	return vals, nil
+}
+
+// sniffRaster reports whether the first non-blank line of data starts with
+// a raster header key.
+func sniffRaster(data []byte) bool {
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
+	for len(data) > 0 {
+		line := data
+		if i := bytes.IndexByte(data, '\n'); i >= 0 {
+			line, data = data[:i], data[i+1:]
+		} else {
+			data = nil
+		}
+		f := strings.Fields(string(line))
+		if len(f) == 0 {
+			continue
+		}
+		return isRasterKey(f[0])
+	}
+	return false
+}
+
+// ReadMap reads the map file at path, a GIS ASCII raster or a plain
+// matrix, told apart by the raster header (a file named .asc must have
+// one). With g == nil the map must be a raster and its header defines the
+// returned grid; otherwise the values must fit g: a raster header that
+// disagrees with g is an error naming both, and a plain matrix must have
+// g.NY rows of g.NX values. Values are indexed k = j*NX + i with j = 0 the
+// south row; NODATA cells hold NaN.
+func ReadMap(path string, g *Grid) ([]float64, *Grid, error) {
+	return readMapFile(path, g, "", MaxCells)
+}
+
+// readMapFile is ReadMap with a cell limit and the origin of the grid named
+// in messages ("from case.yaml:3"; "" for none).
+func readMapFile(path string, g *Grid, gridFrom string, limit int) ([]float64, *Grid, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, openError(path, err)
+	}
+	defer f.Close()
+	br := bufio.NewReaderSize(f, 64*1024)
+	head, _ := br.Peek(4096)
+	raster := sniffRaster(head) || strings.EqualFold(filepath.Ext(path), ".asc")
+	if !raster {
+		if g == nil {
+			return nil, nil, &InputError{Path: path, Msg: "a plain matrix cannot define the grid: give a grid in the case file or use a GIS ASCII raster"}
+		}
+		if len(bytes.TrimSpace(head)) == 0 {
+			return nil, nil, &InputError{Path: path, Msg: "empty map file"}
+		}
+		vals, err := readRows(newLineReader(br, path, true), g.NX, g.NY, 0, false, "ny")
+		if err != nil {
+			return nil, nil, err
+		}
+		return vals, g, nil
+	}
+	lr := newLineReader(br, path, false)
+	if g != nil {
+		// Check the header against the grid before reading the data.
+		r, err := readRasterChecked(lr, limit, g, gridFrom)
+		if err != nil {
+			return nil, nil, err
+		}
+		return r.Values, g, nil
+	}
+	r, err := readRaster(lr, limit)
+	if err != nil {
+		return nil, nil, err
+	}
+	return r.Values, &r.Grid, nil
+}
+
+// readRasterChecked reads a raster whose header must agree with g; the
+// header is compared before the rows are read.
+func readRasterChecked(lr *lineReader, limit int, g *Grid, gridFrom string) (*Raster, error) {
+	h, err := readRasterHeader(lr, limit)
+	if err != nil {
+		return nil, err
+	}
+	if hv, gv := headerMismatch(h.Grid, *g); hv != "" {
+		from := ""
+		if gridFrom != "" {
+			from = ", " + gridFrom
+		}
+		return nil, &InputError{Path: lr.name, Msg: fmt.Sprintf("raster header %s disagrees with the grid (%s%s)", hv, gv, from)}
+	}
+	return readRasterRows(lr, h)
+}
+
+// headerMismatch compares a raster's grid h with the grid g and describes
+// the first difference as the header's value and the grid's ("" if they
+// agree). Sizes must match exactly, cell sizes to 1e-9 relative and
+// corners to a millionth of a cell.
+func headerMismatch(h, g Grid) (hv, gv string) {
+	switch {
+	case h.NX != g.NX:
+		return fmt.Sprintf("ncols %d", h.NX), fmt.Sprintf("nx %d", g.NX)
+	case h.NY != g.NY:
+		return fmt.Sprintf("nrows %d", h.NY), fmt.Sprintf("ny %d", g.NY)
+	case math.Abs(h.DX-g.DX) > 1e-9*g.DX:
+		return fmt.Sprintf("cell size %g in x", h.DX), fmt.Sprintf("dx %g", g.DX)
+	case math.Abs(h.DY-g.DY) > 1e-9*g.DY:
+		return fmt.Sprintf("cell size %g in y", h.DY), fmt.Sprintf("dy %g", g.DY)
+	case math.Abs(h.X0-g.X0) > 1e-6*g.DX+1e-12*math.Abs(g.X0):
+		return fmt.Sprintf("xllcorner %g", h.X0), fmt.Sprintf("origin x %g", g.X0)
+	case math.Abs(h.Y0-g.Y0) > 1e-6*g.DY+1e-12*math.Abs(g.Y0):
+		return fmt.Sprintf("yllcorner %g", h.Y0), fmt.Sprintf("origin y %g", g.Y0)
+	}
+	return "", ""
+}
+
+func openError(path string, err error) error {
+	msg := err.Error()
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		msg = pe.Err.Error()
+	}
+	if errors.Is(err, os.ErrNotExist) {
+		msg = "file not found"
+	}
+	return &InputError{Path: path, Msg: msg, Err: err}
+}
+
+// WriteASCIIRaster writes values on grid g as a GIS ASCII raster: the
+// header (ncols, nrows, xllcorner, yllcorner, cellsize, or dx and dy when
+// the cells are not square, NODATA_value), then the rows from north to
+// south. Cells that are inactive (active may be nil for all active) or NaN
+// are written as nodata. Values are written in the shortest form that
+// reads back exactly. An active value equal to nodata, or infinite, is an
+// error, as is a length that does not match the grid.
+func WriteASCIIRaster(w io.Writer, g Grid, values []float64, active []bool, nodata float64) error {
+	n := g.N()
+	if g.NX <= 0 || g.NY <= 0 {
+		return fmt.Errorf("write raster: grid %d x %d is empty", g.NX, g.NY)
+	}
+	if len(values) != n {
+		return fmt.Errorf("write raster: %d values for a grid of %d cells", len(values), n)
+	}
+	if active != nil && len(active) != n {
+		return fmt.Errorf("write raster: %d active flags for a grid of %d cells", len(active), n)
+	}
+	if math.IsNaN(nodata) || math.IsInf(nodata, 0) {
+		return fmt.Errorf("write raster: NODATA value %g is not finite", nodata)
+	}
+	bw := bufio.NewWriterSize(w, 64*1024)
+	fmt.Fprintf(bw, "ncols %d\nnrows %d\nxllcorner %s\nyllcorner %s\n", g.NX, g.NY, ftoa(g.X0), ftoa(g.Y0))
+	if g.DX == g.DY {
+		fmt.Fprintf(bw, "cellsize %s\n", ftoa(g.DX))
+	} else {
+		fmt.Fprintf(bw, "dx %s\ndy %s\n", ftoa(g.DX), ftoa(g.DY))
+	}
+	fmt.Fprintf(bw, "NODATA_value %s\n", ftoa(nodata))
+	buf := make([]byte, 0, 32)
+	for j := g.NY - 1; j >= 0; j-- {
+		for i := 0; i < g.NX; i++ {
+			k := j*g.NX + i
+			v := values[k]
+			if (active != nil && !active[k]) || math.IsNaN(v) {
+				v = nodata
+			} else if math.IsInf(v, 0) {
+				return fmt.Errorf("write raster: value %g in cell (i=%d, j=%d) is not finite", v, i, j)
+			} else if v == nodata {
+				return fmt.Errorf("write raster: value %g in cell (i=%d, j=%d) equals the NODATA value", v, i, j)
+			}
+			if i > 0 {
+				bw.WriteByte(' ')
+			}
+			buf = strconv.AppendFloat(buf[:0], v, 'g', -1, 64)
+			bw.Write(buf)
+		}
+		bw.WriteByte('\n')
+	}
+	return bw.Flush()
+}
+
+func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
