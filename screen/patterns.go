@@ -108,11 +108,15 @@ func (pt Pattern) Points(ox, oy, x0, y0, x1, y1 float64) ([]PatternPoint, error)
 		umin, umax = math.Min(umin, u), math.Max(umax, u)
 		vmin, vmax = math.Min(vmin, v), math.Max(vmax, v)
 	}
-	i0, i1 := int(math.Floor(umin/su))-1, int(math.Ceil(umax/su))+1
-	j0, j1 := int(math.Floor(vmin/sv))-1, int(math.Ceil(vmax/sv))+1
-	if float64(i1-i0+1)*float64(j1-j0+1)*float64(len(sites)) > 4e6 {
+	// Count in floating point first: a tiny spacing must not overflow.
+	if nw := ((umax-umin)/su + 3) * ((vmax-vmin)/sv + 3) * float64(len(sites)); !(nw <= 4e6) {
 		return nil, fmt.Errorf("pattern %s: spacing %g gives more than a million wells over the grid", pt.Name, a)
 	}
+	if lim := 1e9; !(math.Abs(umin/su) < lim && math.Abs(umax/su) < lim && math.Abs(vmin/sv) < lim && math.Abs(vmax/sv) < lim) {
+		return nil, fmt.Errorf("pattern %s: the offset puts the pattern's origin too far from the grid", pt.Name)
+	}
+	i0, i1 := int(math.Floor(umin/su))-1, int(math.Ceil(umax/su))+1
+	j0, j1 := int(math.Floor(vmin/sv))-1, int(math.Ceil(vmax/sv))+1
 	tol := 1e-9 * math.Max(math.Abs(x1-x0), math.Abs(y1-y0))
 	var out []PatternPoint
 	for j := j0; j <= j1; j++ {
@@ -122,7 +126,7 @@ func (pt Pattern) Points(ox, oy, x0, y0, x1, y1 float64) ([]PatternPoint, error)
 				x, y := ox+c*u-s*v, oy+s*u+c*v
 				// Snap round-off so that points on the rectangle's edge
 				// (and rotations by multiples of 90 degrees) are exact.
-				x, y = snap(x, ox, a), snap(y, oy, a)
+				x, y = snap(x), snap(y)
 				if x < x0-tol || x > x1+tol || y < y0-tol || y > y1+tol {
 					continue
 				}
@@ -139,11 +143,10 @@ func (pt Pattern) Points(ox, oy, x0, y0, x1, y1 float64) ([]PatternPoint, error)
 	return out, nil
 }
 
-// snap rounds x to the nearest multiple of a/1e9 relative to the origin
-// o, removing the round-off of the rotation.
-func snap(x, o, a float64) float64 {
-	q := a * 1e-9
-	return o + math.Round((x-o)/q)*q
+// snap rounds x to a millionth of a map unit, removing the round-off of
+// the rotation.
+func snap(x float64) float64 {
+	return math.Round(x*1e6) / 1e6
 }
 
 // Layout lays the pattern over the active cells of m and returns its
