@@ -3,6 +3,9 @@ package flood
 import (
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
@@ -22,6 +25,8 @@ type lineSet struct {
 	inj, prod []int     // well index or -1
 	uncovered int       // flowing cells crossed by no streamline
 	pv        []float64
+	vol       []float64 // sum of flux*tau per cell (the cell pore volume after rescaling)
+	segVal    []float64 // scratch: one value per segment
 }
 
 func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSet {
@@ -68,33 +73,88 @@ func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSe
 
 // cellSaturation maps the streamline solution at time t to cells by the
 // flux*tau weighted average of the streamlines in each cell. Cells no
-// streamline crosses keep swi; inactive cells are NaN.
-func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float64) []float64 {
+// streamline crosses keep swi; inactive cells are NaN. The segment
+// integrals are evaluated in parallel over fixed blocks of lines and added
+// to cells in line order, so the result does not depend on the number of
+// workers.
+func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float64, workers int) []float64 {
 	n := len(ls.pv)
-	sw := make([]float64, n)
-	vol := make([]float64, n)
-	for i := range ls.q {
-		q := ls.q[i]
-		prev := 0.0 // tau*avg at entry of the segment
-		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			cur := rs.cumSat(ls.b[s], t)
-			c := ls.cell[s]
-			sw[c] += q * (cur - prev)
-			vol[c] += q * (ls.b[s] - ls.a[s])
-			prev = cur
+	nseg := len(ls.cell)
+	if cap(ls.segVal) < nseg {
+		ls.segVal = make([]float64, nseg)
+	}
+	val := ls.segVal[:nseg]
+	nl := len(ls.q)
+	forBlocks(nl, workers, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			q := ls.q[i]
+			prev := 0.0 // tau*avg at entry of the segment
+			for s := ls.start[i]; s < ls.start[i+1]; s++ {
+				cur := rs.cumSat(ls.b[s], t)
+				val[s] = q * (cur - prev)
+				prev = cur
+			}
 		}
+	})
+	if ls.vol == nil {
+		ls.vol = make([]float64, n)
+		for i := range ls.q {
+			for s := ls.start[i]; s < ls.start[i+1]; s++ {
+				ls.vol[ls.cell[s]] += ls.q[i] * (ls.b[s] - ls.a[s])
+			}
+		}
+	}
+	sw := make([]float64, n)
+	for s, c := range ls.cell {
+		sw[c] += val[s]
 	}
 	for c := range sw {
 		switch {
 		case !m.Active[c]:
 			sw[c] = math.NaN()
-		case vol[c] > 0:
-			sw[c] /= vol[c]
+		case ls.vol[c] > 0:
+			sw[c] /= ls.vol[c]
 		default:
 			sw[c] = swi
 		}
 	}
 	return sw
+}
+
+// lineBlocks is the fixed number of blocks the lines are cut into for
+// parallel work; it does not depend on the number of cores.
+const lineBlocks = 64
+
+// forBlocks calls fn on lineBlocks contiguous ranges of [0, n) using up to
+// workers goroutines (0 = GOMAXPROCS). fn must write disjoint data.
+func forBlocks(n, workers int, fn func(lo, hi int)) {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	nb := min(lineBlocks, n)
+	if nb == 0 {
+		return
+	}
+	if workers == 1 || nb == 1 {
+		fn(0, n)
+		return
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < min(workers, nb); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				b := int(next.Add(1)) - 1
+				if b >= nb {
+					return
+				}
+				fn(b*n/nb, (b+1)*n/nb)
+			}
+		}()
+	}
+	wg.Wait()
 }
 
 func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *blTable, s Settings) {
@@ -219,18 +279,27 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 		}
 	}
 
-	// Saturation maps.
-	for _, t := range snapshotTimes(m) {
-		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: ls.cellSaturation(m, rs, t, swi)})
+	// Saturation maps; a map at the same time is computed once.
+	maps := map[float64][]float64{}
+	satAt := func(t float64) []float64 {
+		if sw, ok := maps[t]; ok {
+			return sw
+		}
+		sw := ls.cellSaturation(m, rs, t, swi, s.Workers)
+		maps[t] = sw
+		return sw
 	}
-	for _, k := range frameIndices(nt, s.Frames) {
+	for _, t := range snapshotTimes(m) {
+		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: satAt(t)})
+	}
+	for _, k := range frameIndices(nt, frameCount(s.Frames, len(ls.cell))) {
 		t := times[k]
-		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: r.PVI[k], Sw: ls.cellSaturation(m, rs, t, swi)})
+		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: r.PVI[k], Sw: satAt(t)})
 	}
 
 	// Mass balance at the end of the run, with the water in place taken
 	// from the saturation map.
-	end := ls.cellSaturation(m, rs, m.Run.End, swi)
+	end := satAt(m.Run.End)
 	dW := 0.0
 	for c, v := range end {
 		if m.Active[c] {
@@ -255,6 +324,25 @@ func snapshotTimes(m *reservoir.Model) []float64 {
 		ts = []float64{m.Run.End}
 	}
 	return ts
+}
+
+// frameBudget caps the work of the animation maps: frames times
+// streamline segments. A million-cell case gets fewer frames (at least 8).
+const frameBudget = 2e8
+
+// frameCount returns the number of animation frames for a request n (0 =
+// up to 40, negative = none) and nseg streamline segments.
+func frameCount(n, nseg int) int {
+	if n < 0 {
+		return n
+	}
+	if n == 0 {
+		n = 40
+		if nseg > 0 {
+			n = min(n, max(8, int(frameBudget/float64(nseg))))
+		}
+	}
+	return n
 }
 
 // frameIndices picks up to n report steps evenly (0 = 40, negative = none).

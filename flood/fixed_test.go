@@ -255,7 +255,7 @@ func TestSameSaturationDifferentOutflow(t *testing.T) {
 	_ = sol
 	rs := blForModel(t, m)
 	tm := 250.0
-	sw := ls.cellSaturation(m, rs, tm, m.Fluids.InitialSw)
+	sw := ls.cellSaturation(m, rs, tm, m.Fluids.InitialSw, 0)
 	out := ls.cellOutflow(rs, tm)
 	type cell struct{ s, fw float64 }
 	var cells []cell

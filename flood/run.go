@@ -85,6 +85,9 @@ type Result struct {
 	Model  *reservoir.Model
 	Engine string
 	// Pressure is the first pressure solution and Trace its streamlines.
+	// In a fixed-streamline run the lines' Cells and Tau are released once
+	// mapped (the run keeps them in its own flat arrays); Path, fluxes,
+	// wells, the cell maps and the allocation remain.
 	Pressure *pressure.Solution
 	Trace    *streamline.Result
 	// Times are the report times in days and PVI the pore volumes
@@ -185,7 +188,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	}
 	logf("streamlines: tracing %d", count)
 	field := Field(m, sol)
-	tr, err := streamline.Trace(field, streamline.Settings{Count: count, Workers: s.Workers, KeepPaths: true})
+	tr, err := streamline.Trace(field, streamline.Settings{Count: count, Workers: s.Workers, KeepPaths: true, MaxPathPoints: MaxPathPoints})
 	if err != nil {
 		return nil, err
 	}
@@ -207,12 +210,21 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
 	lines := newLineSet(m, tr, pv)
+	// The cell lists now live in lines; drop the tracer's copies (a
+	// million-cell case holds hundreds of megabytes of them).
+	for i := range tr.Lines {
+		tr.Lines[i].Cells, tr.Lines[i].Tau = nil, nil
+	}
 	if lines.uncovered > 0 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}
 	r.fixedTransport(m, sol, lines, newBLTable(sol1d, ff), s)
 	return r, nil
 }
+
+// MaxPathPoints is the most points kept per streamline polyline, for the
+// pictures and streamlines.geojson.
+const MaxPathPoints = 400
 
 // Field builds the streamline tracer's input from a pressure solution.
 func Field(m *reservoir.Model, sol *pressure.Solution) *streamline.Field {

@@ -254,7 +254,7 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	}
 	raster := func(name string, v []float64) error {
 		return d.Create(name, func(w io.Writer) error {
-			return reservoir.WriteASCIIRaster(w, m.Grid, v, m.Active, -9999)
+			return reservoir.WriteASCIIRasterDigits(w, m.Grid, v, m.Active, -9999, 7)
 		})
 	}
 	if r.Pressure != nil {

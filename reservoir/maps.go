@@ -495,6 +495,17 @@ func openError(path string, err error) error {
 // reads back exactly. An active value equal to nodata, or infinite, is an
 // error, as is a length that does not match the grid.
 func WriteASCIIRaster(w io.Writer, g Grid, values []float64, active []bool, nodata float64) error {
+	return WriteASCIIRasterDigits(w, g, values, active, nodata, -1)
+}
+
+// WriteASCIIRasterDigits is WriteASCIIRaster with values rounded to the
+// given number of significant digits (-1: the shortest form that reads
+// back exactly). Results such as saturations need no more than 6, and
+// writing fewer digits makes million-cell rasters smaller and faster.
+func WriteASCIIRasterDigits(w io.Writer, g Grid, values []float64, active []bool, nodata float64, digits int) error {
+	if digits == 0 || digits < -1 {
+		return fmt.Errorf("write raster: %d significant digits", digits)
+	}
 	n := g.N()
 	if g.NX <= 0 || g.NY <= 0 {
 		return fmt.Errorf("write raster: grid %d x %d is empty", g.NX, g.NY)
@@ -531,7 +542,7 @@ func WriteASCIIRaster(w io.Writer, g Grid, values []float64, active []bool, noda
 			if i > 0 {
 				bw.WriteByte(' ')
 			}
-			buf = strconv.AppendFloat(buf[:0], v, 'g', -1, 64)
+			buf = strconv.AppendFloat(buf[:0], v, 'g', digits, 64)
 			bw.Write(buf)
 		}
 		bw.WriteByte('\n')

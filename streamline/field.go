@@ -47,6 +47,11 @@ type Settings struct {
 	// KeepPaths stores the polyline of every streamline in map
 	// coordinates, for drawing.
 	KeepPaths bool
+	// MaxPathPoints thins each kept polyline to at most this many points
+	// (evenly chosen, both ends kept); 0 keeps every point. Drawing and
+	// GIS export need a few hundred; a million-cell grid would otherwise
+	// keep gigabytes of coordinates.
+	MaxPathPoints int
 }
 
 // MinPerWell is the smallest number of streamlines launched from a well

@@ -283,9 +283,24 @@ func (t *tracer) line(sd seed, up, down *half) (Line, lineMeta) {
 			l.Path = append(l.Path, up.path[i])
 		}
 		l.Path = append(l.Path, down.path...)
+		l.Path = thin(l.Path, t.maxPath)
 	}
 	return l, m
 }
 
 // wellCell returns the cell of well w.
 func (t *tracer) wellCell(w int) int32 { return t.cellOf[w] }
+
+// thin keeps at most n points of p, evenly spaced in index with both ends
+// kept; n <= 1 keeps all. The result is a fresh slice sized to fit.
+func thin(p [][2]float64, n int) [][2]float64 {
+	if n <= 1 || len(p) <= n {
+		return p
+	}
+	out := make([][2]float64, n)
+	last := len(p) - 1
+	for i := range out {
+		out[i] = p[(i*last)/(n-1)]
+	}
+	return out
+}

@@ -27,6 +27,7 @@ type tracer struct {
 	in, out  []float64 // forward inflow and outflow of each cell through its faces
 	maxSteps int
 	paths    bool
+	maxPath  int
 }
 
 func newTracer(f *Field, s Settings) *tracer {
@@ -37,7 +38,7 @@ func newTracer(f *Field, s Settings) *tracer {
 		pv: make([]float64, n), wellAt: make([]int32, n),
 		q: make([]float64, len(f.Wells)), cellOf: make([]int32, len(f.Wells)),
 		in: make([]float64, n), out: make([]float64, n),
-		maxSteps: s.MaxSteps, paths: s.KeepPaths,
+		maxSteps: s.MaxSteps, paths: s.KeepPaths, maxPath: s.MaxPathPoints,
 	}
 	// A floor on pore volume keeps velocities finite in active cells of
 	// zero porosity: flux crosses them in negligible time.
