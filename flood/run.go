@@ -210,6 +210,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
 	lines := newLineSet(m, tr, pv)
+	pairVolumes(tr, lines)
 	// The cell lists now live in lines; drop the tracer's copies (a
 	// million-cell case holds hundreds of megabytes of them).
 	for i := range tr.Lines {
@@ -284,4 +285,22 @@ func resampleFPhi(phi, f []float64, n int) ([]float64, []float64) {
 		}
 	}
 	return ph, fo
+}
+
+// pairVolumes sets the pore volume of each injector-producer pair from the
+// rescaled time of flight of its streamlines (flux times time of flight),
+// so the pair volumes add up to the pore volume the streamlines hold. The
+// tracer's own figure uses the raw time of flight, which near stagnation
+// points can exceed the cells' pore volume many times over.
+func pairVolumes(tr *streamline.Result, ls *lineSet) {
+	idx := map[[2]int]int{}
+	for k, p := range tr.Pairs {
+		idx[[2]int{p.Injector, p.Producer}] = k
+		tr.Pairs[k].PoreVolume = 0
+	}
+	for i := range ls.q {
+		if k, ok := idx[[2]int{ls.inj[i], ls.prod[i]}]; ok {
+			tr.Pairs[k].PoreVolume += ls.q[i] * ls.total[i]
+		}
+	}
 }
