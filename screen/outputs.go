@@ -133,7 +133,11 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 			}
 		}
 	}
-	for _, i := range missing {
+	for n, i := range missing {
+		if n == 100 {
+			sum.Missing = append(sum.Missing, fmt.Sprintf("... and %d more", len(missing)-100))
+			break
+		}
 		if p != nil && i < len(p.Candidates) {
 			sum.Missing = append(sum.Missing, p.Candidates[i].Name)
 		} else {
@@ -185,7 +189,7 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 		if len(p.Dropped) > 0 {
 			sum.Dropped = p.Dropped
 		}
-		sum.Notes = append(sum.Notes, p.Spec.Notes...)
+		sum.Notes = append(sum.Notes, p.Notes...)
 	}
 
 	if p != nil && !s.NoPictures && sum.Complete && p.Hash == res.Hash {

@@ -58,6 +58,9 @@ type Plan struct {
 	// Hash identifies the inputs: base case, candidates, realizations,
 	// horizon, streamlines, objective and economics.
 	Hash string
+	// Notes are remarks for the user (schedule events dropped, for
+	// example).
+	Notes []string
 }
 
 // MaxCandidates bounds the candidate list of a plan.
@@ -112,6 +115,20 @@ func NewPlan(s *Spec) (*Plan, error) {
 		}
 		p.Dropped[pt.Name] = dropped
 		p.add(Candidate{Name: pt.Name, Kind: KindPattern, X: math.NaN(), Y: math.NaN(), Wells: wells, NewWells: len(wells)})
+	}
+	for _, c := range p.Candidates {
+		if c.Kind == KindInfill || len(b.Schedule) == 0 {
+			continue
+		}
+		dropped := 0
+		for _, ev := range b.Schedule {
+			if !slices.ContainsFunc(c.Wells, func(w reservoir.Well) bool { return w.Name == ev.Well }) {
+				dropped++
+			}
+		}
+		if dropped > 0 {
+			p.Notes = append(p.Notes, fmt.Sprintf("%s %s: %d schedule event(s) of the base case name wells it does not have; they are left out", c.Kind, c.Name, dropped))
+		}
 	}
 	if len(p.Candidates) == 0 {
 		return nil, errors.New("screen: no candidate: every infill node was skipped and no layout or pattern is given")

@@ -58,9 +58,6 @@ type Spec struct {
 	Realizations []Realization
 	// Economics prices the Value objective.
 	Economics Economics
-	// Notes are remarks made while reading the spec (schedule events
-	// dropped, for example).
-	Notes []string
 }
 
 // Infill is a lattice of single new wells: one candidate per node.

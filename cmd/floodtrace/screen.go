@@ -146,7 +146,7 @@ func runScreen(args []string) error {
 	if len(plan.Skipped) > 0 {
 		logf("infill: %d node(s) skipped (outside the reservoir or too close to a well)", len(plan.Skipped))
 	}
-	for _, note := range spec.Notes {
+	for _, note := range plan.Notes {
 		logf("note: %s", note)
 	}
 
@@ -189,6 +189,9 @@ func runScreen(args []string) error {
 	what := "every candidate"
 	if n > 0 {
 		what = fmt.Sprintf("shard %d/%d (%d candidate(s))", k, n, len(plan.Shard(k, n)))
+	}
+	if prev, err := screen.ReadResults(f.out); err == nil && prev.Hash == plan.Hash {
+		what += fmt.Sprintf(", %d already recorded in %s", len(prev.Records), rp)
 	}
 	logf("running %s on %d worker(s)", what, workers)
 	res, err := screen.Execute(ctx, plan, f.out, settings)
