@@ -11,8 +11,9 @@ import (
 // PatternKind names a regular flood pattern.
 type PatternKind string
 
-// The patterns, with the trade's names (Craig 1971, SPE Monograph 3,
-// chapter 5; Willhite 1986, "Waterflooding", SPE Textbook Series 3).
+// The patterns, with the trade's names and geometry as described by Craig
+// (1971, SPE Monograph 3) and Willhite (1986, SPE Textbook Series 3);
+// both from memory, the geometry is common practice.
 // Spacing a is the distance between neighbouring injectors along a side
 // of the pattern element; the pattern origin holds an injector.
 const (

@@ -36,7 +36,7 @@ func counts(ps []PatternPoint) (inj, prod int) {
 }
 
 // TestFiveSpotCounts checks the five-spot over a rectangle of n x m
-// pattern elements (Craig 1971, chapter 5: injectors at the corners of
+// pattern elements (Craig 1971, from memory: injectors at the corners of
 // each square, a producer at its centre): (n+1)(m+1) injectors and n*m
 // producers, and every producer has exactly four injectors at a/sqrt(2),
 // the nearest wells, so the two kinds alternate on the lattice.
@@ -116,7 +116,7 @@ func TestPatternRotationSymmetry(t *testing.T) {
 
 // TestInvertedNineSpot: an injector at the centre of each square, eight
 // producers around it (four at a/2, four at a/sqrt(2)), three producers
-// per injector in the interior (Craig 1971, table of pattern ratios).
+// per injector in the interior (Craig 1971, from memory; common practice).
 func TestInvertedNineSpot(t *testing.T) {
 	const a = 400.0
 	pt := Pattern{Kind: InvertedNineSpot, Spacing: a}

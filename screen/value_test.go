@@ -9,9 +9,8 @@ import (
 
 // TestCashFlowAnnuity: a constant yearly net cash flow C over n years,
 // discounted at the end of each year at rate r, is worth
-// C (1 - (1+r)^-n) / r (the present worth of a uniform series; any
-// engineering economics text, e.g. Newnan, "Engineering Economic
-// Analysis"; common practice).
+// C (1 - (1+r)^-n) / r (the present worth of a uniform series, the
+// annuity formula of engineering economics; common practice).
 func TestCashFlowAnnuity(t *testing.T) {
 	const n, r = 10, 0.1
 	const oilPerYear, waterPerYear, injPerYear = 1000.0, 300.0, 1500.0
