@@ -233,6 +233,7 @@ func TestUpdatesMassBalance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	t.Logf("mass balance error %.2g over %d solves", r.MassBalanceError, r.Solves)
 	if !(math.Abs(r.MassBalanceError) < 1e-4) {
 		t.Errorf("mass balance error %g, want below 1e-4", r.MassBalanceError)
 	}
