@@ -189,6 +189,9 @@ type updateRun struct {
 	lerr     []error
 	scratch  []lineScratch
 	acc, vol []float64 // cell accumulators
+	// Per producer, over a chunk: water and total flux of its lines, and
+	// the instantaneous outlet water at the chunk end.
+	water, flux, inst []float64
 }
 
 type lineScratch struct {
@@ -318,8 +321,14 @@ func (u *updateRun) run() error {
 
 	updates := UpdateTimes(m, u.sched)
 	if u.sched.HasChanges(end) {
-		u.warn(fmt.Sprintf("the case has %d schedule event(s) and %d well opening(s) after day 0: run with pressure updates (%d pressure solves) to honour them",
-			len(m.Schedule), len(u.sched.Changes(end))-countEventTimes(m, end), len(updates)))
+		opening := 0
+		for _, w := range m.Wells {
+			if w.Open > 0 && w.Open <= end {
+				opening++
+			}
+		}
+		u.warn(fmt.Sprintf("the case has %d schedule event(s) and %d well(s) opening after day 0: the run uses pressure updates (%d pressure solves) to honour them",
+			len(m.Schedule), opening, len(updates)))
 	}
 	if mr := u.ff.EndpointMobilityRatio(); mr > 2 && len(updates) < 5 {
 		u.warn(fmt.Sprintf("end-point mobility ratio is %.2g (above 2) and the run has only %d pressure solve(s): use more pressure updates (run.pressure_updates) for a better estimate", mr, len(updates)))
@@ -336,32 +345,6 @@ func (u *updateRun) run() error {
 	}
 	u.finish()
 	return nil
-}
-
-// countEventTimes counts the distinct positive event times up to end that
-// are not well openings (for the summary warning only).
-func countEventTimes(m *reservoir.Model, end float64) int {
-	var ts []float64
-	for _, e := range m.Schedule {
-		if e.Time > 0 && e.Time <= end {
-			ts = append(ts, e.Time)
-		}
-	}
-	var opens []float64
-	for _, w := range m.Wells {
-		if w.Open > 0 && w.Open <= end {
-			opens = append(opens, w.Open)
-		}
-	}
-	slices.Sort(ts)
-	ts = slices.Compact(ts)
-	k := 0
-	for _, t := range ts {
-		if !slices.Contains(opens, t) {
-			k++
-		}
-	}
-	return k
 }
 
 // solve computes the total mobility from the cell saturations and solves
@@ -405,8 +388,7 @@ func (u *updateRun) interval(idx int, t0, t1 float64) error {
 	if err != nil {
 		return err
 	}
-	first := r.Pressure == nil
-	if first {
+	if r.Pressure == nil {
 		r.Pressure = sol
 	}
 	// Well rates of the interval.
@@ -586,6 +568,10 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 		}
 		sc := &u.scratch[w]
 		n := u.nodes(i, sc)
+		if n > u.gstart[i+1]-u.gstart[i] {
+			u.lerr[i] = fmt.Errorf("%d nodes exceed the %d reserved", n, u.gstart[i+1]-u.gstart[i])
+			return
+		}
 		u.gn[i] = n
 		gs, gd := u.lineNodes(i)
 		copy(gd, sc.dstd[:n])
@@ -715,9 +701,13 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 	}
 	u.cumInj += inj
 	np := len(r.Producers)
-	water := make([]float64, np)
-	flux := make([]float64, np)
-	inst := make([]float64, np) // instantaneous outlet water at t1
+	u.water = growF(u.water, np)
+	u.flux = growF(u.flux, np)
+	u.inst = growF(u.inst, np)
+	water, flux, inst := u.water, u.flux, u.inst // inst: outlet water at t1
+	clear(water)
+	clear(flux)
+	clear(inst)
 	watchBT := false
 	if u.ls != nil {
 		for p := range np {
@@ -772,7 +762,7 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 		if flux[p] > 0 {
 			fw = water[p] / flux[p]
 		} else {
-			fw = u.fl.Fw(u.sw[m0cell(u.m, P.Well)])
+			fw = u.fl.Fw(u.sw[u.m.Wells[P.Well].Cell])
 		}
 		u.perW[p] += u.rate[p] * fw * dt
 		u.perL[p] += u.rate[p] * dt
@@ -783,8 +773,6 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 	}
 	return nil
 }
-
-func m0cell(m *reservoir.Model, w int) int { return m.Wells[w].Cell }
 
 // locate finds the breakthrough time of producer p within the chunk that
 // starts at t and lasts dt: the chunk is advanced again from its saved
