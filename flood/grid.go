@@ -445,7 +445,10 @@ func (g *gridRun) stableStep() float64 {
 		best := math.Inf(1)
 		for i := range nx {
 			c := j*nx + i
-			g.fw[c] = g.fl.Fw(g.sw[c])
+			// Clamped: the flux table's cubic interpolation may dip below
+			// 0 by ~1e-9 just above a kink at connate water. Every
+			// transfer below uses these values, so water stays conserved.
+			g.fw[c] = math.Min(1, math.Max(0, g.fl.Fw(g.sw[c])))
 		}
 		for i := range nx {
 			c := j*nx + i

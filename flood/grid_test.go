@@ -47,6 +47,13 @@ func TestGridMassBalance(t *testing.T) {
 			}
 		}
 	}
+	for _, p := range r.Producers {
+		for k, wc := range p.WaterCut {
+			if !(wc >= 0 && wc <= 1) {
+				t.Fatalf("%s day %g: water cut %g outside [0, 1]", p.Name, r.Times[k], wc)
+			}
+		}
+	}
 	if len(r.WellLog) != r.Solves*len(m.Wells) {
 		t.Errorf("%d well-log rows for %d solves of %d wells", len(r.WellLog), r.Solves, len(m.Wells))
 	}

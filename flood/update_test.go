@@ -260,6 +260,13 @@ func TestUpdatesMassBalance(t *testing.T) {
 	if got, want := r.PVI[last], injected/r.PoreVolume; math.Abs(got-want) > 1e-12*want {
 		t.Errorf("final PVI %g, want %g", got, want)
 	}
+	for _, p := range r.Producers {
+		for k, wc := range p.WaterCut {
+			if !(wc >= 0 && wc <= 1) {
+				t.Fatalf("%s day %g: water cut %g outside [0, 1]", p.Name, r.Times[k], wc)
+			}
+		}
+	}
 	// Saturations stay within the initial and injected values (the
 	// schemes are monotone and the mappings are averages).
 	for _, sn := range r.Snapshots {
