@@ -38,6 +38,7 @@ func All() []Problem {
 		WelgeFront{},
 		ChannelOutlet{},
 		TwoChannelLorenz{},
+		EngineAgreement{},
 	}
 }
 
