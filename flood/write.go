@@ -140,7 +140,19 @@ func (r *Result) Summary() *Summary {
 		injRate += in.Rate
 		s.Injectors = append(s.Injectors, SummaryInjector{Name: in.Name, CumWater: in.CumWater, MaxBHPReached: in.MaxBHPReached})
 	}
-	pvi := func(t float64) float64 { return injRate * t / r.PoreVolume }
+	// PVI at any time: interpolated on the report times (injection rates
+	// may change with pressure updates and schedule events); beyond the
+	// last report time, extrapolated at the final injection rate.
+	pvi := func(t float64) float64 {
+		if math.IsNaN(t) || len(r.Times) == 0 {
+			return injRate * t / r.PoreVolume
+		}
+		last := len(r.Times) - 1
+		if t > r.Times[last] {
+			return r.PVI[last] + injRate*(t-r.Times[last])/r.PoreVolume
+		}
+		return Interpolate(append([]float64{0}, r.Times...), append([]float64{0}, r.PVI...), t)
+	}
 	last := len(r.Times) - 1
 	for _, p := range r.Producers {
 		sp := SummaryProducer{Name: p.Name, TracerBTDays: opt(p.TracerBreakthrough), TracerBTPVI: opt(pvi(p.TracerBreakthrough)),
