@@ -1,0 +1,26 @@
+package flood
+
+import (
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// FuzzReadRunCurves feeds damaged producers.csv files to the reader used
+// by `floodtrace compare`: errors are fine, panics are not.
+func FuzzReadRunCurves(f *testing.F) {
+	f.Add([]byte("time_days,pvi,well,water_cut,oil_rate,water_rate,cum_oil,cum_water\n30,0.1,P-1,0.2,10,2,300,60\n"))
+	f.Add([]byte("time_days,well\n1\n"))
+	f.Add([]byte(""))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		dir := t.TempDir()
+		sum := `{"title":"x","engine":"streamline","producers":[{"name":"P-1","breakthrough_days":10}]}`
+		if err := os.WriteFile(filepath.Join(dir, "summary.json"), []byte(sum), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "producers.csv"), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		ReadRunCurves(dir)
+	})
+}
