@@ -257,27 +257,7 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			P.AvgSw[k] = vSum[pi] / (P.DrainedVolume)
 		}
 	}
-	r.FieldWaterCut = make([]float64, nt)
-	r.FieldOilRate = make([]float64, nt)
-	r.FieldWaterRate = make([]float64, nt)
-	r.FieldCumOil = make([]float64, nt)
-	r.FieldCumWater = make([]float64, nt)
-	r.RecoveryFactor = make([]float64, nt)
-	for k := range times {
-		for pi := range r.Producers {
-			P := &r.Producers[pi]
-			r.FieldOilRate[k] += P.OilRate[k]
-			r.FieldWaterRate[k] += P.WaterRate[k]
-			r.FieldCumOil[k] += P.CumOil[k]
-			r.FieldCumWater[k] += P.CumWater[k]
-		}
-		if q := r.FieldOilRate[k] + r.FieldWaterRate[k]; q > 0 {
-			r.FieldWaterCut[k] = r.FieldWaterRate[k] / q
-		}
-		if r.OOIP > 0 {
-			r.RecoveryFactor[k] = r.FieldCumOil[k] / r.OOIP
-		}
-	}
+	fillField(r)
 
 	// Saturation maps; a map at the same time is computed once.
 	maps := map[float64][]float64{}
@@ -300,17 +280,7 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 	// Mass balance at the end of the run, with the water in place taken
 	// from the saturation map.
 	end := satAt(m.Run.End)
-	dW := 0.0
-	for c, v := range end {
-		if m.Active[c] {
-			dW += ls.pv[c] * (v - swi)
-		}
-	}
-	injected := injRate * m.Run.End
-	produced := r.FieldCumWater[nt-1]
-	if injected > 0 {
-		r.MassBalanceError = (injected - produced - dW) / injected
-	}
+	r.MassBalanceError = massBalance(m.Active, ls.pv, end, swi, injRate*m.Run.End, r.FieldCumWater[nt-1])
 }
 
 func snapshotTimes(m *reservoir.Model) []float64 {

@@ -633,49 +633,16 @@ func (g *gridRun) atStop(t float64, reports, snaps, frames []float64) {
 	}
 }
 
-func (g *gridRun) partitionSw(w int) float64 {
-	if g.partition == nil {
-		return math.NaN()
-	}
-	s, v := 0.0, 0.0
-	for c, p := range g.partition {
-		if p == w {
-			s += g.pv[c] * g.sw[c]
-			v += g.pv[c]
-		}
-	}
-	if v == 0 {
-		return math.NaN()
-	}
-	return s / v
-}
+func (g *gridRun) partitionSw(w int) float64 { return partitionSw(g.partition, g.pv, g.sw, w) }
 
-func (g *gridRun) cellMap() []float64 {
-	out := make([]float64, len(g.sw))
-	for c := range out {
-		if g.m.Active[c] {
-			out[c] = g.sw[c]
-		} else {
-			out[c] = math.NaN()
-		}
-	}
-	return out
-}
+func (g *gridRun) cellMap() []float64 { return cellMap(g.m.Active, g.sw) }
 
 func (g *gridRun) finish() {
 	r := g.r
 	fillField(r)
-	dW := 0.0
-	for c, v := range g.sw {
-		if g.m.Active[c] {
-			dW += g.pv[c] * (v - g.swi)
-		}
-	}
 	produced := g.otherProduced
 	for p := range r.Producers {
 		produced += g.cumW[p]
 	}
-	if g.cumInj > 0 {
-		r.MassBalanceError = (g.cumInj - produced - dW) / g.cumInj
-	}
+	r.MassBalanceError = massBalance(g.m.Active, g.pv, g.sw, g.swi, g.cumInj, produced)
 }

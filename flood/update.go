@@ -938,52 +938,19 @@ func (u *updateRun) atStop(t float64) {
 
 // partitionSw returns the pore-volume weighted saturation of the cells
 // that drain to well w, or NaN when none does.
-func (u *updateRun) partitionSw(w int) float64 {
-	if u.partition == nil {
-		return math.NaN()
-	}
-	s, v := 0.0, 0.0
-	for c, p := range u.partition {
-		if p == w {
-			s += u.pv[c] * u.sw[c]
-			v += u.pv[c]
-		}
-	}
-	if v == 0 {
-		return math.NaN()
-	}
-	return s / v
-}
+func (u *updateRun) partitionSw(w int) float64 { return partitionSw(u.partition, u.pv, u.sw, w) }
 
-func (u *updateRun) cellMap() []float64 {
-	out := make([]float64, len(u.sw))
-	for c := range out {
-		if u.m.Active[c] {
-			out[c] = u.sw[c]
-		} else {
-			out[c] = math.NaN()
-		}
-	}
-	return out
-}
+func (u *updateRun) cellMap() []float64 { return cellMap(u.m.Active, u.sw) }
 
 // finish fills the field series and the mass balance.
 func (u *updateRun) finish() {
 	r := u.r
 	fillField(r)
-	dW := 0.0
-	for c, v := range u.sw {
-		if u.m.Active[c] {
-			dW += u.pv[c] * (v - u.swi)
-		}
-	}
 	produced := u.otherProduced
 	for p := range r.Producers {
 		produced += u.cumW[p]
 	}
-	if u.cumInj > 0 {
-		r.MassBalanceError = (u.cumInj - produced - dW) / u.cumInj
-	}
+	r.MassBalanceError = massBalance(u.m.Active, u.pv, u.sw, u.swi, u.cumInj, produced)
 	if u.unsourced > 1e-6*u.cumInj && u.cumInj > 0 {
 		u.warn(fmt.Sprintf("%.2g of the injected volume entered streamlines that start at no injector (at the water fraction of their first cell); it shows in the mass balance", u.unsourced/u.cumInj))
 	}
