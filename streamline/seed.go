@@ -138,63 +138,82 @@ func (t *tracer) lowFlow(f *Field) []bool {
 	return low
 }
 
+// Fill-line batches: fillBatch seeds are traced together (in parallel),
+// chosen at least fillSpacing cells apart (Chebyshev distance) among the
+// next fillScan candidates. Both are constants, so the lines do not depend
+// on the number of workers.
+const (
+	fillBatch   = 32
+	fillSpacing = 24
+	fillScan    = 4096
+)
+
 // fill launches lines from the centres of the flowing cells that no line
-// crosses yet, in rounds: each round takes, in cell order, uncovered cells
-// at least three cells apart from the others of the round (so that one
-// round does not trace many lines through one gap), traces them in
-// parallel and updates the coverage. The choice depends only on the field,
-// never on the number of workers.
+// crosses yet. The uncovered cells are taken in cell order, in batches of
+// seeds spaced apart (so that one batch does not trace many lines through
+// one gap); a batch is traced in parallel and its lines are kept in seed
+// order, each only if no line kept before it crossed its seed cell: a
+// batch then keeps the lines a one-at-a-time fill would keep. The choice
+// depends only on the field, never on the number of workers.
 func (b *builder) fill(lowFlow []bool) {
 	t := b.t
 	n := t.g.N()
-	nx, ny := t.g.NX, t.g.NY
+	nx := t.g.NX
 	covered := make([]bool, n)
-	mark := func(from int) {
-		for i := from; i < len(b.lines); i++ {
-			for _, c := range b.lines[i].Cells {
-				covered[c] = true
-			}
+	mark := func(l *Line) {
+		for _, c := range l.Cells {
+			covered[c] = true
 		}
 	}
-	mark(0)
-	var cand []int
+	for i := range b.lines {
+		mark(&b.lines[i])
+	}
+	var cand []int32
 	for k := 0; k < n; k++ {
 		if t.isActive(k) && b.f.PoreVolume[k] > 0 && t.wellAt[k] < 0 && !lowFlow[k] && !covered[k] {
-			cand = append(cand, k)
+			cand = append(cand, int32(k))
 		}
 	}
-	const radius, batchMax = 2, 512
-	reserved := make([]bool, n)
-	var batch []seed
-	var held []int
-	for len(cand) > 0 {
-		batch, held = batch[:0], held[:0]
-		rest := cand[:0]
-		for _, k := range cand {
-			switch {
-			case covered[k]:
-				// crossed by an earlier round: done
-			case reserved[k] || len(batch) == batchMax:
-				rest = append(rest, k)
-			default:
-				batch = append(batch, seed{launch: FromCell, cell: k})
-				i, j := k%nx, k/nx
-				for jj := max(0, j-radius); jj <= min(ny-1, j+radius); jj++ {
-					for ii := max(0, i-radius); ii <= min(nx-1, i+radius); ii++ {
-						if kk := jj*nx + ii; !reserved[kk] {
-							reserved[kk] = true
-							held = append(held, kk)
-						}
-					}
-				}
+	done := make([]bool, n) // seeds already traced
+	batch := make([]seed, 0, fillBatch)
+	lines := make([]Line, fillBatch)
+	meta := make([]lineMeta, fillBatch)
+	far := func(k int) bool {
+		i, j := k%nx, k/nx
+		for _, sd := range batch {
+			di, dj := sd.cell%nx-i, sd.cell/nx-j
+			if max(di, -di) < fillSpacing && max(dj, -dj) < fillSpacing {
+				return false
 			}
 		}
-		cand = rest
-		for _, kk := range held {
-			reserved[kk] = false
+		return true
+	}
+	for ptr := 0; ; {
+		for ptr < len(cand) && (covered[cand[ptr]] || done[cand[ptr]]) {
+			ptr++
 		}
-		from := len(b.lines)
-		b.trace(batch)
-		mark(from)
+		if ptr == len(cand) {
+			return
+		}
+		batch = batch[:0]
+		for q := ptr; q < min(len(cand), ptr+fillScan) && len(batch) < fillBatch; q++ {
+			if k := int(cand[q]); !covered[k] && !done[k] && far(k) {
+				batch = append(batch, seed{launch: FromCell, cell: k})
+				done[k] = true
+			}
+		}
+		parallel(len(batch), b.workers, func(w, i int) {
+			sc := &b.scratch[w]
+			lines[i], meta[i] = t.line(batch[i], &sc[0], &sc[1])
+		})
+		for i, sd := range batch {
+			if covered[sd.cell] {
+				continue // an earlier line of the batch crossed the seed
+			}
+			mark(&lines[i])
+			b.lines = append(b.lines, lines[i])
+			b.meta = append(b.meta, meta[i])
+		}
+		clear(lines)
 	}
 }

@@ -3,6 +3,7 @@ package streamline
 import (
 	"math"
 	"sync"
+	"sync/atomic"
 
 	"floodtrace/reservoir"
 )
@@ -333,24 +334,28 @@ func (t *tracer) run(h *half, k int, xi, eta, sign float64, entryFace int, entry
 }
 
 // parallel calls fn(worker, i) for i in [0, n) on the given number of
-// goroutines. The work is split statically into interleaved chunks; fn must
-// write only to slots owned by i (and scratch owned by worker), so results
-// do not depend on the number of workers.
+// goroutines, which take chunks of indices as they become free (lines
+// differ much in length). fn must write only to slots owned by i (and
+// scratch owned by worker), so results do not depend on the number of
+// workers or on the order the chunks are taken.
 func parallel(n, workers int, fn func(worker, i int)) {
-	const chunk = 16
-	if maxw := (n + chunk - 1) / chunk; workers > maxw {
-		workers = maxw
-	}
+	workers = min(workers, n)
 	if workers <= 1 {
 		for i := 0; i < n; i++ {
 			fn(0, i)
 		}
 		return
 	}
+	chunk := max(1, min(16, n/(8*workers)))
+	var next atomic.Int64
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Go(func() {
-			for start := w * chunk; start < n; start += workers * chunk {
+			for {
+				start := int(next.Add(int64(chunk))) - chunk
+				if start >= n {
+					return
+				}
 				for i := start; i < min(start+chunk, n); i++ {
 					fn(w, i)
 				}
