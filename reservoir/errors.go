@@ -125,9 +125,13 @@ func levenshtein(a, b string) int {
 	return prev[len(b)]
 }
 
-// nearest returns the candidate closest to s by edit distance (compared in
-// lower case), and whether it is close enough to suggest: at most 2 edits,
-// or half the length of the longer word.
+// Nearest returns the candidate closest to s by edit distance (Levenshtein
+// 1966, compared in lower case; ties go to the earlier candidate), and
+// whether it is close enough to suggest: at most 2 edits, or half the
+// length of the longer word. The command line and the screening spec use
+// it for their suggestions too.
+func Nearest(s string, candidates []string) (string, bool) { return nearest(s, candidates) }
+
 func nearest(s string, candidates []string) (string, bool) {
 	best, bestD := "", -1
 	ls := strings.ToLower(s)

@@ -155,17 +155,7 @@ func TestSpecYAMLSyntaxLine(t *testing.T) {
 	}
 }
 
-func TestNearestAndEditDistance(t *testing.T) {
-	// Levenshtein (1966) distances, worked by hand: kitten -> sitting
-	// needs two substitutions and one insertion.
-	for _, c := range []struct {
-		a, b string
-		d    int
-	}{{"kitten", "sitting", 3}, {"", "abc", 3}, {"flaw", "lawn", 2}, {"same", "same", 0}} {
-		if got := editDistance(c.a, c.b); got != c.d {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", c.a, c.b, got, c.d)
-		}
-	}
+func TestNearest(t *testing.T) {
 	if got := nearest("min_distnce", infillKeys); got != "min_distance" {
 		t.Errorf("nearest = %q", got)
 	}

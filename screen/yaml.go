@@ -8,6 +8,8 @@ import (
 	"strings"
 
 	"gopkg.in/yaml.v3"
+
+	"floodtrace/reservoir"
 )
 
 // SpecError is a problem with a screening spec: the file, the line (0 if
@@ -288,37 +290,8 @@ func contains(list []string, s string) bool {
 }
 
 // nearest returns the element of list closest to s by edit distance
-// (Levenshtein 1966), case-insensitive; ties go to the earlier element.
+// (reservoir.Nearest), whether or not it is close.
 func nearest(s string, list []string) string {
-	best, bestD := "", math.MaxInt
-	ls := strings.ToLower(s)
-	for _, c := range list {
-		if d := editDistance(ls, strings.ToLower(c)); d < bestD {
-			best, bestD = c, d
-		}
-	}
+	best, _ := reservoir.Nearest(s, list)
 	return best
-}
-
-// editDistance is the Levenshtein (1966) distance between a and b, by the
-// two-row dynamic programme.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			c := prev[j-1]
-			if ra[i-1] != rb[j-1] {
-				c++
-			}
-			cur[j] = min(c, prev[j]+1, cur[j-1]+1)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }

@@ -21,6 +21,8 @@ import (
 	"strings"
 
 	"github.com/spf13/pflag"
+
+	"floodtrace/reservoir"
 )
 
 // version is set at build time with -ldflags "-X main.version=...".
@@ -199,33 +201,15 @@ func printCommandHelp(w io.Writer, c *command, fs *pflag.FlagSet) {
 }
 
 func nearestCommand(s string) string {
-	best, bestD := "", 3
+	names := make([]string, 0, len(commands))
 	for n := range commands {
-		if d := editDistance(s, n); d < bestD || (d == bestD && n < best) {
-			best, bestD = n, d
-		}
+		names = append(names, n)
 	}
-	return best
-}
-
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
+	sort.Strings(names)
+	if best, ok := reservoir.Nearest(s, names); ok {
+		return best
 	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			c := prev[j-1]
-			if a[i-1] != b[j-1] {
-				c++
-			}
-			cur[j] = min(c, prev[j]+1, cur[j-1]+1)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
+	return ""
 }
 
 func exactly(n int) func(int) bool { return func(k int) bool { return k == n } }
