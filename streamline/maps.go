@@ -3,6 +3,8 @@ package streamline
 import (
 	"fmt"
 	"math"
+
+	"floodtrace/reservoir"
 )
 
 // maps accumulates the cell maps from the lines, in line order.
@@ -204,5 +206,5 @@ func (t *tracer) balanceWarnings(f *Field) []string {
 		return nil
 	}
 	i, j := t.g.IJ(at)
-	return []string{fmt.Sprintf("%d cells do not conserve flux (worst relative imbalance %.2g in cell %d,%d); time of flight there is approximate", bad, worst, i+1, j+1)}
+	return []string{fmt.Sprintf("%d cells do not conserve flux (worst relative imbalance %.2g in %s); time of flight there is approximate", bad, worst, reservoir.CellLabel(i, j))}
 }
