@@ -26,6 +26,11 @@ type Options struct {
 	// GIFWidth and GIFHeight size the animation; 0 means half the map
 	// size (960x540 by default).
 	GIFWidth, GIFHeight int
+	// Minimal draws one picture only: the saturation map of the last
+	// snapshot, with its colour scale taken from the snapshots alone (the
+	// animation frames are not read). No other map, chart, animation or
+	// report is drawn.
+	Minimal bool
 }
 
 // Report lists what Run wrote.
@@ -77,6 +82,9 @@ type run struct {
 	charts []figure
 	maps   []figure
 	gif    string
+	// the raster read last (see readASC)
+	lastPath string
+	lastVals []float64
 }
 
 // figure is a written picture with its caption, for the report.
@@ -108,12 +116,29 @@ func Run(dir string, opt Options) (*Report, error) {
 		}
 	}
 	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.drawCharts, r.animation, r.report}
+	if opt.Minimal {
+		steps = []func() error{r.saturationMaps}
+	}
 	for _, step := range steps {
 		if err := step(); err != nil {
 			return r.rep, err
 		}
 	}
 	return r.rep, nil
+}
+
+// readASC reads a raster of the run's grid, keeping the last one read:
+// prepare and the saturation maps read the same snapshot.
+func (r *run) readASC(path string) ([]float64, error) {
+	if path == r.lastPath && r.lastVals != nil {
+		return r.lastVals, nil
+	}
+	v, err := ReadASC(path, r.scene.Grid)
+	if err != nil {
+		return nil, err
+	}
+	r.lastPath, r.lastVals = path, v
+	return v, nil
 }
 
 func exists(p string) bool { _, err := os.Stat(p); return err == nil }
@@ -147,6 +172,9 @@ func (r *run) prepare() error {
 	var active []bool
 	sat0 := r.snapshotFiles()
 	var candidates []string
+	if r.opt.Minimal && len(sat0) > 0 {
+		sat0 = sat0[len(sat0)-1:]
+	}
 	if len(sat0) > 0 {
 		candidates = append(candidates, sat0[0].Path)
 	}
@@ -155,7 +183,7 @@ func (r *run) prepare() error {
 		if !exists(p) {
 			continue
 		}
-		v, err := ReadASC(p, g)
+		v, err := r.readASC(p)
 		if err != nil {
 			return err
 		}
@@ -172,9 +200,12 @@ func (r *run) prepare() error {
 
 	// One saturation scale for every snapshot and frame.
 	lo, hi := math.Inf(1), math.Inf(-1)
-	files := append(sat0, r.frameFiles()...)
+	files := sat0
+	if !r.opt.Minimal {
+		files = append(files, r.frameFiles()...)
+	}
 	for _, f := range files {
-		v, err := ReadASC(f.Path, g)
+		v, err := r.readASC(f.Path)
 		if err != nil {
 			return err
 		}
@@ -191,6 +222,10 @@ func (r *run) prepare() error {
 		if r.satSc.Max <= r.satSc.Min {
 			r.satSc.Min, r.satSc.Max = 0, 1
 		}
+	}
+
+	if r.opt.Minimal {
+		return nil
 	}
 
 	// Time of flight: stagnant corners reach huge values, so the scale
@@ -350,8 +385,11 @@ func (r *run) saturationMaps() error {
 		r.rep.note("no saturation snapshot: no saturation maps")
 		return nil
 	}
+	if r.opt.Minimal {
+		files = files[len(files)-1:]
+	}
 	for _, f := range files {
-		v, err := ReadASC(f.Path, r.scene.Grid)
+		v, err := r.readASC(f.Path)
 		if err != nil {
 			return err
 		}

@@ -23,6 +23,7 @@ var runFlags struct {
 	size        string
 	format      string
 	noPictures  bool
+	pictures    string
 	quiet       bool
 	engine      string
 	updates     int
@@ -47,6 +48,7 @@ Examples:
   floodtrace run examples/vardel/case.yaml --out out/vardel
   floodtrace run case.yaml --out runs/base --streamlines 4000 --size 1280x720
   floodtrace run case.yaml --out runs/quick --no-pictures
+  floodtrace run case.yaml --out runs/fast --pictures minimal
   floodtrace run case.yaml --out runs/updated --updates 20
   floodtrace run case.yaml --out runs/grid --engine grid`,
 		NArgs: exactly(1),
@@ -60,6 +62,11 @@ Examples:
 			fs.StringVar(&runFlags.size, "size", "1920x1080", "picture size WxH")
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
 			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "write data files only")
+			// --pictures minimal draws one map: the saturation at the last
+			// snapshot (maps/saturation_<day>.png), without the other maps,
+			// the charts, the animation or report.html. The data files are
+			// the same as with --pictures all.
+			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (same as --no-pictures)")
 			fs.BoolVarP(&runFlags.quiet, "quiet", "q", false, "print nothing but errors")
 		},
 		Run: runRun,
@@ -76,6 +83,9 @@ func runRun(args []string) error {
 	}
 	if runFlags.format != "png" && runFlags.format != "svg" {
 		return usageError{fmt.Sprintf("--format must be png or svg, not %q", runFlags.format)}
+	}
+	if runFlags.pictures != "all" && runFlags.pictures != "minimal" && runFlags.pictures != "none" {
+		return usageError{fmt.Sprintf("--pictures must be all, minimal or none, not %q", runFlags.pictures)}
 	}
 	if runFlags.engine != "streamline" && runFlags.engine != "grid" {
 		return usageError{fmt.Sprintf("--engine must be streamline or grid, not %q", runFlags.engine)}
@@ -114,9 +124,13 @@ func runRun(args []string) error {
 	if err := res.WriteSummary(d); err != nil {
 		return err
 	}
-	if !runFlags.noPictures {
-		logf("drawing maps, charts and the report")
-		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format})
+	if !runFlags.noPictures && runFlags.pictures != "none" {
+		if runFlags.pictures == "minimal" {
+			logf("drawing the last saturation map")
+		} else {
+			logf("drawing maps, charts and the report")
+		}
+		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal"})
 		if err != nil {
 			return fmt.Errorf("drawing pictures: %w", err)
 		}
