@@ -7,7 +7,10 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"runtime"
 	"strconv"
+	"sync"
+	"sync/atomic"
 
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
@@ -249,18 +252,30 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 			return err
 		}
 	}
-	if err := csv("diagnostics.csv", func(w *bufio.Writer) {
-		w.WriteString("phi,F,tD,sweep\n")
-		n := max(len(r.Phi), len(r.TD))
-		for k := 0; k < n; k++ {
-			cell := func(s []float64) string {
-				if k < len(s) {
-					return num(s[k])
-				}
-				return ""
-			}
-			fmt.Fprintf(w, "%s,%s,%s,%s\n", cell(r.Phi), cell(r.F), cell(r.TD), cell(r.Sweep))
+	if err := d.Create("diagnostics.csv", func(w io.Writer) error {
+		if _, err := io.WriteString(w, "phi,F,tD,sweep\n"); err != nil {
+			return err
 		}
+		n := max(len(r.Phi), len(r.TD))
+		cell := func(buf []byte, s []float64, k int) []byte {
+			if k < len(s) {
+				return appendNum(buf, s[k])
+			}
+			return buf
+		}
+		return writeBands(w, n, 8192, func(lo, hi int, buf []byte) []byte {
+			for k := lo; k < hi; k++ {
+				buf = cell(buf, r.Phi, k)
+				buf = append(buf, ',')
+				buf = cell(buf, r.F, k)
+				buf = append(buf, ',')
+				buf = cell(buf, r.TD, k)
+				buf = append(buf, ',')
+				buf = cell(buf, r.Sweep, k)
+				buf = append(buf, '\n')
+			}
+			return buf
+		})
 	}); err != nil {
 		return err
 	}
@@ -318,40 +333,108 @@ func (r *Result) WriteSummary(d *outdir.Dir) error {
 
 func (r *Result) writeGeoJSON(w io.Writer) error {
 	m := r.Model
-	bw := bufio.NewWriter(w)
-	bw.WriteString(`{"type":"FeatureCollection","features":[`)
-	name := func(i int) string {
+	if _, err := io.WriteString(w, `{"type":"FeatureCollection","features":[`); err != nil {
+		return err
+	}
+	name := func(buf []byte, i int) []byte {
 		if i < 0 || i >= len(m.Wells) {
-			return "null"
+			return append(buf, "null"...)
 		}
-		return strconv.Quote(m.Wells[i].Name)
+		return strconv.AppendQuote(buf, m.Wells[i].Name)
 	}
-	first := true
-	for _, l := range r.Trace.Lines {
-		if len(l.Path) < 2 {
-			continue
+	lines := r.Trace.Lines
+	first := len(lines) // the first line written has no comma before it
+	for i := range lines {
+		if len(lines[i].Path) >= 2 {
+			first = i
+			break
 		}
-		if !first {
-			bw.WriteByte(',')
-		}
-		first = false
-		fmt.Fprintf(bw, "\n{\"type\":\"Feature\",\"properties\":{\"injector\":%s,\"producer\":%s,\"flux\":%s,\"tof_days\":%s},\"geometry\":{\"type\":\"LineString\",\"coordinates\":[",
-			name(l.Injector), name(l.Producer), jnum(l.Flux), jnum(l.TotalTau))
-		for i, p := range l.Path {
-			if i > 0 {
-				bw.WriteByte(',')
+	}
+	err := writeBands(w, len(lines), 64, func(lo, hi int, buf []byte) []byte {
+		for i := lo; i < hi; i++ {
+			l := &lines[i]
+			if len(l.Path) < 2 {
+				continue
 			}
-			fmt.Fprintf(bw, "[%s,%s]", strconv.FormatFloat(p[0], 'f', 2, 64), strconv.FormatFloat(p[1], 'f', 2, 64))
+			if i != first {
+				buf = append(buf, ',')
+			}
+			buf = append(buf, "\n{\"type\":\"Feature\",\"properties\":{\"injector\":"...)
+			buf = name(buf, l.Injector)
+			buf = append(buf, ",\"producer\":"...)
+			buf = name(buf, l.Producer)
+			buf = append(buf, ",\"flux\":"...)
+			buf = appendJNum(buf, l.Flux)
+			buf = append(buf, ",\"tof_days\":"...)
+			buf = appendJNum(buf, l.TotalTau)
+			buf = append(buf, "},\"geometry\":{\"type\":\"LineString\",\"coordinates\":["...)
+			for k, p := range l.Path {
+				if k > 0 {
+					buf = append(buf, ',')
+				}
+				buf = append(buf, '[')
+				buf = strconv.AppendFloat(buf, p[0], 'f', 2, 64)
+				buf = append(buf, ',')
+				buf = strconv.AppendFloat(buf, p[1], 'f', 2, 64)
+				buf = append(buf, ']')
+			}
+			buf = append(buf, "]}}"...)
 		}
-		bw.WriteString("]}}")
+		return buf
+	})
+	if err != nil {
+		return err
 	}
-	bw.WriteString("\n]}\n")
-	return bw.Flush()
+	_, err = io.WriteString(w, "\n]}\n")
+	return err
 }
 
-func jnum(v float64) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "null"
+// writeBands formats items [0, n) in bands of per items on up to
+// GOMAXPROCS goroutines, a window of bands at a time, and writes the bands
+// to w in order: the bytes do not depend on the number of goroutines.
+func writeBands(w io.Writer, n, per int, format func(lo, hi int, buf []byte) []byte) error {
+	nb := (n + per - 1) / per
+	workers := min(runtime.GOMAXPROCS(0), nb)
+	window := max(1, 4*workers)
+	bufs := make([][]byte, window)
+	for lo := 0; lo < nb; lo += window {
+		hi := min(lo+window, nb)
+		var next atomic.Int64
+		var wg sync.WaitGroup
+		for range min(workers, hi-lo) {
+			wg.Go(func() {
+				for {
+					b := lo + int(next.Add(1)) - 1
+					if b >= hi {
+						return
+					}
+					bufs[b-lo] = format(b*per, min((b+1)*per, n), bufs[b-lo][:0])
+				}
+			})
+		}
+		wg.Wait()
+		for b := lo; b < hi; b++ {
+			if _, err := w.Write(bufs[b-lo]); err != nil {
+				return err
+			}
+		}
 	}
-	return strconv.FormatFloat(v, 'g', 8, 64)
+	return nil
+}
+
+// appendNum appends num(v).
+func appendNum(buf []byte, v float64) []byte {
+	if math.IsNaN(v) {
+		return buf
+	}
+	return strconv.AppendFloat(buf, v, 'g', 10, 64)
+}
+
+// appendJNum appends v as a JSON number with 8 significant digits, or
+// null when it is not finite.
+func appendJNum(buf []byte, v float64) []byte {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return append(buf, "null"...)
+	}
+	return strconv.AppendFloat(buf, v, 'g', 8, 64)
 }

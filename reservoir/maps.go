@@ -9,8 +9,11 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
 )
 
 // MaxCells is the largest grid the package loads: 50 million cells. Larger
@@ -519,35 +522,97 @@ func WriteASCIIRasterDigits(w io.Writer, g Grid, values []float64, active []bool
 	if math.IsNaN(nodata) || math.IsInf(nodata, 0) {
 		return fmt.Errorf("write raster: NODATA value %g is not finite", nodata)
 	}
-	bw := bufio.NewWriterSize(w, 64*1024)
-	fmt.Fprintf(bw, "ncols %d\nnrows %d\nxllcorner %s\nyllcorner %s\n", g.NX, g.NY, ftoa(g.X0), ftoa(g.Y0))
+	var hdr bytes.Buffer
+	fmt.Fprintf(&hdr, "ncols %d\nnrows %d\nxllcorner %s\nyllcorner %s\n", g.NX, g.NY, ftoa(g.X0), ftoa(g.Y0))
 	if g.DX == g.DY {
-		fmt.Fprintf(bw, "cellsize %s\n", ftoa(g.DX))
+		fmt.Fprintf(&hdr, "cellsize %s\n", ftoa(g.DX))
 	} else {
-		fmt.Fprintf(bw, "dx %s\ndy %s\n", ftoa(g.DX), ftoa(g.DY))
+		fmt.Fprintf(&hdr, "dx %s\ndy %s\n", ftoa(g.DX), ftoa(g.DY))
 	}
-	fmt.Fprintf(bw, "NODATA_value %s\n", ftoa(nodata))
-	buf := make([]byte, 0, 32)
-	for j := g.NY - 1; j >= 0; j-- {
-		for i := 0; i < g.NX; i++ {
-			k := j*g.NX + i
-			v := values[k]
-			if (active != nil && !active[k]) || math.IsNaN(v) {
-				v = nodata
-			} else if math.IsInf(v, 0) {
-				return fmt.Errorf("write raster: value %g in cell (i=%d, j=%d) is not finite", v, i, j)
-			} else if v == nodata {
-				return fmt.Errorf("write raster: value %g in cell (i=%d, j=%d) equals the NODATA value", v, i, j)
+	fmt.Fprintf(&hdr, "NODATA_value %s\n", ftoa(nodata))
+	if _, err := w.Write(hdr.Bytes()); err != nil {
+		return err
+	}
+	// Bands of rows are formatted in parallel and written in file order; a
+	// band of a few hundred kilobytes keeps memory small. The bytes do not
+	// depend on the number of goroutines.
+	bandRows := max(1, (256<<10)/(12*g.NX))
+	nb := (g.NY + bandRows - 1) / bandRows
+	nodataText := strconv.AppendFloat(nil, nodata, 'g', digits, 64)
+	format := func(band int, buf []byte) ([]byte, error) {
+		top := g.NY - 1 - band*bandRows // rows from north to south
+		for j := top; j > max(top-bandRows, -1); j-- {
+			row := values[j*g.NX : (j+1)*g.NX]
+			var act []bool
+			if active != nil {
+				act = active[j*g.NX : (j+1)*g.NX]
 			}
-			if i > 0 {
-				bw.WriteByte(' ')
+			prev, prevLen := math.NaN(), 0 // the last value formatted, and its length
+			for i, v := range row {
+				if i > 0 {
+					buf = append(buf, ' ')
+				}
+				switch {
+				case (act != nil && !act[i]) || math.IsNaN(v):
+					buf = append(buf, nodataText...)
+					prev = math.NaN()
+					continue
+				case math.IsInf(v, 0):
+					return nil, fmt.Errorf("write raster: value %g in cell (i=%d, j=%d) is not finite", v, i, j)
+				case v == nodata:
+					return nil, fmt.Errorf("write raster: value %g in cell (i=%d, j=%d) equals the NODATA value", v, i, j)
+				}
+				// Runs of equal values (unswept cells, partitions) copy the
+				// text of the previous one.
+				if v == prev && math.Signbit(v) == math.Signbit(prev) {
+					buf = append(buf, buf[len(buf)-1-prevLen:len(buf)-1]...)
+					continue
+				}
+				n0 := len(buf)
+				buf = strconv.AppendFloat(buf, v, 'g', digits, 64)
+				prev, prevLen = v, len(buf)-n0
 			}
-			buf = strconv.AppendFloat(buf[:0], v, 'g', digits, 64)
-			bw.Write(buf)
+			buf = append(buf, '\n')
 		}
-		bw.WriteByte('\n')
+		return buf, nil
 	}
-	return bw.Flush()
+	return orderedBands(w, nb, format)
+}
+
+// orderedBands formats bands 0..nb-1 on up to GOMAXPROCS goroutines, a
+// window of bands at a time, and writes them to w in order. The first
+// error in band order is returned.
+func orderedBands(w io.Writer, nb int, format func(band int, buf []byte) ([]byte, error)) error {
+	workers := min(runtime.GOMAXPROCS(0), nb)
+	window := max(1, 4*workers)
+	bufs := make([][]byte, window)
+	errs := make([]error, window)
+	for lo := 0; lo < nb; lo += window {
+		hi := min(lo+window, nb)
+		var next atomic.Int64
+		var wg sync.WaitGroup
+		for range min(workers, hi-lo) {
+			wg.Go(func() {
+				for {
+					b := lo + int(next.Add(1)) - 1
+					if b >= hi {
+						return
+					}
+					bufs[b-lo], errs[b-lo] = format(b, bufs[b-lo][:0])
+				}
+			})
+		}
+		wg.Wait()
+		for b := lo; b < hi; b++ {
+			if errs[b-lo] != nil {
+				return errs[b-lo]
+			}
+			if _, err := w.Write(bufs[b-lo]); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
 }
 
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
