@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"sort"
 	"sync"
 	"sync/atomic"
 
@@ -27,71 +28,96 @@ type lineSet struct {
 	pv        []float64
 	vol       []float64 // sum of flux*tau per cell (the cell pore volume after rescaling)
 	segVal    []float64 // scratch: one value per segment
+	reach     []int     // scratch: per line, the end of the segments a front has reached
 }
 
 func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSet {
 	n := len(tr.Lines)
 	ls := &lineSet{start: make([]int, n+1), q: make([]float64, n), total: make([]float64, n),
 		inj: make([]int, n), prod: make([]int, n), pv: pv}
-	nseg := 0
 	for i := range tr.Lines {
-		nseg += len(tr.Lines[i].Cells)
+		ls.start[i+1] = ls.start[i] + len(tr.Lines[i].Cells)
 	}
-	ls.cell = make([]int32, 0, nseg)
-	raw := make([]float64, len(pv))
+	nseg := ls.start[n]
+	// scale[c]: first the traced volume of cell c, then pv/volume.
+	scale := make([]float64, len(pv))
 	for i := range tr.Lines {
 		l := &tr.Lines[i]
+		tau := l.Tau[:len(l.Cells)]
 		for s, c := range l.Cells {
-			raw[c] += l.Flux * l.Tau[s]
+			scale[c] += l.Flux * tau[s]
 		}
 	}
-	scale := make([]float64, len(pv))
-	for c := range scale {
-		if raw[c] > 0 {
-			scale[c] = pv[c] / raw[c]
+	for c, raw := range scale {
+		if raw > 0 {
+			scale[c] = pv[c] / raw
 		} else if pv[c] > 0 && tr.TOF != nil && !tr.Stagnant[c] {
 			ls.uncovered++
 		}
 	}
-	ls.a = make([]float64, 0, nseg)
-	ls.b = make([]float64, 0, nseg)
-	for i := range tr.Lines {
-		l := &tr.Lines[i]
-		ls.q[i], ls.inj[i], ls.prod[i] = l.Flux, l.Injector, l.Producer
-		tau := 0.0
-		for s, c := range l.Cells {
-			ls.cell = append(ls.cell, c)
-			ls.a = append(ls.a, tau)
-			tau += l.Tau[s] * scale[c]
-			ls.b = append(ls.b, tau)
+	ls.cell = make([]int32, nseg)
+	ls.a = make([]float64, nseg)
+	ls.b = make([]float64, nseg)
+	forBlocks(n, 0, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			l := &tr.Lines[i]
+			ls.q[i], ls.inj[i], ls.prod[i] = l.Flux, l.Injector, l.Producer
+			off := ls.start[i]
+			cell := ls.cell[off : off+len(l.Cells)]
+			a, b := ls.a[off:off+len(cell)], ls.b[off:off+len(cell)]
+			tau := l.Tau[:len(cell)]
+			copy(cell, l.Cells)
+			t := 0.0
+			for s, c := range cell {
+				a[s] = t
+				t += tau[s] * scale[c]
+				b[s] = t
+			}
+			ls.total[i] = t
 		}
-		ls.total[i] = tau
-		ls.start[i+1] = len(ls.cell)
-	}
+	})
 	return ls
 }
 
 // cellSaturation maps the streamline solution at time t to cells by the
 // flux*tau weighted average of the streamlines in each cell. Cells no
-// streamline crosses keep swi; inactive cells are NaN. The segment
-// integrals are evaluated in parallel over fixed blocks of lines and added
-// to cells in line order, so the result does not depend on the number of
-// workers.
+// streamline crosses keep swi; inactive cells are NaN.
+//
+// Ahead of the leading front a line holds its initial saturation, which
+// is swi, so a cell's saturation is swi plus the flux-weighted excess
+// q*(integral of S - swi*tau) of the segments the front has reached: only
+// those are evaluated (a binary search per line finds them, time of flight
+// growing along a line). The excess is evaluated in parallel over fixed
+// blocks of lines and added to cells in line order, so the result does not
+// depend on the number of workers.
 func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float64, workers int) []float64 {
 	n := len(ls.pv)
 	nseg := len(ls.cell)
 	if cap(ls.segVal) < nseg {
 		ls.segVal = make([]float64, nseg)
 	}
+	if len(ls.reach) != len(ls.q) {
+		ls.reach = make([]int, len(ls.q))
+	}
 	val := ls.segVal[:nseg]
 	nl := len(ls.q)
+	reach := math.Inf(1) // time of flight the front has reached at t
+	if rs.front > 0 && t > 0 {
+		reach = rs.front * t
+	}
+	sInit := rs.sInit
 	forBlocks(nl, workers, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
 			q := ls.q[i]
-			prev := 0.0 // tau*avg at entry of the segment
-			for s := ls.start[i]; s < ls.start[i+1]; s++ {
-				cur := rs.cumSat(ls.b[s], t)
-				val[s] = q * (cur - prev)
+			s0, s1 := ls.start[i], ls.start[i+1]
+			// Segments [s0, end) start behind the front.
+			end := s0 + sort.Search(s1-s0, func(k int) bool { return ls.a[s0+k] > reach })
+			ls.reach[i] = end
+			prev := 0.0 // integral of S over [0, a] at entry of the segment
+			for s := s0; s < end; s++ {
+				a, b := ls.a[s], ls.b[s]
+				cur := rs.cumSat(b, t)
+				val[s] = q * ((cur - prev) - (b-a)*sInit)
 				prev = cur
 			}
 		}
@@ -105,15 +131,18 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 		}
 	}
 	sw := make([]float64, n)
-	for s, c := range ls.cell {
-		sw[c] += val[s]
+	for i := 0; i < nl; i++ {
+		s0 := ls.start[i]
+		for s, c := range ls.cell[s0:ls.reach[i]] {
+			sw[c] += val[s0+s]
+		}
 	}
 	for c := range sw {
 		switch {
 		case !m.Active[c]:
 			sw[c] = math.NaN()
 		case ls.vol[c] > 0:
-			sw[c] /= ls.vol[c]
+			sw[c] = sInit + sw[c]/ls.vol[c]
 		default:
 			sw[c] = swi
 		}
@@ -272,7 +301,7 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 	for _, t := range snapshotTimes(m) {
 		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: satAt(t)})
 	}
-	for _, k := range frameIndices(nt, frameCount(s.Frames, len(ls.cell))) {
+	for _, k := range frameIndices(nt, frameCount(s.Frames, len(ls.cell), len(ls.pv))) {
 		t := times[k]
 		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: r.PVI[k], Sw: satAt(t)})
 	}
@@ -297,12 +326,17 @@ func snapshotTimes(m *reservoir.Model) []float64 {
 }
 
 // frameBudget caps the work of the animation maps: frames times
-// streamline segments. A million-cell case gets fewer frames (at least 8).
-const frameBudget = 2e8
+// streamline segments, and frameCellBudget frames times cells (each frame
+// is also a raster to write). A million-cell case gets 8 frames, the
+// least a case gets.
+const (
+	frameBudget     = 2e8
+	frameCellBudget = 8e6
+)
 
 // frameCount returns the number of animation frames for a request n (0 =
-// up to 40, negative = none) and nseg streamline segments.
-func frameCount(n, nseg int) int {
+// up to 40, negative = none), nseg streamline segments and ncells cells.
+func frameCount(n, nseg, ncells int) int {
 	if n < 0 {
 		return n
 	}
@@ -310,6 +344,9 @@ func frameCount(n, nseg int) int {
 		n = 40
 		if nseg > 0 {
 			n = min(n, max(8, int(frameBudget/float64(nseg))))
+		}
+		if ncells > 0 {
+			n = min(n, max(8, int(frameCellBudget/float64(ncells))))
 		}
 	}
 	return n
