@@ -14,6 +14,7 @@ import (
 	"strings"
 	"sync"
 	"sync/atomic"
+	"unsafe"
 )
 
 // MaxCells is the largest grid the package loads: 50 million cells. Larger
@@ -77,6 +78,21 @@ func (lr *lineReader) next() ([]string, error) {
 		lr.line = lr.pendLine
 		return f, nil
 	}
+	b, err := lr.nextLine()
+	if b == nil || err != nil {
+		return nil, err
+	}
+	f, msg := splitFields(string(b))
+	if msg != "" {
+		return nil, &InputError{Path: lr.name, Line: lr.line, Msg: msg}
+	}
+	return f, nil
+}
+
+// nextLine returns the next non-blank line with surrounding white space
+// trimmed, or nil at the end of the file. The bytes are valid until the
+// next call. A pending (unread) line must be taken with next first.
+func (lr *lineReader) nextLine() ([]byte, error) {
 	for lr.sc.Scan() {
 		lr.line++
 		b := lr.sc.Bytes()
@@ -86,15 +102,11 @@ func (lr *lineReader) next() ([]string, error) {
 		if i := bytes.IndexByte(b, 0); i >= 0 {
 			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: "not a text file (NUL byte)"}
 		}
-		s := strings.TrimSpace(string(b))
-		if s == "" || (lr.comments && s[0] == '#') {
+		b = bytes.TrimSpace(b)
+		if len(b) == 0 || (lr.comments && b[0] == '#') {
 			continue
 		}
-		f, err := splitFields(s)
-		if err != "" {
-			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: err}
-		}
-		return f, nil
+		return b, nil
 	}
 	if err := lr.sc.Err(); err != nil {
 		if errors.Is(err, bufio.ErrTooLong) {
@@ -164,43 +176,223 @@ func checkSize(name string, line int, nx, ny int64, limit int) error {
 // readRows reads ny rows of nx values, north row first, and returns them
 // flipped so that index j*nx+i has j = 0 at the south. Row and column
 // numbers in messages count from 1 at the top left of the file.
+//
+// The lines are first collected and checked for their shape (row count,
+// values per row) in file order, up to the first defect; the values are
+// then parsed in parallel bands of rows. The error reported is the one a
+// value-by-value reading meets first: a bad value before the first shape
+// defect, else that defect.
 func readRows(lr *lineReader, nx, ny int, nodata float64, hasNoData bool, what string) ([]float64, error) {
-	vals := make([]float64, 0, min(nx*ny, 4096))
-	row := 0
-	for {
-		f, err := lr.next()
-		if err != nil {
-			return nil, err
+	var first []string // a row the header reader pushed back
+	if lr.pending != nil {
+		first, _ = lr.next()
+	}
+	var arena []byte // the text of the rows after first
+	var ends []int   // end of each row in arena
+	var shapeErr error
+	rows := 0
+	if first != nil {
+		rows = 1
+		if len(first) != nx {
+			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", 1, len(first), nx)}
 		}
-		if f == nil {
+	}
+	for shapeErr == nil {
+		b, err := lr.nextLine()
+		if err != nil {
+			shapeErr = err
 			break
 		}
-		row++
-		if row > ny {
-			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("more than %d rows; expected %d (%s)", ny, ny, what)}
+		if b == nil {
+			break
 		}
-		if len(f) != nx {
-			return nil, &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", row, len(f), nx)}
+		nf, msg := countFields(b)
+		if msg != "" {
+			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: msg}
+			break
 		}
-		for c, tok := range f {
+		rows++
+		if rows > ny {
+			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("more than %d rows; expected %d (%s)", ny, ny, what)}
+			break
+		}
+		if nf != nx {
+			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", rows, nf, nx)}
+			break
+		}
+		if arena == nil {
+			// Room for the rows still expected if they are like this one
+			// (at most 256 MiB up front: a header may overstate them).
+			expect := min(ny-rows+1, (256<<20)/(len(b)+len(b)/8))
+			arena = make([]byte, 0, expect*(len(b)+len(b)/8))
+			ends = make([]int, 0, expect)
+		}
+		arena = append(arena, b...)
+		ends = append(ends, len(arena))
+	}
+	nfirst := 0
+	if first != nil && len(first) == nx {
+		nfirst = 1
+	}
+	nrows := nfirst + len(ends)
+	vals := make([]float64, nrows*nx)
+	// Row r (north first) goes to j = ny-1-r when the file is complete;
+	// otherwise the values are dropped anyway.
+	dst := func(r int) []float64 {
+		if nrows == ny {
+			return vals[(ny-1-r)*nx : (ny-r)*nx]
+		}
+		return vals[r*nx : (r+1)*nx]
+	}
+	if nfirst == 1 {
+		out := dst(0)
+		for c, tok := range first {
 			v, msg := parseValue(tok, nodata, hasNoData)
 			if msg != "" {
-				return nil, &InputError{Path: lr.name, Row: row, Col: c + 1, Msg: msg}
+				return nil, &InputError{Path: lr.name, Row: 1, Col: c + 1, Msg: msg}
 			}
-			vals = append(vals, v)
+			out[c] = v
 		}
 	}
-	if row < ny {
-		return nil, &InputError{Path: lr.name, Msg: fmt.Sprintf("only %d rows; expected %d (%s)", row, ny, what)}
+	if err := parseRowsParallel(arena, ends, func(r int) []float64 { return dst(nfirst + r) }, nodata, hasNoData, func(r, col int, msg string) error {
+		return &InputError{Path: lr.name, Row: nfirst + r + 1, Col: col, Msg: msg}
+	}); err != nil {
+		return nil, err
 	}
-	// Flip north-first rows to south-first.
-	for a, b := 0, ny-1; a < b; a, b = a+1, b-1 {
-		ra, rb := vals[a*nx:(a+1)*nx], vals[b*nx:(b+1)*nx]
-		for i := range ra {
-			ra[i], rb[i] = rb[i], ra[i]
-		}
+	if shapeErr != nil {
+		return nil, shapeErr
+	}
+	if rows < ny {
+		return nil, &InputError{Path: lr.name, Msg: fmt.Sprintf("only %d rows; expected %d (%s)", rows, ny, what)}
 	}
 	return vals, nil
+}
+
+// countFields counts the values of a trimmed row as splitFields splits
+// them, without allocating for rows of ASCII text without commas.
+func countFields(b []byte) (int, string) {
+	if bytes.IndexByte(b, ',') >= 0 || !isASCII(b) {
+		f, msg := splitFields(string(b))
+		return len(f), msg
+	}
+	n, in := 0, false
+	for _, c := range b {
+		sp := asciiSpace(c)
+		if !sp && !in {
+			n++
+		}
+		in = !sp
+	}
+	return n, ""
+}
+
+func isASCII(b []byte) bool {
+	for _, c := range b {
+		if c >= 0x80 {
+			return false
+		}
+	}
+	return true
+}
+
+// asciiSpace reports the ASCII characters unicode.IsSpace accepts.
+func asciiSpace(c byte) bool {
+	return c == ' ' || c == '\t' || c == '\n' || c == '\v' || c == '\f' || c == '\r'
+}
+
+// parseRowsParallel parses rows arena[ends[r-1]:ends[r]] (each already
+// known to hold the right number of values) into dst(r), in bands of rows
+// on up to GOMAXPROCS goroutines. On bad values it returns fail for the
+// first one in row order.
+func parseRowsParallel(arena []byte, ends []int, dst func(r int) []float64, nodata float64, hasNoData bool, fail func(r, col int, msg string) error) error {
+	n := len(ends)
+	if n == 0 {
+		return nil
+	}
+	const band = 16
+	nb := (n + band - 1) / band
+	type bad struct {
+		row, col int
+		msg      string
+	}
+	errs := make([]bad, nb)
+	parseRow := func(r int) (int, string) {
+		lo := 0
+		if r > 0 {
+			lo = ends[r-1]
+		}
+		line := arena[lo:ends[r]]
+		out := dst(r)
+		if bytes.IndexByte(line, ',') >= 0 || !isASCII(line) {
+			f, _ := splitFields(string(line))
+			for c, tok := range f {
+				v, msg := parseValue(tok, nodata, hasNoData)
+				if msg != "" {
+					return c + 1, msg
+				}
+				out[c] = v
+			}
+			return 0, ""
+		}
+		c := 0
+		for i := 0; i < len(line); {
+			for i < len(line) && asciiSpace(line[i]) {
+				i++
+			}
+			j := i
+			for j < len(line) && !asciiSpace(line[j]) {
+				j++
+			}
+			if j == i {
+				break
+			}
+			// The token is only read during the call: no copy needed.
+			v, msg := parseValue(unsafe.String(&line[i], j-i), nodata, hasNoData)
+			if msg != "" {
+				return c + 1, msg
+			}
+			out[c] = v
+			c++
+			i = j
+		}
+		return 0, ""
+	}
+	workers := min(runtime.GOMAXPROCS(0), nb)
+	var next atomic.Int64
+	var stop atomic.Int64 // lowest band with an error, plus one (0: none)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Go(func() {
+			for {
+				b := int(next.Add(1)) - 1
+				if b >= nb {
+					return
+				}
+				if s := stop.Load(); s > 0 && int(s) <= b {
+					continue // an earlier band already failed
+				}
+				for r := b * band; r < min((b+1)*band, n); r++ {
+					if col, msg := parseRow(r); msg != "" {
+						errs[b] = bad{r, col, msg}
+						for {
+							s := stop.Load()
+							if (s > 0 && int(s) <= b+1) || stop.CompareAndSwap(s, int64(b+1)) {
+								break
+							}
+						}
+						break
+					}
+				}
+			}
+		})
+	}
+	wg.Wait()
+	for _, e := range errs {
+		if e.msg != "" {
+			return fail(e.row, e.col, e.msg)
+		}
+	}
+	return nil
 }
 
 // ReadASCIIRaster reads a GIS ASCII raster from r; name is used in

@@ -2,6 +2,7 @@ package reservoir
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -112,4 +113,83 @@ func BenchmarkWriteRaster1000(b *testing.B) {
 		}
 	}
 	b.SetBytes(int64(buf.Len()))
+}
+
+// TestReadRasterBands reads a raster large enough for many parallel bands
+// and checks it value by value against strconv.ParseFloat of the
+// whitespace-separated tokens; then the first of several bad values, in
+// file order, must be the one reported, and a shape defect after a bad
+// value must not hide it.
+func TestReadRasterBands(t *testing.T) {
+	prev := runtime.GOMAXPROCS(0)
+	defer runtime.GOMAXPROCS(prev)
+	g := Grid{NX: 37, NY: 900, DX: 5, DY: 5}
+	r := rand.New(rand.NewPCG(5, 6))
+	v := make([]float64, g.N())
+	for k := range v {
+		v[k] = math.Exp(30 * (r.Float64() - 0.5))
+		if r.IntN(20) == 0 {
+			v[k] = math.NaN()
+		}
+	}
+	var buf bytes.Buffer
+	if err := WriteASCIIRaster(&buf, g, v, nil, -9999); err != nil {
+		t.Fatal(err)
+	}
+	text := buf.String()
+	lines := strings.Split(strings.TrimSpace(text), "\n")[6:]
+	for _, procs := range []int{1, 3} {
+		runtime.GOMAXPROCS(procs)
+		ras, err := ReadASCIIRaster(strings.NewReader(text), "big.asc")
+		if err != nil {
+			t.Fatal(err)
+		}
+		for row, l := range lines {
+			for c, tok := range strings.Fields(l) {
+				want, _ := strconv.ParseFloat(tok, 64)
+				got := ras.Values[(g.NY-1-row)*g.NX+c]
+				if !(got == want || (want == -9999 && math.IsNaN(got))) {
+					t.Fatalf("procs %d: row %d col %d: %v, want %v", procs, row+1, c+1, got, want)
+				}
+			}
+		}
+		bad := append([]string(nil), lines...)
+		setTok := func(row, col int, tok string) { // 0-based
+			f := strings.Fields(bad[row])
+			f[col] = tok
+			bad[row] = strings.Join(f, " ")
+		}
+		setTok(850, 0, "x1")
+		setTok(400, 1, "1..2")
+		setTok(400, 5, "z")
+		setTok(401, 0, "y")
+		bad[600] = bad[600] + " 7" // a shape defect after the bad values
+		head := strings.Join(strings.Split(text, "\n")[:6], "\n") + "\n"
+		_, err = ReadASCIIRaster(strings.NewReader(head+strings.Join(bad, "\n")), "bad.asc")
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Row != 401 || ie.Col != 2 {
+			t.Fatalf("procs %d: error %v, want row 401 col 2", procs, err)
+		}
+	}
+}
+
+// BenchmarkReadRaster1000 reads a 1000 x 1000 raster of values written
+// with all their digits, as floodtrace synth writes them.
+func BenchmarkReadRaster1000(b *testing.B) {
+	g := Grid{NX: 1000, NY: 1000, DX: 10, DY: 10}
+	r := rand.New(rand.NewPCG(7, 8))
+	v := make([]float64, g.N())
+	for k := range v {
+		v[k] = 100 * math.Exp(1.5*r.NormFloat64())
+	}
+	var buf bytes.Buffer
+	if err := WriteASCIIRaster(&buf, g, v, nil, -9999); err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(int64(buf.Len()))
+	for b.Loop() {
+		if _, err := ReadASCIIRaster(bytes.NewReader(buf.Bytes()), "bench.asc"); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
