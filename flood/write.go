@@ -373,9 +373,9 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 					buf = append(buf, ',')
 				}
 				buf = append(buf, '[')
-				buf = strconv.AppendFloat(buf, p[0], 'f', 2, 64)
+				buf = appendFixed(buf, p[0], 2)
 				buf = append(buf, ',')
-				buf = strconv.AppendFloat(buf, p[1], 'f', 2, 64)
+				buf = appendFixed(buf, p[1], 2)
 				buf = append(buf, ']')
 			}
 			buf = append(buf, "]}}"...)
@@ -420,6 +420,48 @@ func writeBands(w io.Writer, n, per int, format func(lo, hi int, buf []byte) []b
 		}
 	}
 	return nil
+}
+
+// appendFixed appends strconv.AppendFloat(buf, v, 'f', dec, 64) for dec
+// in 0..6. Magnitudes below 1e12 take a fast path: v is scaled by 10^dec
+// (one rounding, relative error below 2^-52) and rounded to nearest; a
+// scaled value within that error of a half-way point goes to strconv,
+// which rounds the exact binary value, as do all other values.
+func appendFixed(buf []byte, v float64, dec int) []byte {
+	a := math.Abs(v)
+	if dec < 0 || dec > 6 || !(a < 1e12) {
+		return strconv.AppendFloat(buf, v, 'f', dec, 64)
+	}
+	p := 1.0
+	for range dec {
+		p *= 10
+	}
+	scaled := a * p
+	fl := math.Floor(scaled)
+	frac := scaled - fl
+	if math.Abs(frac-0.5) <= 4e-16*scaled+1e-300 {
+		return strconv.AppendFloat(buf, v, 'f', dec, 64)
+	}
+	m := uint64(fl)
+	if frac > 0.5 {
+		m++
+	}
+	if math.Signbit(v) {
+		buf = append(buf, '-')
+	}
+	ip := m / uint64(p)
+	buf = strconv.AppendUint(buf, ip, 10)
+	if dec == 0 {
+		return buf
+	}
+	buf = append(buf, '.')
+	f := m - ip*uint64(p)
+	var d [6]byte
+	for i := dec - 1; i >= 0; i-- {
+		d[i] = byte('0' + f%10)
+		f /= 10
+	}
+	return append(buf, d[:dec]...)
 }
 
 // appendNum appends num(v).

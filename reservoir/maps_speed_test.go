@@ -193,3 +193,50 @@ func BenchmarkReadRaster1000(b *testing.B) {
 		}
 	}
 }
+
+// TestAppendG compares appendG with strconv.AppendFloat ('g') on random
+// values spread over many decades, on values made of few binary digits
+// (exact decimal half-way cases) and on values next to powers of ten.
+func TestAppendG(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 10))
+	check := func(v float64, prec int) {
+		t.Helper()
+		want := strconv.FormatFloat(v, 'g', prec, 64)
+		if got := string(appendG(nil, v, prec)); got != want {
+			t.Fatalf("appendG(%v, %d) = %s, want %s", v, prec, got, want)
+		}
+	}
+	n := 400_000
+	if testing.Short() {
+		n = 50_000
+	}
+	for i := 0; i < n; i++ {
+		prec := 1 + r.IntN(15)
+		if i%2 == 0 {
+			prec = 7
+		}
+		v := math.Pow(10, 14*r.Float64()-6) * (1 + r.Float64())
+		if r.IntN(2) == 0 {
+			v = -v
+		}
+		check(v, prec)
+		// Few binary digits: decimal ties such as 0.125 or 2^-11.
+		check(math.Ldexp(float64(r.IntN(1<<12)), -r.IntN(30)), prec)
+		check(float64(r.IntN(100_000_000))/math.Pow(10, float64(r.IntN(12))), prec)
+	}
+	for e := -6; e <= 16; e++ {
+		p := math.Pow(10, float64(e))
+		for _, v := range []float64{p, math.Nextafter(p, 0), math.Nextafter(p, 2*p), p * (1 - 5e-8), p * (1 - 4.9999999e-8), p * (1 - 5.0000001e-8)} {
+			for prec := 1; prec <= 16; prec++ {
+				check(v, prec)
+			}
+		}
+	}
+	for _, v := range []float64{0, math.Copysign(0, -1), 0.2, 0.75, 1, 9999999.5, 9999999.49, 0.00099999995, 1e-4, 99999.995, math.NaN(), math.Inf(1), math.MaxFloat64, math.SmallestNonzeroFloat64} {
+		for prec := -1; prec <= 17; prec++ {
+			if prec != 0 {
+				check(v, prec)
+			}
+		}
+	}
+}
