@@ -3,6 +3,7 @@ package streamline
 import (
 	"fmt"
 	"math"
+	"sync"
 
 	"floodtrace/reservoir"
 )
@@ -24,41 +25,54 @@ func (b *builder) maps(lowFlow []bool) *Result {
 	wF := make([]float64, n) // weights of lines from an injector
 	wB := make([]float64, n) // weights of lines to a producer
 	wT := make([]float64, n) // weights of lines with both
-	for i := range b.lines {
-		l := &b.lines[i]
-		if !(l.Flux > 0) {
-			continue
-		}
-		cum := 0.0
-		for m, c := range l.Cells {
-			tau := l.Tau[m]
-			v := l.Flux * tau
-			mid := cum + 0.5*tau
-			r.Volume[c] += v
-			if l.Injector >= 0 {
-				wF[c] += v
-				r.TOF[c] += v * mid
-			}
-			if l.Producer >= 0 {
-				wB[c] += v
-				r.BackTOF[c] += v * (l.TotalTau - mid)
-			}
-			if l.Injector >= 0 && l.Producer >= 0 {
-				wT[c] += v
-				r.Travel[c] += v * l.TotalTau
-			}
-			cum += tau
-		}
-	}
 	nan := math.NaN()
-	for k := 0; k < n; k++ {
-		r.TOF[k] = ratio(r.TOF[k], wF[k], nan)
-		r.BackTOF[k] = ratio(r.BackTOF[k], wB[k], nan)
-		r.Travel[k] = ratio(r.Travel[k], wT[k], nan)
-		r.Stagnant[k] = t.isActive(k) && (lowFlow[k] || !(r.Volume[k] > 0))
-	}
-	b.partition(r.InjectorPartition, func(l *Line) int { return l.Injector })
-	b.partition(r.ProducerPartition, func(l *Line) int { return l.Producer })
+	var wg sync.WaitGroup
+	// The partitions read only the lines; they run beside the maps.
+	wg.Go(func() { b.partition(r.InjectorPartition, func(l *Line) int { return l.Injector }) })
+	wg.Go(func() { b.partition(r.ProducerPartition, func(l *Line) int { return l.Producer }) })
+	// The cells are cut into one contiguous range per worker; each range
+	// takes the lines in line order, so every sum is made in the same order
+	// whatever the number of ranges.
+	ranges := max(1, b.workers)
+	parallel(ranges, b.workers, func(_, rg int) {
+		lo, hi := int32(rg*n/ranges), int32((rg+1)*n/ranges)
+		for i := range b.lines {
+			l := &b.lines[i]
+			if !(l.Flux > 0) {
+				continue
+			}
+			cum := 0.0
+			tau := l.Tau[:len(l.Cells)]
+			for m, c := range l.Cells {
+				tm := tau[m]
+				if c >= lo && c < hi {
+					v := l.Flux * tm
+					mid := cum + 0.5*tm
+					r.Volume[c] += v
+					if l.Injector >= 0 {
+						wF[c] += v
+						r.TOF[c] += v * mid
+					}
+					if l.Producer >= 0 {
+						wB[c] += v
+						r.BackTOF[c] += v * (l.TotalTau - mid)
+					}
+					if l.Injector >= 0 && l.Producer >= 0 {
+						wT[c] += v
+						r.Travel[c] += v * l.TotalTau
+					}
+				}
+				cum += tm
+			}
+		}
+		for k := int(lo); k < int(hi); k++ {
+			r.TOF[k] = ratio(r.TOF[k], wF[k], nan)
+			r.BackTOF[k] = ratio(r.BackTOF[k], wB[k], nan)
+			r.Travel[k] = ratio(r.Travel[k], wT[k], nan)
+			r.Stagnant[k] = t.isActive(k) && (lowFlow[k] || !(r.Volume[k] > 0))
+		}
+	})
+	wg.Wait()
 	return r
 }
 
