@@ -1,0 +1,128 @@
+package flood
+
+import (
+	"fmt"
+	"sync"
+	"testing"
+
+	"floodtrace/pressure"
+	"floodtrace/reservoir"
+	"floodtrace/reservoir/synth"
+	"floodtrace/streamline"
+	"floodtrace/transport"
+)
+
+// The Stage benchmarks time each stage of a run on the benchmark pattern
+// of docs/PERFORMANCE.md at 100x100, 300x300 and 1000x1000 cells (the
+// last skipped under -short): a 10 km square of log-normal permeability
+// (reservoir/synth, ln k standard deviation 1.5, ranges 1500 m x 600 m at
+// azimuth 30, seed 3), four rate injectors and five BHP producers.
+
+var stageModels sync.Map // n -> *reservoir.Model
+
+// stageModel returns the benchmark pattern on an n x n grid.
+func stageModel(b *testing.B, n int) *reservoir.Model {
+	b.Helper()
+	if n >= 1000 && testing.Short() {
+		b.Skip("1000x1000 under -short")
+	}
+	if m, ok := stageModels.Load(n); ok {
+		return m.(*reservoir.Model)
+	}
+	dx := 10000 / float64(n)
+	perm, poro, err := synth.Generate(synth.Settings{NX: n, NY: n, DX: dx, DY: dx, RangeMajor: 1500, RangeMinor: 600,
+		Azimuth: 30, LogMean: 4.605170185988092, LogStd: 1.5, Seed: 3})
+	if err != nil {
+		b.Fatal(err)
+	}
+	m := reservoir.NewUniform(n, n, dx, dx, 100, 0.2, 20)
+	m.PermX, m.PermY, m.Porosity = perm, perm, poro
+	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 2, InitialSw: 0.2}
+	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.25, KrwMax: 0.3, KroMax: 0.85, Nw: 2.5, No: 2}
+	m.Run = reservoir.RunSettings{End: 7300, ReportEvery: 60, Snapshots: []float64{7300}, Streamlines: 5000, PressureUpdates: 1}
+	for i, xy := range [][2]float64{{2500, 2500}, {7500, 2500}, {2500, 7500}, {7500, 7500}} {
+		if err := m.AddWell(fmt.Sprintf("I%d", i+1), reservoir.Injector, xy[0], xy[1], reservoir.RateControl, 5000); err != nil {
+			b.Fatal(err)
+		}
+	}
+	for i, xy := range [][2]float64{{500, 500}, {9500, 500}, {500, 9500}, {9500, 9500}, {5000, 5000}} {
+		if err := m.AddWell(fmt.Sprintf("P%d", i+1), reservoir.Producer, xy[0], xy[1], reservoir.BHPControl, 500); err != nil {
+			b.Fatal(err)
+		}
+	}
+	stageModels.Store(n, m)
+	return m
+}
+
+var stageSizes = []int{100, 300, 1000}
+
+// stageTraced is the benchmark pattern solved and traced.
+type stageTraced struct {
+	m   *reservoir.Model
+	sol *pressure.Solution
+	tr  *streamline.Result
+	rs  *blTable
+}
+
+var stageTraces sync.Map // n -> *stageTraced
+
+func stageTrace(b *testing.B, n int) *stageTraced {
+	if st, ok := stageTraces.Load(n); ok {
+		return st.(*stageTraced)
+	}
+	m := stageModel(b, n)
+	sol, err := pressure.Solve(pressure.Input{Model: m}, pressure.Settings{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	tr, err := streamline.Trace(Field(m, sol), streamline.Settings{Count: m.Run.Streamlines, KeepPaths: true, MaxPathPoints: MaxPathPoints})
+	if err != nil {
+		b.Fatal(err)
+	}
+	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
+	_, sor := m.RelPerm.Endpoints()
+	rs, err := transport.NewRiemann(ff, m.Fluids.InitialSw, 1-sor)
+	if err != nil {
+		b.Fatal(err)
+	}
+	st := &stageTraced{m: m, sol: sol, tr: tr, rs: newBLTable(rs, ff)}
+	stageTraces.Store(n, st)
+	return st
+}
+
+// BenchmarkStageMapping times the streamline-to-cell bookkeeping (the flat
+// line set with time of flight rescaled to the cell pore volumes) and one
+// saturation map at the end of the run.
+func BenchmarkStageMapping(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			st := stageTrace(b, n)
+			pv := st.m.PoreVolumes()
+			var ls *lineSet
+			for b.Loop() {
+				ls = newLineSet(st.m, st.tr, pv)
+				ls.cellSaturation(st.m, st.rs, st.m.Run.End, st.m.Fluids.InitialSw, 0)
+			}
+			b.ReportMetric(float64(len(ls.cell)), "segments")
+		})
+	}
+}
+
+// BenchmarkStageTransport times the transport stage of a fixed-streamline
+// run after the line set is built: Buckley-Leverett curves of every
+// producer at the 122 report times, the snapshot and the animation frames
+// (8 to 40 saturation maps, by size), and the material balance.
+func BenchmarkStageTransport(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			st := stageTrace(b, n)
+			ls := newLineSet(st.m, st.tr, st.m.PoreVolumes())
+			var r *Result
+			for b.Loop() {
+				r = &Result{Model: st.m, PoreVolume: st.m.TotalPoreVolume(), OOIP: st.m.OOIP()}
+				r.fixedTransport(st.m, st.sol, ls, st.rs, Settings{})
+			}
+			b.ReportMetric(float64(len(r.Frames)), "frames")
+		})
+	}
+}

@@ -1,0 +1,132 @@
+package pressure
+
+import (
+	"fmt"
+	"sync"
+	"testing"
+
+	"floodtrace/pressure/sparse"
+	"floodtrace/reservoir"
+	"floodtrace/reservoir/synth"
+)
+
+// The Stage benchmarks time each stage of a run on the benchmark pattern
+// of docs/PERFORMANCE.md at 100x100, 300x300 and 1000x1000 cells (the
+// last skipped under -short): a 10 km square of log-normal permeability
+// (reservoir/synth, ln k standard deviation 1.5, ranges 1500 m x 600 m at
+// azimuth 30, seed 3), four rate injectors and five BHP producers.
+
+var stageModels sync.Map // n -> *reservoir.Model
+
+// stageModel returns the benchmark pattern on an n x n grid.
+func stageModel(b *testing.B, n int) *reservoir.Model {
+	b.Helper()
+	if n >= 1000 && testing.Short() {
+		b.Skip("1000x1000 under -short")
+	}
+	if m, ok := stageModels.Load(n); ok {
+		return m.(*reservoir.Model)
+	}
+	dx := 10000 / float64(n)
+	perm, poro, err := synth.Generate(synth.Settings{NX: n, NY: n, DX: dx, DY: dx, RangeMajor: 1500, RangeMinor: 600,
+		Azimuth: 30, LogMean: 4.605170185988092, LogStd: 1.5, Seed: 3})
+	if err != nil {
+		b.Fatal(err)
+	}
+	m := reservoir.NewUniform(n, n, dx, dx, 100, 0.2, 20)
+	m.PermX, m.PermY, m.Porosity = perm, perm, poro
+	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 2, InitialSw: 0.2}
+	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.25, KrwMax: 0.3, KroMax: 0.85, Nw: 2.5, No: 2}
+	m.Run = reservoir.RunSettings{End: 7300, ReportEvery: 60, Snapshots: []float64{7300}, Streamlines: 5000, PressureUpdates: 1}
+	for i, xy := range [][2]float64{{2500, 2500}, {7500, 2500}, {2500, 7500}, {7500, 7500}} {
+		if err := m.AddWell(fmt.Sprintf("I%d", i+1), reservoir.Injector, xy[0], xy[1], reservoir.RateControl, 5000); err != nil {
+			b.Fatal(err)
+		}
+	}
+	for i, xy := range [][2]float64{{500, 500}, {9500, 500}, {500, 9500}, {9500, 9500}, {5000, 5000}} {
+		if err := m.AddWell(fmt.Sprintf("P%d", i+1), reservoir.Producer, xy[0], xy[1], reservoir.BHPControl, 500); err != nil {
+			b.Fatal(err)
+		}
+	}
+	stageModels.Store(n, m)
+	return m
+}
+
+var stageSizes = []int{100, 300, 1000}
+
+// BenchmarkStageAssemble times the assembly of the pressure system.
+func BenchmarkStageAssemble(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			m := stageModel(b, n)
+			for b.Loop() {
+				if _, err := Assemble(Input{Model: m}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkStagePreconditioner times the set-up of the default
+// preconditioner (IC(0) below AMGThreshold unknowns, AMG above).
+func BenchmarkStagePreconditioner(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			sys, err := Assemble(Input{Model: stageModel(b, n)})
+			if err != nil {
+				b.Fatal(err)
+			}
+			for b.Loop() {
+				if _, err := DefaultPreconditioner(sys.A); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkStageSolve times conjugate gradients to a relative residual of
+// 1e-10 (the default of Settings.Tol) with the default preconditioner
+// already built, from a zero start, and reports the iterations.
+func BenchmarkStageSolve(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			sys, err := Assemble(Input{Model: stageModel(b, n)})
+			if err != nil {
+				b.Fatal(err)
+			}
+			pre, err := DefaultPreconditioner(sys.A)
+			if err != nil {
+				b.Fatal(err)
+			}
+			x := make([]float64, len(sys.B))
+			var res sparse.CGResult
+			for b.Loop() {
+				clear(x)
+				if res, err = sparse.CG(sys.A, sys.B, x, pre, sparse.CGSettings{Tol: 1e-10}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(res.Iterations), "iterations")
+		})
+	}
+}
+
+// BenchmarkStagePressure times the whole pressure stage as a run does it
+// (Solve: assembly, preconditioner, conjugate gradients, fluxes).
+func BenchmarkStagePressure(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			m := stageModel(b, n)
+			var sol *Solution
+			for b.Loop() {
+				var err error
+				if sol, err = Solve(Input{Model: m}, Settings{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(sol.Iterations), "iterations")
+		})
+	}
+}
