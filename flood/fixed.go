@@ -41,13 +41,17 @@ func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSe
 	nseg := ls.start[n]
 	// scale[c]: first the traced volume of cell c, then pv/volume.
 	scale := make([]float64, len(pv))
-	for i := range tr.Lines {
-		l := &tr.Lines[i]
-		tau := l.Tau[:len(l.Cells)]
-		for s, c := range l.Cells {
-			scale[c] += l.Flux * tau[s]
+	forCellRanges(len(pv), 0, func(lo, hi int32) {
+		for i := range tr.Lines {
+			l := &tr.Lines[i]
+			tau := l.Tau[:len(l.Cells)]
+			for s, c := range l.Cells {
+				if c >= lo && c < hi {
+					scale[c] += l.Flux * tau[s]
+				}
+			}
 		}
-	}
+	})
 	for c, raw := range scale {
 		if raw > 0 {
 			scale[c] = pv[c] / raw
@@ -124,30 +128,59 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 	})
 	if ls.vol == nil {
 		ls.vol = make([]float64, n)
-		for i := range ls.q {
-			for s := ls.start[i]; s < ls.start[i+1]; s++ {
-				ls.vol[ls.cell[s]] += ls.q[i] * (ls.b[s] - ls.a[s])
+		forCellRanges(n, workers, func(lo, hi int32) {
+			for i := range ls.q {
+				q := ls.q[i]
+				for s := ls.start[i]; s < ls.start[i+1]; s++ {
+					if c := ls.cell[s]; c >= lo && c < hi {
+						ls.vol[c] += q * (ls.b[s] - ls.a[s])
+					}
+				}
 			}
-		}
+		})
 	}
 	sw := make([]float64, n)
-	for i := 0; i < nl; i++ {
-		s0 := ls.start[i]
-		for s, c := range ls.cell[s0:ls.reach[i]] {
-			sw[c] += val[s0+s]
+	forCellRanges(n, workers, func(lo, hi int32) {
+		for i := 0; i < nl; i++ {
+			s0 := ls.start[i]
+			for s, c := range ls.cell[s0:ls.reach[i]] {
+				if c >= lo && c < hi {
+					sw[c] += val[s0+s]
+				}
+			}
 		}
-	}
-	for c := range sw {
-		switch {
-		case !m.Active[c]:
-			sw[c] = math.NaN()
-		case ls.vol[c] > 0:
-			sw[c] = sInit + sw[c]/ls.vol[c]
-		default:
-			sw[c] = swi
+		for c := int(lo); c < int(hi); c++ {
+			switch {
+			case !m.Active[c]:
+				sw[c] = math.NaN()
+			case ls.vol[c] > 0:
+				sw[c] = sInit + sw[c]/ls.vol[c]
+			default:
+				sw[c] = swi
+			}
 		}
-	}
+	})
 	return sw
+}
+
+// forCellRanges calls fn on contiguous ranges of the cells [0, n), one per
+// worker (0 = GOMAXPROCS), in parallel. A function that adds segment
+// values to the cells of its range, taking the segments in line order,
+// makes every cell's sum in the same order whatever the number of ranges.
+func forCellRanges(n, workers int, fn func(lo, hi int32)) {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = max(1, min(workers, n/4096))
+	if workers == 1 {
+		fn(0, int32(n))
+		return
+	}
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Go(func() { fn(int32(w*n/workers), int32((w+1)*n/workers)) })
+	}
+	wg.Wait()
 }
 
 // lineBlocks is the fixed number of blocks the lines are cut into for
