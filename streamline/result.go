@@ -278,12 +278,7 @@ func (t *tracer) line(sd seed, up, down *half) (Line, lineMeta) {
 		l.TotalTau += v
 	}
 	if t.paths {
-		l.Path = make([][2]float64, 0, len(up.path)+len(down.path))
-		for i := len(up.path) - 1; i >= 0; i-- {
-			l.Path = append(l.Path, up.path[i])
-		}
-		l.Path = append(l.Path, down.path...)
-		l.Path = thin(l.Path, t.maxPath)
+		l.Path = joinThin(up.path, down.path, t.maxPath)
 	}
 	return l, m
 }
@@ -291,16 +286,30 @@ func (t *tracer) line(sd seed, up, down *half) (Line, lineMeta) {
 // wellCell returns the cell of well w.
 func (t *tracer) wellCell(w int) int32 { return t.cellOf[w] }
 
-// thin keeps at most n points of p, evenly spaced in index with both ends
-// kept; n <= 1 keeps all. The result is a fresh slice sized to fit.
-func thin(p [][2]float64, n int) [][2]float64 {
-	if n <= 1 || len(p) <= n {
-		return p
+// joinThin returns the polyline reverse(up) + down thinned to at most n
+// points, evenly spaced in index with both ends kept (n <= 1 keeps all), as
+// a fresh slice sized to fit, without building the joined polyline first.
+func joinThin(up, down [][2]float64, n int) [][2]float64 {
+	m := len(up) + len(down)
+	at := func(k int) [2]float64 {
+		if k < len(up) {
+			return up[len(up)-1-k]
+		}
+		return down[k-len(up)]
+	}
+	if n <= 1 || m <= n {
+		n = m
 	}
 	out := make([][2]float64, n)
-	last := len(p) - 1
+	if n == m {
+		for k := range out {
+			out[k] = at(k)
+		}
+		return out
+	}
+	last := m - 1
 	for i := range out {
-		out[i] = p[(i*last)/(n-1)]
+		out[i] = at((i * last) / (n - 1))
 	}
 	return out
 }
