@@ -389,6 +389,9 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 	return err
 }
 
+// bandBufs recycles the text buffers of writeBands between calls.
+var bandBufs sync.Pool
+
 // writeBands formats items [0, n) in bands of per items on up to
 // GOMAXPROCS goroutines, a window of bands at a time, and writes the bands
 // to w in order: the bytes do not depend on the number of goroutines.
@@ -397,6 +400,18 @@ func writeBands(w io.Writer, n, per int, format func(lo, hi int, buf []byte) []b
 	workers := min(runtime.GOMAXPROCS(0), nb)
 	window := max(1, 4*workers)
 	bufs := make([][]byte, window)
+	for i := range bufs {
+		if b, ok := bandBufs.Get().(*[]byte); ok {
+			bufs[i] = *b
+		}
+	}
+	defer func() {
+		for i := range bufs {
+			if cap(bufs[i]) > 0 {
+				bandBufs.Put(&bufs[i])
+			}
+		}
+	}()
 	for lo := 0; lo < nb; lo += window {
 		hi := min(lo+window, nb)
 		var next atomic.Int64

@@ -771,6 +771,10 @@ func WriteASCIIRasterDigits(w io.Writer, g Grid, values []float64, active []bool
 	return orderedBands(w, nb, format)
 }
 
+// bandBufs recycles the text buffers of orderedBands between calls (a run
+// writes many rasters).
+var bandBufs sync.Pool
+
 // orderedBands formats bands 0..nb-1 on up to GOMAXPROCS goroutines, a
 // window of bands at a time, and writes them to w in order. The first
 // error in band order is returned.
@@ -778,6 +782,18 @@ func orderedBands(w io.Writer, nb int, format func(band int, buf []byte) ([]byte
 	workers := min(runtime.GOMAXPROCS(0), nb)
 	window := max(1, 4*workers)
 	bufs := make([][]byte, window)
+	for i := range bufs {
+		if b, ok := bandBufs.Get().(*[]byte); ok {
+			bufs[i] = *b
+		}
+	}
+	defer func() {
+		for i := range bufs {
+			if cap(bufs[i]) > 0 {
+				bandBufs.Put(&bufs[i])
+			}
+		}
+	}()
 	errs := make([]error, window)
 	for lo := 0; lo < nb; lo += window {
 		hi := min(lo+window, nb)
