@@ -324,11 +324,20 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 
 // WriteSummary writes summary.json; call it last.
 func (r *Result) WriteSummary(d *outdir.Dir) error {
-	b, err := json.MarshalIndent(r.Summary(), "", "  ")
+	b, err := r.SummaryJSON()
 	if err != nil {
 		return err
 	}
-	return d.Bytes("summary.json", append(b, '\n'))
+	return d.Bytes("summary.json", b)
+}
+
+// SummaryJSON returns the content of summary.json.
+func (r *Result) SummaryJSON() ([]byte, error) {
+	b, err := json.MarshalIndent(r.Summary(), "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(b, '\n'), nil
 }
 
 func (r *Result) writeGeoJSON(w io.Writer) error {

@@ -103,6 +103,12 @@ func ReadSummary(dir string) (*Summary, error) {
 	if err != nil {
 		return nil, fmt.Errorf("render: %w", err)
 	}
+	return ParseSummary(path, b)
+}
+
+// ParseSummary parses and checks the content of a summary.json; path names
+// it in messages.
+func ParseSummary(path string, b []byte) (*Summary, error) {
 	var s Summary
 	if err := json.Unmarshal(b, &s); err != nil {
 		return nil, fmt.Errorf("render: %s: %w", path, err)

@@ -192,3 +192,30 @@ func TestDeterministicOutputs(t *testing.T) {
 		}
 	}
 }
+
+// TestSummaryWrittenLast: summary.json marks a finished run, so it must be
+// the last file the run writes (pictures included).
+func TestSummaryWrittenLast(t *testing.T) {
+	dir := t.TempDir()
+	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--size", "640x360"); code != 0 {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	st, err := os.Stat(filepath.Join(dir, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	filepath.WalkDir(dir, func(p string, d os.DirEntry, err error) error {
+		if err != nil || d.IsDir() || filepath.Base(p) == "summary.json" || filepath.Base(p) == ".floodtrace-files" {
+			return nil
+		}
+		n++
+		if fi, err := d.Info(); err == nil && fi.ModTime().After(st.ModTime()) {
+			t.Errorf("%s was written after summary.json", p)
+		}
+		return nil
+	})
+	if n < 20 {
+		t.Errorf("only %d files besides summary.json", n)
+	}
+}

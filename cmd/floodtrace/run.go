@@ -119,10 +119,11 @@ func runRun(args []string) error {
 	if err := res.WriteData(d); err != nil {
 		return err
 	}
-	// The pictures and the report read summary.json; write a provisional
-	// copy first and the final one last.
-	if err := res.WriteSummary(d); err != nil {
-		return err
+	// The pictures and the report take the summary in memory: summary.json
+	// is written last, so a folder without it is an unfinished run.
+	summary, err := res.SummaryJSON()
+	if err != nil {
+		return internalError{err}
 	}
 	if !runFlags.noPictures && runFlags.pictures != "none" {
 		if runFlags.pictures == "minimal" {
@@ -130,7 +131,7 @@ func runRun(args []string) error {
 		} else {
 			logf("drawing maps, charts and the report")
 		}
-		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal"})
+		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal", Summary: summary})
 		if err != nil {
 			return fmt.Errorf("drawing pictures: %w", err)
 		}
@@ -139,7 +140,7 @@ func runRun(args []string) error {
 			logf("note: %s", n)
 		}
 	}
-	if err := res.WriteSummary(d); err != nil {
+	if err := d.Bytes("summary.json", summary); err != nil {
 		return err
 	}
 	if err := d.Close(); err != nil {
