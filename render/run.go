@@ -2,16 +2,18 @@ package render
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
 	"image"
 	"image/png"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
+
+	"floodtrace/internal/outdir"
 )
 
 // Options controls Run. The zero value draws 1920x1080 maps and PNG
@@ -558,26 +560,9 @@ func (r *run) pressureMap() error {
 }
 
 // writeFileAtomic writes data under a temporary name in the target folder
-// and renames it into place.
+// and renames it into place (internal/outdir.WriteFile).
 func writeFileAtomic(path string, data []byte) error {
-	dir := filepath.Dir(path)
-	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return fmt.Errorf("render: %w", err)
-	}
-	tmp := f.Name()
-	_, werr := f.Write(data)
-	cerr := f.Close()
-	if err := errors.Join(werr, cerr); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("render: writing %s: %w", path, err)
-	}
-	if err := os.Chmod(tmp, 0o644); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("render: %w", err)
-	}
-	if err := os.Rename(tmp, path); err != nil {
-		os.Remove(tmp)
+	if err := outdir.WriteFile(path, func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
 		return fmt.Errorf("render: %w", err)
 	}
 	return nil
