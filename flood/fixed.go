@@ -27,8 +27,7 @@ type lineSet struct {
 	uncovered int       // flowing cells crossed by no streamline
 	pv        []float64
 	vol       []float64 // sum of flux*tau per cell (the cell pore volume after rescaling)
-	segVal    []float64 // scratch: one value per segment
-	reach     []int     // scratch: per line, the end of the segments a front has reached
+	bounds    []int32   // cell ranges of cellSaturation (see cellBounds)
 }
 
 func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSet {
@@ -91,44 +90,23 @@ func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSe
 // is swi, so a cell's saturation is swi plus the flux-weighted excess
 // q*(integral of S - swi*tau) of the segments the front has reached: only
 // those are evaluated (a binary search per line finds them, time of flight
-// growing along a line). The excess is evaluated in parallel over fixed
-// blocks of lines and added to cells in line order, so the result does not
-// depend on the number of workers.
+// growing along a line). The cells are cut into contiguous ranges, one per
+// worker, with about as many segments each; every range takes the lines in
+// line order and adds the excess of its own segments, so every cell's sum
+// is made in the same order, and gives the same result, whatever the
+// number of workers.
 func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float64, workers int) []float64 {
 	n := len(ls.pv)
-	nseg := len(ls.cell)
-	if cap(ls.segVal) < nseg {
-		ls.segVal = make([]float64, nseg)
-	}
-	if len(ls.reach) != len(ls.q) {
-		ls.reach = make([]int, len(ls.q))
-	}
-	val := ls.segVal[:nseg]
 	nl := len(ls.q)
 	reach := math.Inf(1) // time of flight the front has reached at t
 	if rs.front > 0 && t > 0 {
 		reach = rs.front * t
 	}
 	sInit := rs.sInit
-	forBlocks(nl, workers, func(lo, hi int) {
-		for i := lo; i < hi; i++ {
-			q := ls.q[i]
-			s0, s1 := ls.start[i], ls.start[i+1]
-			// Segments [s0, end) start behind the front.
-			end := s0 + sort.Search(s1-s0, func(k int) bool { return ls.a[s0+k] > reach })
-			ls.reach[i] = end
-			prev := 0.0 // integral of S over [0, a] at entry of the segment
-			for s := s0; s < end; s++ {
-				a, b := ls.a[s], ls.b[s]
-				cur := rs.cumSat(b, t)
-				val[s] = q * ((cur - prev) - (b-a)*sInit)
-				prev = cur
-			}
-		}
-	})
+	bounds := ls.cellBounds(workers)
 	if ls.vol == nil {
 		ls.vol = make([]float64, n)
-		forCellRanges(n, workers, func(lo, hi int32) {
+		forRanges(bounds, func(lo, hi int32) {
 			for i := range ls.q {
 				q := ls.q[i]
 				for s := ls.start[i]; s < ls.start[i+1]; s++ {
@@ -140,13 +118,31 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 		})
 	}
 	sw := make([]float64, n)
-	forCellRanges(n, workers, func(lo, hi int32) {
+	forRanges(bounds, func(lo, hi int32) {
 		for i := 0; i < nl; i++ {
-			s0 := ls.start[i]
-			for s, c := range ls.cell[s0:ls.reach[i]] {
-				if c >= lo && c < hi {
-					sw[c] += val[s0+s]
+			q := ls.q[i]
+			s0, s1 := ls.start[i], ls.start[i+1]
+			// Segments [s0, end) start behind the front (all of them, once
+			// the front has passed the line's last entry).
+			end := s1
+			if s1 > s0 && ls.a[s1-1] > reach {
+				end = s0 + sort.Search(s1-s0, func(k int) bool { return ls.a[s0+k] > reach })
+			}
+			prev, last := 0.0, s0-1 // integral of S over [0, a] at entry of segment last+1
+			for s := s0; s < end; s++ {
+				c := ls.cell[s]
+				if c < lo || c >= hi {
+					continue
 				}
+				a, b := ls.a[s], ls.b[s]
+				if last != s-1 {
+					// Entering the range: a is the exit of the segment before,
+					// so this is the value that segment would have passed on.
+					prev = rs.cumSat(a, t)
+				}
+				cur := rs.cumSat(b, t)
+				sw[c] += q * ((cur - prev) - (b-a)*sInit)
+				prev, last = cur, s
 			}
 		}
 		for c := int(lo); c < int(hi); c++ {
@@ -161,6 +157,53 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 		}
 	})
 	return sw
+}
+
+// cellBounds cuts the cells into contiguous ranges, one per worker (0 =
+// GOMAXPROCS), holding about as many segments each. The cut only balances
+// the work: sums over a range's cells do not depend on it.
+func (ls *lineSet) cellBounds(workers int) []int32 {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	n := len(ls.pv)
+	workers = max(1, min(workers, n/4096))
+	if len(ls.bounds) == workers+1 {
+		return ls.bounds
+	}
+	cnt := make([]int32, n)
+	for _, c := range ls.cell {
+		cnt[c]++
+	}
+	b := make([]int32, workers+1)
+	b[workers] = int32(n)
+	total, acc, r := len(ls.cell), 0, 1
+	for c := 0; c < n && r < workers; c++ {
+		acc += int(cnt[c])
+		for r < workers && acc >= r*total/workers {
+			b[r] = int32(c + 1)
+			r++
+		}
+	}
+	for ; r < workers; r++ {
+		b[r] = int32(n)
+	}
+	ls.bounds = b
+	return b
+}
+
+// forRanges calls fn(bounds[r], bounds[r+1]) for every range r, in
+// parallel.
+func forRanges(bounds []int32, fn func(lo, hi int32)) {
+	if len(bounds) == 2 {
+		fn(bounds[0], bounds[1])
+		return
+	}
+	var wg sync.WaitGroup
+	for r := 0; r+1 < len(bounds); r++ {
+		wg.Go(func() { fn(bounds[r], bounds[r+1]) })
+	}
+	wg.Wait()
 }
 
 // forCellRanges calls fn on contiguous ranges of the cells [0, n), one per
