@@ -402,48 +402,64 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 var bandBufs sync.Pool
 
 // writeBands formats items [0, n) in bands of per items on up to
-// GOMAXPROCS goroutines, a window of bands at a time, and writes the bands
-// to w in order: the bytes do not depend on the number of goroutines.
+// GOMAXPROCS goroutines and writes the bands to w in order as they come,
+// so that formatting goes on while earlier bands are written: the bytes do
+// not depend on the number of goroutines. At most a few bands per
+// goroutine are held at once.
 func writeBands(w io.Writer, n, per int, format func(lo, hi int, buf []byte) []byte) error {
 	nb := (n + per - 1) / per
+	if nb == 0 {
+		return nil
+	}
 	workers := min(runtime.GOMAXPROCS(0), nb)
-	window := max(1, 4*workers)
-	bufs := make([][]byte, window)
-	for i := range bufs {
-		if b, ok := bandBufs.Get().(*[]byte); ok {
-			bufs[i] = *b
+	nbuf := min(nb, 4*workers)
+	free := make(chan *[]byte, nbuf)
+	for range nbuf {
+		b, ok := bandBufs.Get().(*[]byte)
+		if !ok {
+			b = new([]byte)
 		}
+		free <- b
 	}
-	defer func() {
-		for i := range bufs {
-			if cap(bufs[i]) > 0 {
-				bandBufs.Put(&bufs[i])
-			}
-		}
-	}()
-	for lo := 0; lo < nb; lo += window {
-		hi := min(lo+window, nb)
-		var next atomic.Int64
-		var wg sync.WaitGroup
-		for range min(workers, hi-lo) {
-			wg.Go(func() {
-				for {
-					b := lo + int(next.Add(1)) - 1
-					if b >= hi {
-						return
-					}
-					bufs[b-lo] = format(b*per, min((b+1)*per, n), bufs[b-lo][:0])
+	done := make([]chan *[]byte, nb)
+	for i := range done {
+		done[i] = make(chan *[]byte, 1)
+	}
+	var next atomic.Int64
+	var stop atomic.Bool
+	for range workers {
+		go func() {
+			for {
+				buf := <-free // before taking a band: the band in wait always has one
+				b := int(next.Add(1)) - 1
+				if b >= nb {
+					free <- buf
+					return
 				}
-			})
-		}
-		wg.Wait()
-		for b := lo; b < hi; b++ {
-			if _, err := w.Write(bufs[b-lo]); err != nil {
-				return err
+				if !stop.Load() {
+					*buf = format(b*per, min((b+1)*per, n), (*buf)[:0])
+				}
+				done[b] <- buf
+			}
+		}()
+	}
+	var first error
+	for b := range nb {
+		buf := <-done[b]
+		if first == nil {
+			if _, err := w.Write(*buf); err != nil {
+				first = err
+				stop.Store(true)
 			}
 		}
+		free <- buf
 	}
-	return nil
+	for range nbuf {
+		if b := <-free; cap(*b) > 0 {
+			bandBufs.Put(b)
+		}
+	}
+	return first
 }
 
 // appendFixed appends strconv.AppendFloat(buf, v, 'f', dec, 64) for dec

@@ -775,52 +775,72 @@ func WriteASCIIRasterDigits(w io.Writer, g Grid, values []float64, active []bool
 // writes many rasters).
 var bandBufs sync.Pool
 
-// orderedBands formats bands 0..nb-1 on up to GOMAXPROCS goroutines, a
-// window of bands at a time, and writes them to w in order. The first
-// error in band order is returned.
+// orderedBands formats bands 0..nb-1 on up to GOMAXPROCS goroutines and
+// writes them to w in band order as they come, so that formatting goes on
+// while earlier bands are written. At most a few bands per goroutine are
+// held at once. The first error in band order is returned.
 func orderedBands(w io.Writer, nb int, format func(band int, buf []byte) ([]byte, error)) error {
+	if nb <= 0 {
+		return nil
+	}
 	workers := min(runtime.GOMAXPROCS(0), nb)
-	window := max(1, 4*workers)
-	bufs := make([][]byte, window)
-	for i := range bufs {
-		if b, ok := bandBufs.Get().(*[]byte); ok {
-			bufs[i] = *b
+	nbuf := min(nb, 4*workers)
+	free := make(chan *[]byte, nbuf)
+	for range nbuf {
+		b, ok := bandBufs.Get().(*[]byte)
+		if !ok {
+			b = new([]byte)
 		}
+		free <- b
 	}
-	defer func() {
-		for i := range bufs {
-			if cap(bufs[i]) > 0 {
-				bandBufs.Put(&bufs[i])
-			}
-		}
-	}()
-	errs := make([]error, window)
-	for lo := 0; lo < nb; lo += window {
-		hi := min(lo+window, nb)
-		var next atomic.Int64
-		var wg sync.WaitGroup
-		for range min(workers, hi-lo) {
-			wg.Go(func() {
-				for {
-					b := lo + int(next.Add(1)) - 1
-					if b >= hi {
-						return
-					}
-					bufs[b-lo], errs[b-lo] = format(b, bufs[b-lo][:0])
+	type band struct {
+		buf *[]byte
+		err error
+	}
+	done := make([]chan band, nb)
+	for i := range done {
+		done[i] = make(chan band, 1)
+	}
+	var next atomic.Int64
+	var stop atomic.Bool
+	for range workers {
+		go func() {
+			for {
+				buf := <-free // before taking a band: the band in wait always has one
+				b := int(next.Add(1)) - 1
+				if b >= nb {
+					free <- buf
+					return
 				}
-			})
+				var err error
+				if !stop.Load() {
+					*buf, err = format(b, (*buf)[:0])
+				}
+				done[b] <- band{buf, err}
+			}
+		}()
+	}
+	var first error
+	for b := range nb {
+		r := <-done[b]
+		if first == nil && r.err != nil {
+			first = r.err
+			stop.Store(true)
 		}
-		wg.Wait()
-		for b := lo; b < hi; b++ {
-			if errs[b-lo] != nil {
-				return errs[b-lo]
+		if first == nil {
+			if _, err := w.Write(*r.buf); err != nil {
+				first = err
+				stop.Store(true)
 			}
-			if _, err := w.Write(bufs[b-lo]); err != nil {
-				return err
-			}
+		}
+		free <- r.buf
+	}
+	for range nbuf {
+		if b := <-free; cap(*b) > 0 {
+			bandBufs.Put(b)
 		}
 	}
-	return nil
+	return first
 }
 
 // pow10 holds the powers of ten that are exact in float64.
