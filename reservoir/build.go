@@ -58,6 +58,7 @@ type WellError struct {
 	Msg  string
 }
 
+// Error formats the problem as "path:line: well NAME: message".
 func (e *WellError) Error() string {
 	if e.Path != "" {
 		return e.Path + ":" + strconv.Itoa(e.Line) + ": well " + e.Well + ": " + e.Msg

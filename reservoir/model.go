@@ -93,8 +93,10 @@ func (g Grid) Locate(x, y float64) (i, j int, ok bool) {
 	return i, j, true
 }
 
-// Width and Height return the extent of the grid in map units.
-func (g Grid) Width() float64  { return float64(g.NX) * g.DX }
+// Width returns the east-west extent of the grid in map units.
+func (g Grid) Width() float64 { return float64(g.NX) * g.DX }
+
+// Height returns the north-south extent of the grid in map units.
 func (g Grid) Height() float64 { return float64(g.NY) * g.DY }
 
 // XFace returns the index of the x-face west of cell (i, j); x-faces are
@@ -107,9 +109,10 @@ func (g Grid) XFace(i, j int) int { return j*(g.NX+1) + i }
 // YFace(i, j+1).
 func (g Grid) YFace(i, j int) int { return j*g.NX + i }
 
-// NXFaces and NYFaces return the number of x-faces, (NX+1)*NY, and y-faces,
-// NX*(NY+1).
+// NXFaces returns the number of x-faces, (NX+1)*NY.
 func (g Grid) NXFaces() int { return (g.NX + 1) * g.NY }
+
+// NYFaces returns the number of y-faces, NX*(NY+1).
 func (g Grid) NYFaces() int { return g.NX * (g.NY + 1) }
 
 // WellType tells injectors from producers.
