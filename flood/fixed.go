@@ -123,10 +123,12 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 			q := ls.q[i]
 			s0, s1 := ls.start[i], ls.start[i+1]
 			// Segments [s0, end) start behind the front (all of them, once
-			// the front has passed the line's last entry).
+			// the front has passed the line's last entry). The entry of
+			// segment s > s0 is the exit of segment s-1 (a[s] == b[s-1]
+			// exactly): reading b alone halves the memory traffic.
 			end := s1
-			if s1 > s0 && ls.a[s1-1] > reach {
-				end = s0 + sort.Search(s1-s0, func(k int) bool { return ls.a[s0+k] > reach })
+			if s1-s0 > 1 && ls.b[s1-2] > reach {
+				end = s0 + 1 + sort.Search(s1-s0-1, func(k int) bool { return ls.b[s0+k] > reach })
 			}
 			prev, last := 0.0, s0-1 // integral of S over [0, a] at entry of segment last+1
 			for s := s0; s < end; s++ {
@@ -134,7 +136,10 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 				if c < lo || c >= hi {
 					continue
 				}
-				a, b := ls.a[s], ls.b[s]
+				a, b := 0.0, ls.b[s]
+				if s > s0 {
+					a = ls.b[s-1]
+				}
 				if last != s-1 {
 					// Entering the range: a is the exit of the segment before,
 					// so this is the value that segment would have passed on.
