@@ -75,8 +75,12 @@ func newMapCanvas(s Scene, w, h int) (*mapCanvas, error) {
 		return nil, err
 	}
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
-	for i := 0; i < len(img.Pix); i += 4 {
-		img.Pix[i], img.Pix[i+1], img.Pix[i+2], img.Pix[i+3] = 255, 255, 255, 255
+	// Opaque white: the bytes are all 255; fill by doubling copies.
+	if len(img.Pix) > 0 {
+		img.Pix[0] = 255
+		for n := 1; n < len(img.Pix); n *= 2 {
+			copy(img.Pix[n:], img.Pix[:n])
+		}
 	}
 	c := &mapCanvas{img: img, dc: gg.NewContextForRGBA(img), l: l, f: newFaces(), s: s}
 	return c, nil
