@@ -125,7 +125,7 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 			// Segments [s0, end) start behind the front (all of them, once
 			// the front has passed the line's last entry). The entry of
 			// segment s > s0 is the exit of segment s-1 (a[s] == b[s-1]
-			// exactly): reading b alone halves the memory traffic.
+			// exactly): reading b alone cuts the memory traffic by a third.
 			end := s1
 			if s1-s0 > 1 && ls.b[s1-2] > reach {
 				end = s0 + 1 + sort.Search(s1-s0-1, func(k int) bool { return ls.b[s0+k] > reach })
