@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"sort"
 
 	"floodtrace/pressure"
@@ -174,6 +175,12 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
+	if m.Grid.N() >= largeGrid {
+		// The solver's multigrid hierarchy (hundreds of megabytes on a
+		// million cells) is garbage now: collect it so tracing reuses that
+		// memory instead of touching new pages (docs/PERFORMANCE.md).
+		runtime.GC()
+	}
 	r.Pressure = sol
 	r.Solves, r.Iterations, r.RelResidual = 1, sol.Iterations, sol.RelResidual
 	r.Warnings = append(r.Warnings, sol.Warnings...)
@@ -222,6 +229,10 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	r.fixedTransport(m, sol, lines, newBLTable(sol1d, ff), s)
 	return r, nil
 }
+
+// largeGrid is the cell count from which a run collects garbage between
+// stages to keep its peak memory down.
+const largeGrid = 250_000
 
 // MaxPathPoints is the most points kept per streamline polyline, for the
 // pictures and streamlines.geojson.
