@@ -219,3 +219,23 @@ func TestSummaryWrittenLast(t *testing.T) {
 		t.Errorf("only %d files besides summary.json", n)
 	}
 }
+
+func TestFramesFlag(t *testing.T) {
+	dir := t.TempDir()
+	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--no-pictures", "--frames", "0"); code != 0 {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "frames")); err == nil {
+		t.Error("--frames 0 wrote animation frames")
+	}
+	dir = t.TempDir()
+	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--no-pictures", "--frames", "5"); code != 0 {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	if ents, _ := os.ReadDir(filepath.Join(dir, "frames")); len(ents) != 5 {
+		t.Errorf("--frames 5 wrote %d frames", len(ents))
+	}
+	if code, _, _ := run(t, "run", demo, "--out", t.TempDir(), "--frames", "-3"); code != exitUsage {
+		t.Errorf("--frames -3: exit %d, want 2", code)
+	}
+}

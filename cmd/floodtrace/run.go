@@ -24,6 +24,7 @@ var runFlags struct {
 	format      string
 	noPictures  bool
 	pictures    string
+	frames      int
 	quiet       bool
 	engine      string
 	updates     int
@@ -62,6 +63,9 @@ Examples:
 			fs.StringVar(&runFlags.size, "size", "1920x1080", "picture size WxH")
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
 			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "write data files only")
+			fs.IntVar(&runFlags.frames, "frames", -1, "saturation maps kept for the animation: auto is up to 40, fewer on very large grids; 0 = none")
+			fs.Lookup("frames").DefValue = "auto"
+
 			// --pictures minimal draws one map: the saturation at the last
 			// snapshot (maps/saturation_<day>.png), without the other maps,
 			// the charts, the animation or report.html. The data files are
@@ -83,6 +87,9 @@ func runRun(args []string) error {
 	}
 	if runFlags.format != "png" && runFlags.format != "svg" {
 		return usageError{fmt.Sprintf("--format must be png or svg, not %q", runFlags.format)}
+	}
+	if runFlags.frames < -1 || runFlags.frames > 1000 {
+		return usageError{"--frames must be between 0 and 1000"}
 	}
 	if runFlags.pictures != "all" && runFlags.pictures != "minimal" && runFlags.pictures != "none" {
 		return usageError{fmt.Sprintf("--pictures must be all, minimal or none, not %q", runFlags.pictures)}
@@ -111,7 +118,14 @@ func runRun(args []string) error {
 	if err != nil {
 		return err
 	}
-	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: runFlags.engine})
+	frames := 0 // flood's default
+	switch {
+	case runFlags.frames == 0:
+		frames = -1 // none
+	case runFlags.frames > 0:
+		frames = runFlags.frames
+	}
+	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: runFlags.engine, Frames: frames})
 	if err != nil {
 		return err
 	}
