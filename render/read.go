@@ -417,7 +417,13 @@ func ReadTable(path string) (*Table, error) {
 		return nil, fmt.Errorf("render: %w", err)
 	}
 	defer f.Close()
-	r := csv.NewReader(f)
+	return parseTable(path, f)
+}
+
+// parseTable reads CSV records with a header line from in; path names the
+// file in messages.
+func parseTable(path string, in io.Reader) (*Table, error) {
+	r := csv.NewReader(in)
 	r.TrimLeadingSpace = true
 	recs, err := r.ReadAll()
 	if err != nil {
@@ -496,6 +502,12 @@ func ReadStreamlines(path string) ([]Polyline, error) {
 	if err != nil {
 		return nil, fmt.Errorf("render: %w", err)
 	}
+	return parseStreamlines(path, b)
+}
+
+// parseStreamlines parses the content of streamlines.geojson; path names
+// the file in messages.
+func parseStreamlines(path string, b []byte) ([]Polyline, error) {
 	var fc struct {
 		Type     string `json:"type"`
 		Features []struct {
