@@ -19,10 +19,10 @@ func channel(t *testing.T, nx int, a float64) *reservoir.Model {
 	m := reservoir.NewUniform(nx, 1, 10, 10, 100, 0.2, 10)
 	m.Fluids = reservoir.Fluids{WaterViscosity: a, OilViscosity: 1, InitialSw: 0}
 	m.RelPerm = reservoir.Corey{KrwMax: 1, KroMax: 1, Nw: 2, No: 2}
-	if err := m.AddWell("I", reservoir.Injector, 5, 5, reservoir.RateControl, 10); err != nil {
+	if err := m.PlaceWell("I", reservoir.Injector, 5, 5, reservoir.RateControl, 10); err != nil {
 		t.Fatal(err)
 	}
-	if err := m.AddWell("P", reservoir.Producer, float64(nx)*10-5, 5, reservoir.BHPControl, 1000); err != nil {
+	if err := m.PlaceWell("P", reservoir.Producer, float64(nx)*10-5, 5, reservoir.BHPControl, 1000); err != nil {
 		t.Fatal(err)
 	}
 	return m
@@ -105,11 +105,11 @@ func fiveSpot(t *testing.T, n int, rp reservoir.RelPerm, muw, muo float64) *rese
 			t.Fatal(err)
 		}
 	}
-	must(m.AddWell("INJ", reservoir.Injector, L/2, L/2, reservoir.RateControl, 800))
-	must(m.AddWell("P-SW", reservoir.Producer, 10, 10, reservoir.BHPControl, 500))
-	must(m.AddWell("P-SE", reservoir.Producer, L-10, 10, reservoir.BHPControl, 500))
-	must(m.AddWell("P-NW", reservoir.Producer, 10, L-10, reservoir.BHPControl, 500))
-	must(m.AddWell("P-NE", reservoir.Producer, L-10, L-10, reservoir.BHPControl, 500))
+	must(m.PlaceWell("INJ", reservoir.Injector, L/2, L/2, reservoir.RateControl, 800))
+	must(m.PlaceWell("P-SW", reservoir.Producer, 10, 10, reservoir.BHPControl, 500))
+	must(m.PlaceWell("P-SE", reservoir.Producer, L-10, 10, reservoir.BHPControl, 500))
+	must(m.PlaceWell("P-NW", reservoir.Producer, 10, L-10, reservoir.BHPControl, 500))
+	must(m.PlaceWell("P-NE", reservoir.Producer, L-10, L-10, reservoir.BHPControl, 500))
 	m.Run = reservoir.RunSettings{End: 4000, ReportEvery: 40, Streamlines: 2000, Snapshots: []float64{1000, 4000}}
 	return m
 }
@@ -196,7 +196,7 @@ func TestDynamicCurvesDifferBetweenProducers(t *testing.T) {
 	}{{"INJ", reservoir.Injector, 300, 300, reservoir.RateControl, 600},
 		{"NEAR", reservoir.Producer, 100, 300, reservoir.BHPControl, 500},
 		{"FAR", reservoir.Producer, 950, 500, reservoir.BHPControl, 500}} {
-		if err := m.AddWell(w.name, w.t, w.x, w.y, w.c, w.v); err != nil {
+		if err := m.PlaceWell(w.name, w.t, w.x, w.y, w.c, w.v); err != nil {
 			t.Fatal(err)
 		}
 	}

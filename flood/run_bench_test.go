@@ -19,8 +19,8 @@ func benchModel(b *testing.B, n int) *reservoir.Model {
 		b.Fatal(err)
 	}
 	m := reservoir.NewUniform(n, n, 10, 10, 100, 0.2, 10)
-	copy(m.PermX, perm)
-	copy(m.PermY, perm)
+	copy(m.PermEast, perm)
+	copy(m.PermNorth, perm)
 	copy(m.Porosity, poro)
 	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 2, InitialSw: 0.2}
 	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.25, KrwMax: 0.3, KroMax: 0.85, Nw: 2.5, No: 2}
@@ -30,9 +30,9 @@ func benchModel(b *testing.B, n int) *reservoir.Model {
 			b.Fatal(err)
 		}
 	}
-	must(m.AddWell("I", reservoir.Injector, L/2, L/2, reservoir.RateControl, 500))
+	must(m.PlaceWell("I", reservoir.Injector, L/2, L/2, reservoir.RateControl, 500))
 	for i, p := range [][2]float64{{0.1, 0.1}, {0.9, 0.1}, {0.1, 0.9}, {0.9, 0.9}} {
-		must(m.AddWell(string(rune('A'+i)), reservoir.Producer, p[0]*L, p[1]*L, reservoir.BHPControl, 500))
+		must(m.PlaceWell(string(rune('A'+i)), reservoir.Producer, p[0]*L, p[1]*L, reservoir.BHPControl, 500))
 	}
 	pv := m.TotalPoreVolume()
 	end := 1.5 * pv / 500

@@ -19,7 +19,7 @@ func scheduleCase(t *testing.T) *reservoir.Model {
 	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.2, KrwMax: 0.4, KroMax: 0.9, Nw: 2, No: 2}
 	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 2, InitialSw: 0.2}
 	add := func(name string, typ reservoir.WellType, x, y float64, c reservoir.Control, v float64) {
-		if err := m.AddWell(name, typ, x, y, c, v); err != nil {
+		if err := m.PlaceWell(name, typ, x, y, c, v); err != nil {
 			t.Fatal(err)
 		}
 	}

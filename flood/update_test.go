@@ -18,10 +18,10 @@ func blChannel(t testing.TB, n int) *reservoir.Model {
 	m := reservoir.NewUniform(n, 1, 10, 10, 100, 0.2, 10)
 	m.RelPerm = reservoir.Corey{KrwMax: 1, KroMax: 1, Nw: 2, No: 2}
 	m.Fluids = reservoir.Fluids{WaterViscosity: 1, OilViscosity: 1, InitialSw: 0}
-	if err := m.AddWell("I-1", reservoir.Injector, 5, 5, reservoir.RateControl, 10); err != nil {
+	if err := m.PlaceWell("I-1", reservoir.Injector, 5, 5, reservoir.RateControl, 10); err != nil {
 		t.Fatal(err)
 	}
-	if err := m.AddWell("P-1", reservoir.Producer, float64(n)*10-5, 5, reservoir.BHPControl, 1000); err != nil {
+	if err := m.PlaceWell("P-1", reservoir.Producer, float64(n)*10-5, 5, reservoir.BHPControl, 1000); err != nil {
 		t.Fatal(err)
 	}
 	m.Run.Streamlines = 20
@@ -148,8 +148,8 @@ func heteroCase(t testing.TB, n int, seed uint64, krw, muw, kro, muo float64) *r
 	if err != nil {
 		t.Fatal(err)
 	}
-	copy(m.PermX, perm)
-	copy(m.PermY, perm)
+	copy(m.PermEast, perm)
+	copy(m.PermNorth, perm)
 	copy(m.Porosity, poro)
 	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.2, KrwMax: krw, KroMax: kro, Nw: 2, No: 2}
 	m.Fluids = reservoir.Fluids{WaterViscosity: muw, OilViscosity: muo, InitialSw: 0.2}
@@ -164,7 +164,7 @@ func heteroCase(t testing.TB, n int, seed uint64, krw, muw, kro, muo float64) *r
 		if w.typ == reservoir.Injector {
 			c, v = reservoir.RateControl, 200
 		}
-		if err := m.AddWell(w.name, w.typ, w.x, w.y, c, v); err != nil {
+		if err := m.PlaceWell(w.name, w.typ, w.x, w.y, c, v); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -329,7 +329,7 @@ func sameResults(t *testing.T, a, b *Result) {
 func TestUpdateTimes(t *testing.T) {
 	m := reservoir.NewUniform(4, 4, 10, 10, 100, 0.2, 10)
 	m.Run.End = 100
-	if err := m.AddWell("P", reservoir.Producer, 5, 5, reservoir.BHPControl, 100); err != nil {
+	if err := m.PlaceWell("P", reservoir.Producer, 5, 5, reservoir.BHPControl, 100); err != nil {
 		t.Fatal(err)
 	}
 	m.Wells[0].Open = 30

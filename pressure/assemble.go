@@ -133,7 +133,7 @@ func (pb *problem) checkWells(mob []float64) error {
 		if rw == 0 {
 			rw = m.Units.DefaultWellRadius()
 		}
-		wi, err := WellIndex(m.Units.Darcy(), m.PermX[k], m.PermY[k], m.Thickness[k], g.DX, g.DY, rw, wl.Skin)
+		wi, err := WellIndex(m.Units.Darcy(), m.PermEast[k], m.PermNorth[k], m.Thickness[k], g.DX, g.DY, rw, wl.Skin)
 		if err != nil {
 			return bad("%s: %v", cellName(g, k), err)
 		}

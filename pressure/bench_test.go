@@ -53,18 +53,18 @@ func logNormalModel(n int, seed uint64) *reservoir.Model {
 	sd := math.Sqrt(v / float64(len(z)))
 	for k := range z {
 		kk := 100 * math.Exp(1.5*(z[k]-mean)/sd)
-		m.PermX[k], m.PermY[k] = kk, kk
+		m.PermEast[k], m.PermNorth[k] = kk, kk
 	}
 	c := n / 2
 	e := n / 10
 	g := m.Grid
 	at := func(i, j int) (float64, float64) { return (float64(i) + 0.5) * g.DX, (float64(j) + 0.5) * g.DY }
 	x, y := at(c, c)
-	_ = m.AddWell("I-1", reservoir.Injector, x, y, reservoir.RateControl, 2000)
+	_ = m.PlaceWell("I-1", reservoir.Injector, x, y, reservoir.RateControl, 2000)
 	m.Wells[0].MaxBHP = 1e6
 	for w, ij := range [][2]int{{e, e}, {n - 1 - e, e}, {e, n - 1 - e}, {n - 1 - e, n - 1 - e}} {
 		x, y := at(ij[0], ij[1])
-		_ = m.AddWell(fmt.Sprintf("P-%d", w+1), reservoir.Producer, x, y, reservoir.BHPControl, 500)
+		_ = m.PlaceWell(fmt.Sprintf("P-%d", w+1), reservoir.Producer, x, y, reservoir.BHPControl, 500)
 	}
 	return m
 }

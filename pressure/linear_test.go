@@ -21,7 +21,7 @@ func mustAddWell(t testing.TB, m *reservoir.Model, name string, typ reservoir.We
 	g := m.Grid
 	x := g.X0 + (float64(i)+0.5)*g.DX
 	y := g.Y0 + (float64(j)+0.5)*g.DY
-	if err := m.AddWell(name, typ, x, y, c, v); err != nil {
+	if err := m.PlaceWell(name, typ, x, y, c, v); err != nil {
 		t.Fatal(err)
 	}
 	return &m.Wells[len(m.Wells)-1]

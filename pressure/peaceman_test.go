@@ -51,8 +51,8 @@ type radialCase struct {
 func (rc radialCase) solve(t *testing.T) (*reservoir.Model, *Solution) {
 	t.Helper()
 	m := reservoir.NewUniform(rc.n, rc.n, rc.dx, rc.dy, rc.kx, 0.2, rc.h)
-	for k := range m.PermY {
-		m.PermY[k] = rc.ky
+	for k := range m.PermNorth {
+		m.PermNorth[k] = rc.ky
 	}
 	c := rc.n / 2
 	p := mustAddWell(t, m, "P", reservoir.Producer, c, c, reservoir.RateControl, rc.q)

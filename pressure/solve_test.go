@@ -18,9 +18,9 @@ import (
 func randomCase(t testing.TB, nx, ny int, seed uint64, allRate bool) (*reservoir.Model, []float64) {
 	r := rand.New(rand.NewPCG(seed, 11))
 	m := reservoir.NewUniform(nx, ny, 30+40*r.Float64(), 30+40*r.Float64(), 100, 0.2, 20)
-	for k := range m.PermX {
-		m.PermX[k] = 100 * math.Exp(r.NormFloat64())
-		m.PermY[k] = m.PermX[k] * (0.3 + 0.7*r.Float64())
+	for k := range m.PermEast {
+		m.PermEast[k] = 100 * math.Exp(r.NormFloat64())
+		m.PermNorth[k] = m.PermEast[k] * (0.3 + 0.7*r.Float64())
 		m.Thickness[k] = 5 + 30*r.Float64()
 	}
 	for f := range m.TransMultX {
@@ -91,19 +91,19 @@ func denseReference(t *testing.T, m *reservoir.Model, mob []float64, gauge int) 
 			k := g.Index(i, j)
 			if i+1 < g.NX { // half-cell k*h*dy/(dx/2), mobility inside
 				l := k + 1
-				link(k, l, mob[k]*m.PermX[k]*m.Thickness[k]*g.DY/(g.DX/2),
-					mob[l]*m.PermX[l]*m.Thickness[l]*g.DY/(g.DX/2), m.TransMultX[g.XFace(i+1, j)])
+				link(k, l, mob[k]*m.PermEast[k]*m.Thickness[k]*g.DY/(g.DX/2),
+					mob[l]*m.PermEast[l]*m.Thickness[l]*g.DY/(g.DX/2), m.TransMultX[g.XFace(i+1, j)])
 			}
 			if j+1 < g.NY {
 				l := k + g.NX
-				link(k, l, mob[k]*m.PermY[k]*m.Thickness[k]*g.DX/(g.DY/2),
-					mob[l]*m.PermY[l]*m.Thickness[l]*g.DX/(g.DY/2), m.TransMultY[g.YFace(i, j+1)])
+				link(k, l, mob[k]*m.PermNorth[k]*m.Thickness[k]*g.DX/(g.DY/2),
+					mob[l]*m.PermNorth[l]*m.Thickness[l]*g.DX/(g.DY/2), m.TransMultY[g.YFace(i, j+1)])
 			}
 		}
 	}
 	for _, w := range m.Wells {
 		k := w.Cell
-		kx, ky := m.PermX[k], m.PermY[k]
+		kx, ky := m.PermEast[k], m.PermNorth[k]
 		// Peaceman (1983) equivalent radius and well index, written out.
 		ro := 0.28 * math.Sqrt(math.Sqrt(ky/kx)*g.DX*g.DX+math.Sqrt(kx/ky)*g.DY*g.DY) /
 			(math.Pow(ky/kx, 0.25) + math.Pow(kx/ky, 0.25))
@@ -589,9 +589,9 @@ func TestBadInput(t *testing.T) {
 		{"nil model", func(in *Input) { in.Model = nil }, "no model"},
 		{"empty grid", func(in *Input) { in.Model.Grid.NX = 0 }, "grid of 0 x 5"},
 		{"bad cell size", func(in *Input) { in.Model.Grid.DY = -1 }, "cell size"},
-		{"short perm", func(in *Input) { in.Model.PermX = in.Model.PermX[:3] }, "PermX has 3 values"},
+		{"short perm", func(in *Input) { in.Model.PermEast = in.Model.PermEast[:3] }, "PermEast has 3 values"},
 		{"short multipliers", func(in *Input) { in.Model.TransMultY = nil }, "TransMultY has 0 values"},
-		{"negative perm", func(in *Input) { in.Model.PermY[7] = -5 }, "cell (i=1, j=1)"},
+		{"negative perm", func(in *Input) { in.Model.PermNorth[7] = -5 }, "cell (i=1, j=1)"},
 		{"NaN thickness", func(in *Input) { in.Model.Thickness[2] = math.NaN() }, "thickness NaN"},
 		{"negative multiplier", func(in *Input) { in.Model.TransMultX[3] = -1 }, "x-face 3"},
 		{"mobility length", func(in *Input) { in.Mobility = make([]float64, 4) }, "Mobility has 4 values"},
@@ -614,7 +614,7 @@ func TestBadInput(t *testing.T) {
 			in.Mobility = uniformMobility(in.Model, 1)
 			in.Mobility[in.Model.Wells[0].Cell] = 0
 		}, "zero total mobility"},
-		{"zero perm at well", func(in *Input) { in.Model.PermX[in.Model.Wells[1].Cell] = 0 }, "positive permeability"},
+		{"zero perm at well", func(in *Input) { in.Model.PermEast[in.Model.Wells[1].Cell] = 0 }, "positive permeability"},
 		{"negative limit", func(in *Input) { in.Model.Wells[0].MaxBHP = -1 }, "BHP limits"},
 	}
 	for _, tc := range cases {

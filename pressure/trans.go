@@ -94,7 +94,7 @@ func checkModel(m *reservoir.Model) error {
 		len  int
 		want int
 	}{
-		{"PermX", len(m.PermX), n}, {"PermY", len(m.PermY), n}, {"Thickness", len(m.Thickness), n},
+		{"PermEast", len(m.PermEast), n}, {"PermNorth", len(m.PermNorth), n}, {"Thickness", len(m.Thickness), n},
 		{"Active", len(m.Active), n}, {"TransMultX", len(m.TransMultX), g.NXFaces()},
 		{"TransMultY", len(m.TransMultY), g.NYFaces()},
 	} {
@@ -106,7 +106,7 @@ func checkModel(m *reservoir.Model) error {
 		if !m.Active[k] {
 			continue
 		}
-		kx, ky, h := m.PermX[k], m.PermY[k], m.Thickness[k]
+		kx, ky, h := m.PermEast[k], m.PermNorth[k], m.Thickness[k]
 		if !(kx >= 0) || !(ky >= 0) || !(h >= 0) || math.IsInf(kx+ky+h, 0) {
 			return fmt.Errorf("pressure: %s: permeability (%g, %g) and thickness %g must be finite and not negative", cellName(g, k), kx, ky, h)
 		}
@@ -169,8 +169,8 @@ func transmissibilities(m *reservoir.Model, mob []float64) (tx, ty []float64) {
 			if !m.Active[w] || !m.Active[e] {
 				continue
 			}
-			t1 := mob[w] * m.PermX[w] * m.Thickness[w] * ax
-			t2 := mob[e] * m.PermX[e] * m.Thickness[e] * ax
+			t1 := mob[w] * m.PermEast[w] * m.Thickness[w] * ax
+			t2 := mob[e] * m.PermEast[e] * m.Thickness[e] * ax
 			if t1 > 0 && t2 > 0 {
 				tx[g.XFace(i, j)] = c * m.TransMultX[g.XFace(i, j)] * t1 * t2 / (t1 + t2)
 			}
@@ -182,8 +182,8 @@ func transmissibilities(m *reservoir.Model, mob []float64) (tx, ty []float64) {
 			if !m.Active[s] || !m.Active[n] {
 				continue
 			}
-			t1 := mob[s] * m.PermY[s] * m.Thickness[s] * ay
-			t2 := mob[n] * m.PermY[n] * m.Thickness[n] * ay
+			t1 := mob[s] * m.PermNorth[s] * m.Thickness[s] * ay
+			t2 := mob[n] * m.PermNorth[n] * m.Thickness[n] * ay
 			if t1 > 0 && t2 > 0 {
 				ty[g.YFace(i, j)] = c * m.TransMultY[g.YFace(i, j)] * t1 * t2 / (t1 + t2)
 			}

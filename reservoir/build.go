@@ -14,8 +14,8 @@ func NewUniform(nx, ny int, dx, dy, perm, poro, h float64) *Model {
 		Title:      "uniform",
 		Units:      Field,
 		Grid:       g,
-		PermX:      fill(n, perm),
-		PermY:      fill(n, perm),
+		PermEast:   fill(n, perm),
+		PermNorth:  fill(n, perm),
 		Porosity:   fill(n, poro),
 		Thickness:  fill(n, h),
 		Active:     make([]bool, n),
@@ -31,10 +31,10 @@ func NewUniform(nx, ny int, dx, dy, perm, poro, h float64) *Model {
 	return m
 }
 
-// AddWell places a well at map point (x, y) with the given control and
+// PlaceWell places a well at map point (x, y) with the given control and
 // appends it to the model. It returns an error if the point is outside the
 // grid. For a rate control, value is the rate; for BHP, the pressure.
-func (m *Model) AddWell(name string, t WellType, x, y float64, c Control, value float64) error {
+func (m *Model) PlaceWell(name string, t WellType, x, y float64, c Control, value float64) error {
 	i, j, ok := m.Grid.Locate(x, y)
 	if !ok {
 		return &WellError{Well: name, Msg: "lies outside the grid"}

@@ -155,16 +155,16 @@ func (d *decoder) loadRock(rc *rawCase) {
 	if !d.errs.ok() {
 		return
 	}
-	m.PermX = arrays["perm"]
+	m.PermEast = arrays["perm"]
 	if py, ok := arrays["perm_y"]; ok {
-		m.PermY = py
+		m.PermNorth = py
 	} else {
-		m.PermY = append([]float64(nil), m.PermX...)
+		m.PermNorth = append([]float64(nil), m.PermEast...)
 	}
 	m.Porosity = arrays["porosity"]
 	m.Thickness = arrays["thickness"]
 	m.Active = active
-	for _, a := range [][]float64{m.PermX, m.PermY, m.Porosity, m.Thickness} {
+	for _, a := range [][]float64{m.PermEast, m.PermNorth, m.Porosity, m.Thickness} {
 		for k := range a {
 			if !active[k] {
 				a[k] = 0
@@ -248,7 +248,7 @@ func peacemanRadius(kx, ky, dx, dy float64) float64 {
 func (d *decoder) checkWellRadii(m *Model) {
 	length, _, _, _, _, _ := m.Units.Labels()
 	for _, w := range m.Wells {
-		ro := peacemanRadius(m.PermX[w.Cell], m.PermY[w.Cell], m.Grid.DX, m.Grid.DY)
+		ro := peacemanRadius(m.PermEast[w.Cell], m.PermNorth[w.Cell], m.Grid.DX, m.Grid.DY)
 		if den := math.Log(ro/w.Radius) + w.Skin; !(den > 0) {
 			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"radius %g %s with skin %g gives ln(ro/rw) + skin = %.3g <= 0 for the Peaceman equivalent radius ro = %.3g %s of %s; use a smaller radius or skin, or larger cells",

@@ -99,7 +99,7 @@ func FuzzLoadCase(f *testing.F) {
 		}
 		g := m.Grid
 		n := g.N()
-		if n <= 0 || n > 4096 || len(m.PermX) != n || len(m.PermY) != n || len(m.Porosity) != n ||
+		if n <= 0 || n > 4096 || len(m.PermEast) != n || len(m.PermNorth) != n || len(m.Porosity) != n ||
 			len(m.Thickness) != n || len(m.Active) != n || len(m.TransMultX) != g.NXFaces() || len(m.TransMultY) != g.NYFaces() {
 			t.Fatalf("inconsistent model arrays for grid %+v", g)
 		}
@@ -111,7 +111,7 @@ func FuzzLoadCase(f *testing.F) {
 			seen[w.Cell] = true
 		}
 		for k := range m.Active {
-			if m.Active[k] && !(m.PermX[k] > 0 && m.PermY[k] > 0 && m.Porosity[k] > 0 && m.Porosity[k] <= 1 && m.Thickness[k] > 0) {
+			if m.Active[k] && !(m.PermEast[k] > 0 && m.PermNorth[k] > 0 && m.Porosity[k] > 0 && m.Porosity[k] <= 1 && m.Thickness[k] > 0) {
 				t.Fatalf("active cell %d with bad properties", k)
 			}
 		}

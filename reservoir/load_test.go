@@ -44,20 +44,20 @@ func TestLoadRasterFieldCase(t *testing.T) {
 				t.Errorf("cell (%d,%d) active = %v", i, j, m.Active[k])
 			}
 			if !m.Active[k] {
-				if m.PermX[k] != 0 || m.Porosity[k] != 0 || m.Thickness[k] != 0 || m.PermY[k] != 0 {
+				if m.PermEast[k] != 0 || m.Porosity[k] != 0 || m.Thickness[k] != 0 || m.PermNorth[k] != 0 {
 					t.Errorf("inactive cell (%d,%d) has non-zero properties", i, j)
 				}
 				continue
 			}
-			if want := float64(100*r + 10*i); m.PermX[k] != want {
-				t.Errorf("perm(%d,%d) = %g, want %g", i, j, m.PermX[k], want)
+			if want := float64(100*r + 10*i); m.PermEast[k] != want {
+				t.Errorf("perm(%d,%d) = %g, want %g", i, j, m.PermEast[k], want)
 			}
 			// poro.csv row r: 0.21 - 0.01*r + 0.01*i.
 			if want := 0.21 - 0.01*float64(r) + 0.01*float64(i); math.Abs(m.Porosity[k]-want) > 1e-12 {
 				t.Errorf("porosity(%d,%d) = %g, want %g", i, j, m.Porosity[k], want)
 			}
-			if m.PermY[k] != 50 || m.Thickness[k] != 20 {
-				t.Errorf("cell (%d,%d): perm_y %g thickness %g", i, j, m.PermY[k], m.Thickness[k])
+			if m.PermNorth[k] != 50 || m.Thickness[k] != 20 {
+				t.Errorf("cell (%d,%d): perm_y %g thickness %g", i, j, m.PermNorth[k], m.Thickness[k])
 			}
 		}
 	}
@@ -146,11 +146,11 @@ func TestLoadMatrixMetricCase(t *testing.T) {
 		r := g.NY - j // file row, 1 = north
 		for i := 0; i < g.NX; i++ {
 			k := g.Index(i, j)
-			if want := float64(100*r + i); m.PermX[k] != want {
-				t.Errorf("perm(%d,%d) = %g, want %g", i, j, m.PermX[k], want)
+			if want := float64(100*r + i); m.PermEast[k] != want {
+				t.Errorf("perm(%d,%d) = %g, want %g", i, j, m.PermEast[k], want)
 			}
-			if want := float64(10*r+i) + 0.5; m.PermY[k] != want {
-				t.Errorf("perm_y(%d,%d) = %g, want %g", i, j, m.PermY[k], want)
+			if want := float64(10*r+i) + 0.5; m.PermNorth[k] != want {
+				t.Errorf("perm_y(%d,%d) = %g, want %g", i, j, m.PermNorth[k], want)
 			}
 			if want := 5 + float64(r-1) + 0.1*float64(i); math.Abs(m.Thickness[k]-want) > 1e-12 {
 				t.Errorf("thickness(%d,%d) = %g, want %g", i, j, m.Thickness[k], want)
@@ -275,7 +275,7 @@ wells:
 	if m.Grid.X0 != 0 || m.Grid.Y0 != 0 {
 		t.Errorf("origin %g %g", m.Grid.X0, m.Grid.Y0)
 	}
-	if !slices.Equal(m.PermY, m.PermX) || &m.PermY[0] == &m.PermX[0] {
+	if !slices.Equal(m.PermNorth, m.PermEast) || &m.PermNorth[0] == &m.PermEast[0] {
 		t.Error("perm_y must default to a copy of perm")
 	}
 	for _, v := range append(m.TransMultX, m.TransMultY...) {

@@ -217,10 +217,12 @@ type Model struct {
 	Units UnitSystem
 	Grid  Grid
 
-	PermX, PermY []float64
-	Porosity     []float64
-	Thickness    []float64
-	Active       []bool
+	// PermEast and PermNorth are the permeabilities along x (east) and
+	// y (north), from rock.perm and rock.perm_y.
+	PermEast, PermNorth []float64
+	Porosity            []float64
+	Thickness           []float64
+	Active              []bool
 
 	// TransMultX and TransMultY scale the transmissibility of x- and
 	// y-faces (faults); see Grid.XFace and Grid.YFace for numbering.

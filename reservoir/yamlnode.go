@@ -75,7 +75,7 @@ func (d *decoder) fail(s *section, n *yaml.Node, format string, a ...any) {
 }
 
 // section checks that n is a mapping whose keys are all in allowed and
-// that the required keys are present. It returns nil (after recording the
+// that every required key is given. It returns nil (after recording the
 // problem) if n is not a mapping.
 func (d *decoder) section(n *yaml.Node, name, well string, allowed, required []string) *section {
 	n = deref(n)

@@ -21,8 +21,8 @@ func benchSpec(b *testing.B) *Spec {
 	if err != nil {
 		b.Fatal(err)
 	}
-	copy(m.PermX, perm)
-	copy(m.PermY, perm)
+	copy(m.PermEast, perm)
+	copy(m.PermNorth, perm)
 	copy(m.Porosity, poro)
 	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 2, InitialSw: 0.2}
 	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.25, KrwMax: 0.35, KroMax: 0.9, Nw: 2.5, No: 2}
@@ -41,7 +41,7 @@ func benchSpec(b *testing.B) *Spec {
 		{"P-3", reservoir.Producer, 600, 2400, reservoir.BHPControl, 800},
 		{"P-4", reservoir.Producer, 2400, 2400, reservoir.BHPControl, 800},
 	} {
-		if err := m.AddWell(w.name, w.t, w.x, w.y, w.c, w.v); err != nil {
+		if err := m.PlaceWell(w.name, w.t, w.x, w.y, w.c, w.v); err != nil {
 			b.Fatal(err)
 		}
 	}

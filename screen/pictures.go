@@ -149,8 +149,8 @@ func ObjectiveMap(p *Plan, rk *Ranking, w, h int) (*image.RGBA, error) {
 	nSkip := len(p.Skipped)
 	scene.Note = fmt.Sprintf("%d nodes ranked, %d skipped · grey: permeability", len(nodes), nSkip)
 	permSc := render.Scale{Label: "Permeability", Unit: "", Log: true, Map: &permGreys}
-	perm := make([]float64, len(b.PermX))
-	for k, v := range b.PermX {
+	perm := make([]float64, len(b.PermEast))
+	for k, v := range b.PermEast {
 		perm[k] = v
 		if !b.Active[k] || !(v > 0) {
 			perm[k] = math.NaN()

@@ -74,7 +74,7 @@ func NewPlan(s *Spec) (*Plan, error) {
 		return nil, errors.New("screen: the spec has no base case")
 	}
 	b := s.Base
-	if len(b.PermX) != b.Grid.N() || len(b.Active) != b.Grid.N() {
+	if len(b.PermEast) != b.Grid.N() || len(b.Active) != b.Grid.N() {
 		return nil, errors.New("screen: the base case's arrays do not match its grid")
 	}
 	for _, r := range s.Realizations {
@@ -237,8 +237,8 @@ func (p *Plan) hash() string {
 	w.str(string(b.Units))
 	w.i(g.NX, g.NY)
 	w.f(g.DX, g.DY, g.X0, g.Y0)
-	w.fs(b.PermX)
-	w.fs(b.PermY)
+	w.fs(b.PermEast)
+	w.fs(b.PermNorth)
 	w.fs(b.Porosity)
 	w.fs(b.Thickness)
 	w.fs(b.TransMultX)

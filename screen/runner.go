@@ -83,16 +83,16 @@ func (p *Plan) Model(ci, ri int) *reservoir.Model {
 	if ri >= 0 && ri < len(p.Spec.Realizations) {
 		px := p.Spec.Realizations[ri].Perm
 		py := px
-		if !slices.Equal(b.PermX, b.PermY) {
+		if !slices.Equal(b.PermEast, b.PermNorth) {
 			// Keep the base case's anisotropy ratio cell by cell.
 			py = make([]float64, len(px))
 			for k := range py {
-				if b.PermX[k] > 0 {
-					py[k] = px[k] * b.PermY[k] / b.PermX[k]
+				if b.PermEast[k] > 0 {
+					py[k] = px[k] * b.PermNorth[k] / b.PermEast[k]
 				}
 			}
 		}
-		m.PermX, m.PermY = px, py
+		m.PermEast, m.PermNorth = px, py
 	}
 	h := p.Horizon
 	r := b.Run

@@ -30,10 +30,10 @@ func smallSpec(t testing.TB) *Spec {
 	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.2, KrwMax: 0.4, KroMax: 0.9, Nw: 2, No: 2}
 	m.Run = reservoir.RunSettings{End: 2000, ReportEvery: 50, Streamlines: 120, PressureUpdates: 1, Snapshots: []float64{2000}}
 	g := m.Grid
-	for k := range m.PermX {
+	for k := range m.PermEast {
 		i, j := g.IJ(k)
 		v := 100 * math.Exp(0.7*math.Sin(0.45*float64(i))*math.Cos(0.3*float64(j)))
-		m.PermX[k], m.PermY[k] = v, v
+		m.PermEast[k], m.PermNorth[k] = v, v
 	}
 	for _, w := range []struct {
 		name string
@@ -46,7 +46,7 @@ func smallSpec(t testing.TB) *Spec {
 		{"P-1", reservoir.Producer, 875, 875, reservoir.BHPControl, 500},
 		{"P-2", reservoir.Producer, 875, 325, reservoir.BHPControl, 500},
 	} {
-		if err := m.AddWell(w.name, w.t, w.x, w.y, w.c, w.v); err != nil {
+		if err := m.PlaceWell(w.name, w.t, w.x, w.y, w.c, w.v); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -299,14 +299,14 @@ func TestStreakRanksBelow(t *testing.T) {
 	m := reservoir.NewUniform(40, 40, 25, 25, 100, 0.2, 20)
 	m.Title = "streak"
 	g := m.Grid
-	for k := range m.PermX {
+	for k := range m.PermEast {
 		if _, j := g.IJ(k); j >= 14 && j <= 16 {
-			m.PermX[k], m.PermY[k] = 3000, 3000
+			m.PermEast[k], m.PermNorth[k] = 3000, 3000
 		}
 	}
 	m.Run = reservoir.RunSettings{End: 1000, ReportEvery: 20, Streamlines: 400, PressureUpdates: 1}
 	// The producer in the streak, cell (15, 15).
-	if err := m.AddWell("P", reservoir.Producer, 387.5, 387.5, reservoir.BHPControl, 500); err != nil {
+	if err := m.PlaceWell("P", reservoir.Producer, 387.5, 387.5, reservoir.BHPControl, 500); err != nil {
 		t.Fatal(err)
 	}
 	s := &Spec{Base: m, Horizon: 900, Objective: Oil,

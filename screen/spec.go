@@ -497,7 +497,7 @@ func checkLayout(base *reservoir.Model, wells []reservoir.Well) string {
 // peacemanCheck refuses a well whose Peaceman (1983) denominator
 // ln(ro/rw) + skin is not positive.
 func peacemanCheck(m *reservoir.Model, w reservoir.Well) string {
-	kx, ky := m.PermX[w.Cell], m.PermY[w.Cell]
+	kx, ky := m.PermEast[w.Cell], m.PermNorth[w.Cell]
 	if !(kx > 0 && ky > 0) {
 		return ""
 	}

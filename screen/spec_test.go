@@ -215,7 +215,7 @@ func TestModelForARun(t *testing.T) {
 	if math.Abs(m.Run.ReportEvery-40) > 1e-12 {
 		t.Errorf("report_every %g, want 40", m.Run.ReportEvery)
 	}
-	if &m.PermX[0] != &s.Realizations[1].Perm[0] || m.PermY[7] != s.Realizations[1].Perm[7] {
+	if &m.PermEast[0] != &s.Realizations[1].Perm[0] || m.PermNorth[7] != s.Realizations[1].Perm[7] {
 		t.Error("the realization does not replace the permeability")
 	}
 	if len(m.Wells) != 3 || len(s.Base.Wells) != 2 {

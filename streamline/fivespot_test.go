@@ -108,11 +108,11 @@ func TestSymmetricAllocation(t *testing.T) {
 		// from each injector.
 		const nx, ny = 40, 31
 		m := reservoir.NewUniform(nx, ny, 30, 30, 100, 0.2, 15)
-		for k := range m.PermX {
+		for k := range m.PermEast {
 			i, j := m.Grid.IJ(k)
 			jm := min(j, ny-1-j)
-			m.PermX[k] = 50 + 10*float64((i*7+jm*3)%11)
-			m.PermY[k] = m.PermX[k]
+			m.PermEast[k] = 50 + 10*float64((i*7+jm*3)%11)
+			m.PermNorth[k] = m.PermEast[k]
 		}
 		addWellAt(t, m, "I-1", reservoir.Injector, 3, 6, reservoir.RateControl, 300)
 		addWellAt(t, m, "I-2", reservoir.Injector, 3, ny-1-6, reservoir.RateControl, 300)

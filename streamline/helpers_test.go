@@ -35,7 +35,7 @@ func addWellAt(tb testing.TB, m *reservoir.Model, name string, typ reservoir.Wel
 	tb.Helper()
 	x := m.Grid.X0 + (float64(i)+0.5)*m.Grid.DX
 	y := m.Grid.Y0 + (float64(j)+0.5)*m.Grid.DY
-	if err := m.AddWell(name, typ, x, y, c, v); err != nil {
+	if err := m.PlaceWell(name, typ, x, y, c, v); err != nil {
 		tb.Fatal(err)
 	}
 }
@@ -105,8 +105,8 @@ func heterogeneous(tb testing.TB, n int, seed uint64) *reservoir.Model {
 	sd := math.Sqrt(v / float64(len(z)))
 	for k := range z {
 		g := (z[k] - mean) / sd
-		m.PermX[k] = 80 * math.Exp(1.2*g)
-		m.PermY[k] = m.PermX[k]
+		m.PermEast[k] = 80 * math.Exp(1.2*g)
+		m.PermNorth[k] = m.PermEast[k]
 		m.Porosity[k] = 0.2 + 0.03*g
 	}
 	step := max(4, n/3)

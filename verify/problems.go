@@ -19,7 +19,7 @@ func solve(m *reservoir.Model) (*pressure.Solution, error) {
 }
 
 func add(m *reservoir.Model, name string, t reservoir.WellType, x, y float64, c reservoir.Control, v float64) {
-	if err := m.AddWell(name, t, x, y, c, v); err != nil {
+	if err := m.PlaceWell(name, t, x, y, c, v); err != nil {
 		panic(err) // the problems place wells inside their own grids
 	}
 }
@@ -89,8 +89,8 @@ func wellRingRadius(sol *pressure.Solution, g reservoir.Grid, ic, jc int, kx, ky
 // BHP producers in the four corner cells, far away.
 func peacemanModel(n int, dx, kx, ky, h, q float64) *reservoir.Model {
 	m := reservoir.NewUniform(n, n, dx, dx, kx, 0.2, h)
-	for k := range m.PermY {
-		m.PermY[k] = ky
+	for k := range m.PermNorth {
+		m.PermNorth[k] = ky
 	}
 	L := float64(n) * dx
 	add(m, "I", reservoir.Injector, L/2, L/2, reservoir.RateControl, q)
@@ -287,8 +287,8 @@ func (TwoChannelLorenz) Run() ([]Check, error) {
 	m := reservoir.NewUniform(nx, 3, 10, 10, 50, 0.2, 10)
 	for i := 0; i < nx; i++ {
 		m.Active[m.Grid.Index(i, 1)] = false
-		m.PermX[m.Grid.Index(i, 2)] *= r
-		m.PermY[m.Grid.Index(i, 2)] *= r
+		m.PermEast[m.Grid.Index(i, 2)] *= r
+		m.PermNorth[m.Grid.Index(i, 2)] *= r
 	}
 	for _, j := range []int{0, 2} {
 		y := float64(j)*10 + 5
@@ -327,8 +327,8 @@ func (EngineAgreement) Run() ([]Check, error) {
 		for i := 0; i < n; i++ {
 			x, y := float64(i)/n, float64(j)/n
 			k := 100 * math.Exp(1.15*math.Sin(2*math.Pi*(x+0.3*y))*math.Cos(math.Pi*(y-0.2*x)))
-			m.PermX[m.Grid.Index(i, j)] = k
-			m.PermY[m.Grid.Index(i, j)] = k
+			m.PermEast[m.Grid.Index(i, j)] = k
+			m.PermNorth[m.Grid.Index(i, j)] = k
 		}
 	}
 	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 1, InitialSw: 0.2}
