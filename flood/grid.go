@@ -94,41 +94,28 @@ func RunGrid(m *reservoir.Model, s Settings, o GridOptions) (*Result, error) {
 }
 
 type gridRun struct {
-	m     *reservoir.Model
-	s     Settings
-	o     GridOptions
-	r     *Result
-	ff    *transport.FracFlow
-	fl    *transport.Flux
-	sched *WellSchedule
-	logf  func(string, ...any)
-	seen  map[string]bool
+	book
+	s    Settings
+	o    GridOptions
+	ff   *transport.FracFlow
+	fl   *transport.Flux
+	logf func(string, ...any)
 
-	workers   int
-	swi, sInj float64
-	pv, sw    []float64
-	sw0       []float64 // saturation at the last pressure solve
-	fw        []float64 // fw of each cell at the step start
-	delta     []float64 // water volume change of each cell over a step
-	src       []float64 // well rate per cell (positive injection)
-	srcW      []float64 // water fraction of the injected fluid per cell
-	mob       []float64
-	wells     []reservoir.Well
-	rowDt     []float64 // per row: largest stable step
-	rowSum    []float64 // per row: partial sums
-	sol       *pressure.Solution
-	partition []int
+	workers int
+	sInj    float64
+	sw0     []float64 // saturation at the last pressure solve
+	fw      []float64 // fw of each cell at the step start
+	delta   []float64 // water volume change of each cell over a step
+	src     []float64 // well rate per cell (positive injection)
+	srcW    []float64 // water fraction of the injected fluid per cell
+	mob     []float64
+	wells   []reservoir.Well
+	rowDt   []float64 // per row: largest stable step
+	rowSum  []float64 // per row: partial sums
+	sol     *pressure.Solution
 
-	prodOf, injOf []int
-	perW, perL    []float64
-	cumW, cumL    []float64
-	rate          []float64
-	prevFw        []float64 // producer water fraction at the previous step start
-	prevT         float64
-	cumInj        float64
-	otherProduced float64 // water leaving through wells that are not producers
-	periodStart   float64
-	nextReport    int
+	prevFw []float64 // producer water fraction at the previous step start
+	prevT  float64
 }
 
 func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error) {
@@ -158,8 +145,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 		return nil, err
 	}
 	_, sor := ff.Endpoints()
-	g := &gridRun{m: m, s: s, o: o, ff: ff, fl: fl, sched: sched, logf: s.Log, seen: map[string]bool{},
-		swi: m.Fluids.InitialSw, sInj: 1 - sor}
+	g := &gridRun{book: newBook(m, sched, "grid"), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
 	if g.logf == nil {
 		g.logf = func(string, ...any) {}
 	}
@@ -170,15 +156,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	if g.workers == 0 {
 		g.workers = runtime.GOMAXPROCS(0)
 	}
-	g.r = &Result{Model: m, Engine: "grid", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
 	return g, nil
-}
-
-func (g *gridRun) warn(msg string) {
-	if !g.seen[msg] {
-		g.seen[msg] = true
-		g.r.Warnings = append(g.r.Warnings, msg)
-	}
 }
 
 // rows runs fn over the grid rows on the workers (static interleaved
@@ -288,28 +266,11 @@ func (g *gridRun) run() error {
 	return nil
 }
 
+// setupWells builds the well lists (book.setupWells) and the grid
+// engine's own per-producer state.
 func (g *gridRun) setupWells(nt int) {
-	m, r := g.m, g.r
-	nw := len(m.Wells)
-	g.prodOf, g.injOf = make([]int, nw), make([]int, nw)
-	for i, w := range m.Wells {
-		g.prodOf[i], g.injOf[i] = -1, -1
-		if g.sched.EverType(i, reservoir.Producer, m.Run.End) {
-			g.prodOf[i] = len(r.Producers)
-			r.Producers = append(r.Producers, Producer{Name: w.Name, Well: i,
-				WaterCut: make([]float64, nt), OilRate: make([]float64, nt), WaterRate: make([]float64, nt),
-				CumOil: make([]float64, nt), CumWater: make([]float64, nt), AvgSw: make([]float64, nt),
-				TracerBreakthrough: math.NaN(), Breakthrough: math.NaN()})
-		}
-		if g.sched.EverType(i, reservoir.Injector, m.Run.End) {
-			g.injOf[i] = len(r.Injectors)
-			r.Injectors = append(r.Injectors, Injector{Name: w.Name, Well: i})
-		}
-	}
-	np := len(r.Producers)
-	g.perW, g.perL = make([]float64, np), make([]float64, np)
-	g.cumW, g.cumL = make([]float64, np), make([]float64, np)
-	g.rate, g.prevFw = make([]float64, np), make([]float64, np)
+	g.book.setupWells(nt)
+	g.prevFw = make([]float64, len(g.r.Producers))
 }
 
 // solve solves the pressure at t with the mobility of the current
@@ -601,48 +562,4 @@ func (g *gridRun) meanChange() float64 {
 		tot += v
 	}
 	return tot / g.r.PoreVolume
-}
-
-func (g *gridRun) atStop(t float64, reports, snaps, frames []float64) {
-	r := g.r
-	if k := g.nextReport; k < len(reports) && t == reports[k] {
-		g.nextReport++
-		r.PVI[k] = g.cumInj / r.PoreVolume
-		span := t - g.periodStart
-		g.periodStart = t
-		for p := range r.Producers {
-			P := &r.Producers[p]
-			g.cumW[p] += g.perW[p]
-			g.cumL[p] += g.perL[p]
-			if g.perL[p] > 0 && span > 0 {
-				P.WaterCut[k] = g.perW[p] / g.perL[p]
-				P.WaterRate[k] = g.perW[p] / span
-				P.OilRate[k] = (g.perL[p] - g.perW[p]) / span
-			}
-			P.CumWater[k] = g.cumW[p]
-			P.CumOil[k] = g.cumL[p] - g.cumW[p]
-			g.perW[p], g.perL[p] = 0, 0
-			P.AvgSw[k] = g.partitionSw(P.Well)
-		}
-	}
-	if slices.Contains(snaps, t) {
-		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: g.cumInj / r.PoreVolume, Sw: g.cellMap()})
-	}
-	if slices.Contains(frames, t) {
-		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: g.cumInj / r.PoreVolume, Sw: g.cellMap()})
-	}
-}
-
-func (g *gridRun) partitionSw(w int) float64 { return partitionSw(g.partition, g.pv, g.sw, w) }
-
-func (g *gridRun) cellMap() []float64 { return cellMap(g.m.Active, g.sw) }
-
-func (g *gridRun) finish() {
-	r := g.r
-	fillField(r)
-	produced := g.otherProduced
-	for p := range r.Producers {
-		produced += g.cumW[p]
-	}
-	r.MassBalanceError = massBalance(g.m.Active, g.pv, g.sw, g.swi, g.cumInj, produced)
 }

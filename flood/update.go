@@ -137,41 +137,28 @@ func UpdateTimes(m *reservoir.Model, sched *WellSchedule) []float64 {
 
 // updateRun is the state of one pressure-update run.
 type updateRun struct {
-	m       *reservoir.Model
+	book
 	s       Settings
 	o       UpdateOptions
-	r       *Result
 	ff      *transport.FracFlow
 	fl      *transport.Flux
 	set     transport.Settings
-	sched   *WellSchedule
 	workers int
 	logf    func(string, ...any)
 
-	pv, sw     []float64
-	swi, sInj  float64
+	sInj       float64
 	sLine      float64 // inlet state of lines from injectors (fw exactly 1)
 	threshold  float64
 	wells      []reservoir.Well // state in force
 	mob        []float64
-	seen       map[string]bool // warnings already given
 	reports    []float64
 	stops      []float64 // report, snapshot and frame times, sorted
 	snapTimes  []float64
 	frameTimes []float64
 
-	// Well bookkeeping.
-	prodOf, injOf  []int     // model well -> producer / injector index, -1
-	perW, perL     []float64 // per producer: water and liquid of the current report period
-	cumW, cumL     []float64 // per producer: cumulative water and liquid
-	cumInj         float64   // cumulative injected water
-	otherProduced  float64   // water leaving through wells that are not producers
-	unsourced      float64   // water entering lines that start at no injector
-	periodStart    float64
-	nextReport     int
-	rate           []float64 // per producer: rate of the solve in force
-	broken         []bool    // per producer: breakthrough found
-	partition      []int     // producer partition of the current trace
+	// Well bookkeeping beyond the book's.
+	unsourced      float64 // water entering lines that start at no injector
+	broken         []bool  // per producer: breakthrough found
 	firstTraceDone bool
 
 	// Streamline transport buffers, reused across updates.
@@ -225,11 +212,9 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		return nil, err
 	}
 	_, sor := ff.Endpoints()
-	u := &updateRun{m: m, s: s, o: o, ff: ff, fl: fl, sched: sched,
+	u := &updateRun{book: newBook(m, sched, "streamline"), s: s, o: o, ff: ff, fl: fl,
 		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
-		swi:  m.Fluids.InitialSw,
 		sInj: 1 - sor,
-		seen: map[string]bool{},
 		logf: s.Log,
 	}
 	if u.logf == nil {
@@ -254,43 +239,14 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	if u.workers == 0 {
 		u.workers = runtime.GOMAXPROCS(0)
 	}
-	u.r = &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
 	return u, nil
 }
 
-func (u *updateRun) warn(msg string) {
-	if !u.seen[msg] {
-		u.seen[msg] = true
-		u.r.Warnings = append(u.r.Warnings, msg)
-	}
-}
-
-// setupWells builds the producer and injector lists: every well that is a
-// producer (injector) at some time of the run.
+// setupWells builds the well lists (book.setupWells) and the update
+// engine's own per-producer state.
 func (u *updateRun) setupWells(nt int) {
-	m, r := u.m, u.r
-	nw := len(m.Wells)
-	u.prodOf = make([]int, nw)
-	u.injOf = make([]int, nw)
-	for i, w := range m.Wells {
-		u.prodOf[i], u.injOf[i] = -1, -1
-		if u.sched.EverType(i, reservoir.Producer, m.Run.End) {
-			u.prodOf[i] = len(r.Producers)
-			r.Producers = append(r.Producers, Producer{Name: w.Name, Well: i,
-				WaterCut: make([]float64, nt), OilRate: make([]float64, nt), WaterRate: make([]float64, nt),
-				CumOil: make([]float64, nt), CumWater: make([]float64, nt), AvgSw: make([]float64, nt),
-				TracerBreakthrough: math.NaN(), Breakthrough: math.NaN()})
-		}
-		if u.sched.EverType(i, reservoir.Injector, m.Run.End) {
-			u.injOf[i] = len(r.Injectors)
-			r.Injectors = append(r.Injectors, Injector{Name: w.Name, Well: i})
-		}
-	}
-	np := len(r.Producers)
-	u.perW, u.perL = make([]float64, np), make([]float64, np)
-	u.cumW, u.cumL = make([]float64, np), make([]float64, np)
-	u.rate = make([]float64, np)
-	u.broken = make([]bool, np)
+	u.book.setupWells(nt)
+	u.broken = make([]bool, len(u.r.Producers))
 }
 
 func (u *updateRun) run() error {
@@ -904,53 +860,13 @@ func (u *updateRun) mapToCells() {
 	}
 }
 
-// atStop records what is due at time t: report values, snapshots, frames.
-func (u *updateRun) atStop(t float64) {
-	r := u.r
-	k := u.nextReport
-	if k < len(u.reports) && t >= u.reports[k]*(1-1e-12) {
-		u.nextReport++
-		r.PVI[k] = u.cumInj / r.PoreVolume
-		span := t - u.periodStart
-		u.periodStart = t
-		for p := range r.Producers {
-			P := &r.Producers[p]
-			u.cumW[p] += u.perW[p]
-			u.cumL[p] += u.perL[p]
-			if u.perL[p] > 0 && span > 0 {
-				P.WaterCut[k] = u.perW[p] / u.perL[p]
-				P.WaterRate[k] = u.perW[p] / span
-				P.OilRate[k] = (u.perL[p] - u.perW[p]) / span
-			}
-			P.CumWater[k] = u.cumW[p]
-			P.CumOil[k] = u.cumL[p] - u.cumW[p]
-			u.perW[p], u.perL[p] = 0, 0
-			P.AvgSw[k] = u.partitionSw(P.Well)
-		}
-	}
-	if slices.Contains(u.snapTimes, t) {
-		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: u.cumInj / r.PoreVolume, Sw: u.cellMap()})
-	}
-	if slices.Contains(u.frameTimes, t) {
-		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: u.cumInj / r.PoreVolume, Sw: u.cellMap()})
-	}
-}
-
-// partitionSw returns the pore-volume weighted saturation of the cells
-// that drain to well w, or NaN when none does.
-func (u *updateRun) partitionSw(w int) float64 { return partitionSw(u.partition, u.pv, u.sw, w) }
-
-func (u *updateRun) cellMap() []float64 { return cellMap(u.m.Active, u.sw) }
+// atStop records what is due at time t (book.atStop).
+func (u *updateRun) atStop(t float64) { u.book.atStop(t, u.reports, u.snapTimes, u.frameTimes) }
 
 // finish fills the field series and the mass balance.
 func (u *updateRun) finish() {
 	r := u.r
-	fillField(r)
-	produced := u.otherProduced
-	for p := range r.Producers {
-		produced += u.cumW[p]
-	}
-	r.MassBalanceError = massBalance(u.m.Active, u.pv, u.sw, u.swi, u.cumInj, produced)
+	u.book.finish()
 	if u.unsourced > 1e-6*u.cumInj && u.cumInj > 0 {
 		u.warn(fmt.Sprintf("%.2g of the injected volume entered streamlines that start at no injector (at the water fraction of their first cell); it shows in the mass balance", u.unsourced/u.cumInj))
 	}

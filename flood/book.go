@@ -1,0 +1,114 @@
+package flood
+
+import (
+	"math"
+	"slices"
+
+	"floodtrace/reservoir"
+)
+
+// book is the bookkeeping the pressure-update and grid engines share: the
+// cell saturations, the producer and injector lists, per-period and
+// cumulative volumes, warnings, and what is recorded at report, snapshot
+// and frame times. Both engines embed it.
+type book struct {
+	m     *reservoir.Model
+	r     *Result
+	sched *WellSchedule
+	seen  map[string]bool // warnings already given
+
+	pv, sw    []float64
+	swi       float64
+	partition []int // producer partition of the current trace
+
+	prodOf, injOf []int     // model well -> producer / injector index, -1
+	perW, perL    []float64 // per producer: water and liquid of the current report period
+	cumW, cumL    []float64 // per producer: cumulative water and liquid
+	rate          []float64 // per producer: rate of the solve in force
+	cumInj        float64   // cumulative injected water
+	otherProduced float64   // water leaving through wells that are not producers
+	periodStart   float64
+	nextReport    int
+}
+
+func newBook(m *reservoir.Model, sched *WellSchedule, engine string) book {
+	return book{m: m, sched: sched, seen: map[string]bool{}, swi: m.Fluids.InitialSw,
+		r: &Result{Model: m, Engine: engine, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}}
+}
+
+// warn adds a warning once.
+func (b *book) warn(msg string) {
+	if !b.seen[msg] {
+		b.seen[msg] = true
+		b.r.Warnings = append(b.r.Warnings, msg)
+	}
+}
+
+// setupWells builds the producer and injector lists: every well that is a
+// producer (injector) at some time of the run, with nt report times.
+func (b *book) setupWells(nt int) {
+	m, r := b.m, b.r
+	nw := len(m.Wells)
+	b.prodOf, b.injOf = make([]int, nw), make([]int, nw)
+	for i, w := range m.Wells {
+		b.prodOf[i], b.injOf[i] = -1, -1
+		if b.sched.EverType(i, reservoir.Producer, m.Run.End) {
+			b.prodOf[i] = len(r.Producers)
+			r.Producers = append(r.Producers, Producer{Name: w.Name, Well: i,
+				WaterCut: make([]float64, nt), OilRate: make([]float64, nt), WaterRate: make([]float64, nt),
+				CumOil: make([]float64, nt), CumWater: make([]float64, nt), AvgSw: make([]float64, nt),
+				TracerBreakthrough: math.NaN(), Breakthrough: math.NaN()})
+		}
+		if b.sched.EverType(i, reservoir.Injector, m.Run.End) {
+			b.injOf[i] = len(r.Injectors)
+			r.Injectors = append(r.Injectors, Injector{Name: w.Name, Well: i})
+		}
+	}
+	np := len(r.Producers)
+	b.perW, b.perL = make([]float64, np), make([]float64, np)
+	b.cumW, b.cumL = make([]float64, np), make([]float64, np)
+	b.rate = make([]float64, np)
+}
+
+// atStop records what is due at time t: the report values (volumes of the
+// period since the last report), snapshots and frames.
+func (b *book) atStop(t float64, reports, snaps, frames []float64) {
+	r := b.r
+	if k := b.nextReport; k < len(reports) && t >= reports[k]*(1-1e-12) {
+		b.nextReport++
+		r.PVI[k] = b.cumInj / r.PoreVolume
+		span := t - b.periodStart
+		b.periodStart = t
+		for p := range r.Producers {
+			P := &r.Producers[p]
+			b.cumW[p] += b.perW[p]
+			b.cumL[p] += b.perL[p]
+			if b.perL[p] > 0 && span > 0 {
+				P.WaterCut[k] = b.perW[p] / b.perL[p]
+				P.WaterRate[k] = b.perW[p] / span
+				P.OilRate[k] = (b.perL[p] - b.perW[p]) / span
+			}
+			P.CumWater[k] = b.cumW[p]
+			P.CumOil[k] = b.cumL[p] - b.cumW[p]
+			b.perW[p], b.perL[p] = 0, 0
+			P.AvgSw[k] = partitionSw(b.partition, b.pv, b.sw, P.Well)
+		}
+	}
+	if slices.Contains(snaps, t) {
+		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: b.cumInj / r.PoreVolume, Sw: cellMap(b.m.Active, b.sw)})
+	}
+	if slices.Contains(frames, t) {
+		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: b.cumInj / r.PoreVolume, Sw: cellMap(b.m.Active, b.sw)})
+	}
+}
+
+// finish fills the field series and the mass balance.
+func (b *book) finish() {
+	r := b.r
+	fillField(r)
+	produced := b.otherProduced
+	for p := range r.Producers {
+		produced += b.cumW[p]
+	}
+	r.MassBalanceError = massBalance(b.m.Active, b.pv, b.sw, b.swi, b.cumInj, produced)
+}
