@@ -5,9 +5,9 @@ import (
 	"sync"
 	"testing"
 
+	"floodtrace/internal/benchcase"
 	"floodtrace/pressure/sparse"
 	"floodtrace/reservoir"
-	"floodtrace/reservoir/synth"
 )
 
 // The Stage benchmarks time each stage of a run on the benchmark pattern
@@ -27,26 +27,9 @@ func stageModel(b *testing.B, n int) *reservoir.Model {
 	if m, ok := stageModels.Load(n); ok {
 		return m.(*reservoir.Model)
 	}
-	dx := 10000 / float64(n)
-	perm, poro, err := synth.Generate(synth.Settings{NX: n, NY: n, DX: dx, DY: dx, RangeMajor: 1500, RangeMinor: 600,
-		Azimuth: 30, LogMean: 4.605170185988092, LogStd: 1.5, Seed: 3})
+	m, err := benchcase.Pattern(n)
 	if err != nil {
 		b.Fatal(err)
-	}
-	m := reservoir.NewUniform(n, n, dx, dx, 100, 0.2, 20)
-	m.PermEast, m.PermNorth, m.Porosity = perm, perm, poro
-	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 2, InitialSw: 0.2}
-	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.25, KrwMax: 0.3, KroMax: 0.85, Nw: 2.5, No: 2}
-	m.Run = reservoir.RunSettings{End: 7300, ReportEvery: 60, Snapshots: []float64{7300}, Streamlines: 5000, PressureUpdates: 1}
-	for i, xy := range [][2]float64{{2500, 2500}, {7500, 2500}, {2500, 7500}, {7500, 7500}} {
-		if err := m.PlaceWell(fmt.Sprintf("I%d", i+1), reservoir.Injector, xy[0], xy[1], reservoir.RateControl, 5000); err != nil {
-			b.Fatal(err)
-		}
-	}
-	for i, xy := range [][2]float64{{500, 500}, {9500, 500}, {500, 9500}, {9500, 9500}, {5000, 5000}} {
-		if err := m.PlaceWell(fmt.Sprintf("P%d", i+1), reservoir.Producer, xy[0], xy[1], reservoir.BHPControl, 500); err != nil {
-			b.Fatal(err)
-		}
 	}
 	stageModels.Store(n, m)
 	return m
