@@ -7,10 +7,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
-	"runtime"
 	"strconv"
-	"sync"
-	"sync/atomic"
 
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
@@ -398,68 +395,14 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 	return err
 }
 
-// bandBufs recycles the text buffers of writeBands between calls.
-var bandBufs sync.Pool
-
-// writeBands formats items [0, n) in bands of per items on up to
-// GOMAXPROCS goroutines and writes the bands to w in order as they come,
-// so that formatting goes on while earlier bands are written: the bytes do
-// not depend on the number of goroutines. At most a few bands per
-// goroutine are held at once.
+// writeBands formats items [0, n) in bands of per items in parallel and
+// writes the bands to w in order (outdir.WriteBands): the bytes do not
+// depend on the number of goroutines.
 func writeBands(w io.Writer, n, per int, format func(lo, hi int, buf []byte) []byte) error {
 	nb := (n + per - 1) / per
-	if nb == 0 {
-		return nil
-	}
-	workers := min(runtime.GOMAXPROCS(0), nb)
-	nbuf := min(nb, 4*workers)
-	free := make(chan *[]byte, nbuf)
-	for range nbuf {
-		b, ok := bandBufs.Get().(*[]byte)
-		if !ok {
-			b = new([]byte)
-		}
-		free <- b
-	}
-	done := make([]chan *[]byte, nb)
-	for i := range done {
-		done[i] = make(chan *[]byte, 1)
-	}
-	var next atomic.Int64
-	var stop atomic.Bool
-	for range workers {
-		go func() {
-			for {
-				buf := <-free // before taking a band: the band in wait always has one
-				b := int(next.Add(1)) - 1
-				if b >= nb {
-					free <- buf
-					return
-				}
-				if !stop.Load() {
-					*buf = format(b*per, min((b+1)*per, n), (*buf)[:0])
-				}
-				done[b] <- buf
-			}
-		}()
-	}
-	var first error
-	for b := range nb {
-		buf := <-done[b]
-		if first == nil {
-			if _, err := w.Write(*buf); err != nil {
-				first = err
-				stop.Store(true)
-			}
-		}
-		free <- buf
-	}
-	for range nbuf {
-		if b := <-free; cap(*b) > 0 {
-			bandBufs.Put(b)
-		}
-	}
-	return first
+	return outdir.WriteBands(w, nb, func(b int, buf []byte) ([]byte, error) {
+		return format(b*per, min((b+1)*per, n), buf), nil
+	})
 }
 
 // appendFixed appends strconv.AppendFloat(buf, v, 'f', dec, 64) for dec
