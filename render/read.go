@@ -1,8 +1,6 @@
 package render
 
 import (
-	"bufio"
-	"bytes"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
@@ -11,13 +9,9 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
-	"sync"
-	"sync/atomic"
-	"unsafe"
 
 	"floodtrace/reservoir"
 )
@@ -137,270 +131,32 @@ func (s *Summary) ResGrid() reservoir.Grid {
 	return reservoir.Grid{NX: s.Grid.NX, NY: s.Grid.NY, DX: s.Grid.DX, DY: s.Grid.DY, X0: s.Grid.X0, Y0: s.Grid.Y0}
 }
 
-// ReadASC reads a GIS ASCII raster (header ncols, nrows, xllcorner or
-// xllcenter, yllcorner or yllcenter, cellsize or dx/dy, optional
-// NODATA_value; then nrows rows from north to south) into cell order of
-// the grid g (k = j*NX+i, j counting north). NODATA becomes NaN. The
-// header must agree with g.
+// ReadASC reads a GIS ASCII raster into cell order of the grid g (k =
+// j*NX+i, j counting north) with the reader of the case maps
+// (reservoir.ReadMap); NODATA becomes NaN. The header must agree with g.
 func ReadASC(path string, g reservoir.Grid) ([]float64, error) {
-	data, err := os.ReadFile(path)
+	v, _, err := reservoir.ReadMap(path, &g)
 	if err != nil {
 		return nil, fmt.Errorf("render: %w", err)
-	}
-	v, err := parseASCData(data, g)
-	if err != nil {
-		return nil, fmt.Errorf("render: %s: %w", path, err)
 	}
 	return v, nil
 }
 
-// parseASC reads a raster. Files of ASCII text (all that floodtrace
-// writes) take a fast path that parses the values in parallel; others are
-// read word by word (parseASCWords). Both give the same values and errors.
+// parseASC is ReadASC on a reader (reservoir.ReadASCIIRaster), with the
+// raster's size and cell size checked against g.
 func parseASC(r io.Reader, g reservoir.Grid) ([]float64, error) {
-	data, err := io.ReadAll(r)
+	ras, err := reservoir.ReadASCIIRaster(r, "raster")
 	if err != nil {
 		return nil, err
 	}
-	return parseASCData(data, g)
-}
-
-// parseASCData is parseASC on the bytes of a file.
-func parseASCData(data []byte, g reservoir.Grid) ([]float64, error) {
-	for _, c := range data {
-		if c >= 0x80 {
-			return parseASCWords(bytes.NewReader(data), g)
-		}
+	h := ras.Grid
+	if h.NX != g.NX || h.NY != g.NY {
+		return nil, fmt.Errorf("raster is %dx%d cells, the run grid %dx%d", h.NX, h.NY, g.NX, g.NY)
 	}
-	return parseASCBytes(data, g)
-}
-
-// asciiSpace reports the ASCII characters that bufio.ScanWords treats as
-// space.
-func asciiSpace(c byte) bool {
-	return c == ' ' || c == '\t' || c == '\n' || c == '\v' || c == '\f' || c == '\r'
-}
-
-// nextWord returns the bounds of the first word of data at or after i
-// (start == len(data) when there is none).
-func nextWord(data []byte, i int) (start, end int) {
-	for i < len(data) && asciiSpace(data[i]) {
-		i++
+	if tol := 1e-6 * math.Max(g.DX, g.DY); math.Abs(h.DX-g.DX) > tol || math.Abs(h.DY-g.DY) > tol {
+		return nil, fmt.Errorf("raster cell size %gx%g, the run grid %gx%g", h.DX, h.DY, g.DX, g.DY)
 	}
-	start = i
-	for i < len(data) && !asciiSpace(data[i]) {
-		i++
-	}
-	return start, i
-}
-
-// parseASCBytes is parseASCWords for ASCII text held in memory.
-func parseASCBytes(data []byte, g reservoir.Grid) ([]float64, error) {
-	hdr := map[string]float64{}
-	pos := len(data) // start of the first value
-	for i := 0; ; {
-		a, b := nextWord(data, i)
-		if a == b {
-			break
-		}
-		w := string(data[a:b])
-		if _, err := strconv.ParseFloat(w, 64); err == nil {
-			pos = a
-			break
-		}
-		c, d := nextWord(data, b)
-		if c == d {
-			return nil, fmt.Errorf("header key %q has no value", w)
-		}
-		v, err := strconv.ParseFloat(string(data[c:d]), 64)
-		if err != nil {
-			return nil, fmt.Errorf("header %s: %q is not a number", w, data[c:d])
-		}
-		hdr[strings.ToLower(w)] = v
-		i = d
-	}
-	nodata, hasNoData, err := checkASCHeader(hdr, g)
-	if err != nil {
-		return nil, err
-	}
-	n := g.N()
-	out := make([]float64, n)
-	// Cut the values into chunks at word boundaries, count the words of
-	// each, then parse the chunks in parallel: word number m goes to row
-	// m/NX (north first), column m%NX.
-	vals := data[pos:]
-	nc := max(1, min(64, len(vals)/(64<<10)))
-	cut := make([]int, nc+1)
-	for c := 1; c < nc; c++ {
-		k := max(cut[c-1], c*len(vals)/nc)
-		for k < len(vals) && !asciiSpace(vals[k]) {
-			k++
-		}
-		cut[c] = k
-	}
-	cut[nc] = len(vals)
-	count := make([]int, nc+1) // words before chunk c
-	bad := make([]int, nc)     // first bad word of each chunk, or -1
-	forChunks(nc, func(c int) {
-		m := 0
-		for i := cut[c]; ; m++ {
-			a, b := nextWord(vals, i)
-			if a == b || a >= cut[c+1] {
-				break
-			}
-			i = b
-		}
-		count[c+1] = m
-	})
-	for c := 0; c < nc; c++ {
-		count[c+1] += count[c]
-	}
-	forChunks(nc, func(c int) {
-		bad[c] = -1
-		m := count[c]
-		for i := cut[c]; m < n; m++ {
-			a, b := nextWord(vals, i)
-			if a == b || a >= cut[c+1] {
-				break
-			}
-			i = b
-			// The word is only read during the call: no copy needed.
-			v, err := strconv.ParseFloat(unsafe.String(&vals[a], b-a), 64)
-			if err != nil {
-				bad[c] = m
-				return
-			}
-			if hasNoData && v == nodata {
-				v = math.NaN()
-			}
-			row, col := m/g.NX, m%g.NX
-			out[(g.NY-1-row)*g.NX+col] = v
-		}
-	})
-	for c := 0; c < nc; c++ {
-		if m := bad[c]; m >= 0 {
-			a, b := 0, 0
-			for i, k := cut[c], count[c]; k <= m; k++ {
-				a, b = nextWord(vals, i)
-				i = b
-			}
-			return nil, fmt.Errorf("value %d: %q is not a number", m+1, vals[a:b])
-		}
-	}
-	switch total := count[nc]; {
-	case total > n:
-		return nil, fmt.Errorf("more than %d values", n)
-	case total < n:
-		return nil, fmt.Errorf("%d values, want %d", total, n)
-	}
-	return out, nil
-}
-
-// forChunks calls fn(0..n-1) on up to GOMAXPROCS goroutines.
-func forChunks(n int, fn func(c int)) {
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(n, runtime.GOMAXPROCS(0)) {
-		wg.Go(func() {
-			for {
-				c := int(next.Add(1)) - 1
-				if c >= n {
-					return
-				}
-				fn(c)
-			}
-		})
-	}
-	wg.Wait()
-}
-
-// checkASCHeader checks a raster header against the grid g and returns
-// its NODATA value.
-func checkASCHeader(hdr map[string]float64, g reservoir.Grid) (nodata float64, hasNoData bool, err error) {
-	nx, okx := hdr["ncols"]
-	ny, oky := hdr["nrows"]
-	if !okx || !oky {
-		return 0, false, errors.New("missing ncols or nrows in the header")
-	}
-	if int(nx) != g.NX || int(ny) != g.NY {
-		return 0, false, fmt.Errorf("raster is %gx%g cells, the run grid %dx%d", nx, ny, g.NX, g.NY)
-	}
-	cs, okc := hdr["cellsize"]
-	dx, dy := cs, cs
-	if !okc {
-		dx, dy = hdr["dx"], hdr["dy"]
-	}
-	tol := 1e-6 * math.Max(g.DX, g.DY)
-	if math.Abs(dx-g.DX) > tol || math.Abs(dy-g.DY) > tol {
-		return 0, false, fmt.Errorf("raster cell size %gx%g, the run grid %gx%g", dx, dy, g.DX, g.DY)
-	}
-	nodata, hasNoData = hdr["nodata_value"]
-	return nodata, hasNoData, nil
-}
-
-// parseASCWords reads a raster word by word.
-func parseASCWords(r io.Reader, g reservoir.Grid) ([]float64, error) {
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 1<<20), 1<<26)
-	sc.Split(bufio.ScanWords)
-	hdr := map[string]float64{}
-	var first string
-	for sc.Scan() {
-		w := sc.Text()
-		key := strings.ToLower(w)
-		if _, err := strconv.ParseFloat(w, 64); err == nil {
-			first = w
-			break
-		}
-		if !sc.Scan() {
-			return nil, fmt.Errorf("header key %q has no value", w)
-		}
-		v, err := strconv.ParseFloat(sc.Text(), 64)
-		if err != nil {
-			return nil, fmt.Errorf("header %s: %q is not a number", w, sc.Text())
-		}
-		hdr[key] = v
-	}
-	nodata, hasNoData, err := checkASCHeader(hdr, g)
-	if err != nil {
-		return nil, err
-	}
-	n := g.N()
-	out := make([]float64, n)
-	read := 0
-	put := func(w string) error {
-		if read >= n {
-			return fmt.Errorf("more than %d values", n)
-		}
-		v, err := strconv.ParseFloat(w, 64)
-		if err != nil {
-			return fmt.Errorf("value %d: %q is not a number", read+1, w)
-		}
-		if hasNoData && v == nodata {
-			v = math.NaN()
-		}
-		row, col := read/g.NX, read%g.NX
-		out[(g.NY-1-row)*g.NX+col] = v
-		read++
-		return nil
-	}
-	if first != "" {
-		if err := put(first); err != nil {
-			return nil, err
-		}
-	}
-	for sc.Scan() {
-		if err := put(sc.Text()); err != nil {
-			return nil, err
-		}
-	}
-	if err := sc.Err(); err != nil {
-		return nil, err
-	}
-	if read != n {
-		return nil, fmt.Errorf("%d values, want %d", read, n)
-	}
-	return out, nil
+	return ras.Values, nil
 }
 
 // Table is a CSV file read by column name.
