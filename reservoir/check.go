@@ -224,10 +224,10 @@ func (d *decoder) placeWells(m *Model, wellsLine int) {
 	if !d.errs.ok() {
 		return
 	}
-	if nInj == 0 {
+	if nInj == 0 && !d.partialWells {
 		d.errs.add(&InputError{Path: d.path, Line: wellsLine, Msg: "no injector: a waterflood needs at least one injector open before the end of the run"})
 	}
-	if nProd == 0 {
+	if nProd == 0 && !d.partialWells {
 		d.errs.add(&InputError{Path: d.path, Line: wellsLine, Msg: "no producer: a waterflood needs at least one producer open before the end of the run"})
 	}
 }

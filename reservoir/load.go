@@ -25,6 +25,11 @@ type Loader struct {
 	// MaxCells is the largest grid accepted; 0 means MaxCells (50 million
 	// cells). Larger grids are refused before any allocation.
 	MaxCells int
+	// PartialWells accepts a case with no injector or no producer open
+	// before the end of the run. A waterflood needs both, so a run refuses
+	// such a case; a screening base case may lack them when the candidates
+	// supply them (the first injectors of a field on primary production).
+	PartialWells bool
 }
 
 // Load reads and validates the case file at path with the default
@@ -76,7 +81,7 @@ func (l Loader) Load(path string) (*Model, error) {
 // Parse is Load for a case already in memory; path names it in messages
 // and locates the maps.
 func (l Loader) Parse(path string, data []byte) (*Model, error) {
-	d := &decoder{path: path, dir: filepath.Dir(path), maxCells: l.MaxCells}
+	d := &decoder{path: path, dir: filepath.Dir(path), maxCells: l.MaxCells, partialWells: l.PartialWells}
 	if d.maxCells <= 0 {
 		d.maxCells = MaxCells
 	}
@@ -88,6 +93,8 @@ type decoder struct {
 	path     string
 	dir      string
 	maxCells int
+	// partialWells: see Loader.PartialWells.
+	partialWells bool
 	errs     collector
 }
 

@@ -48,6 +48,7 @@ type Summary struct {
 	Failed     []FailedSummary   `json:"failed"`
 	Skipped    map[string]int    `json:"infill_nodes_skipped,omitempty"`
 	Dropped    map[string]int    `json:"pattern_points_dropped,omitempty"`
+	SkippedC   map[string]int    `json:"candidates_skipped,omitempty"`
 	Best       []string          `json:"best"`
 	Pictures   []string          `json:"pictures"`
 	Columns    map[string]string `json:"ranking_columns"`
@@ -188,6 +189,12 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 		}
 		if len(p.Dropped) > 0 {
 			sum.Dropped = p.Dropped
+		}
+		if len(p.SkippedCandidates) > 0 {
+			sum.SkippedC = map[string]int{}
+			for _, sk := range p.SkippedCandidates {
+				sum.SkippedC[sk.Reason]++
+			}
 		}
 		sum.Notes = append(sum.Notes, p.Notes...)
 	}

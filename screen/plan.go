@@ -41,7 +41,43 @@ type Candidate struct {
 // SkippedNode is an infill lattice node that gives no candidate.
 type SkippedNode struct {
 	X, Y   float64
-	Reason string // "inactive" (outside the reservoir) or "too close" (to a well)
+	// Reason is "inactive" (outside the reservoir), "too close" (to a
+	// well), "bad well index", or "no injector" / "no producer" (the base
+	// case with the new well still lacks one open before the horizon).
+	Reason string
+}
+
+// SkippedCandidate is a layout or pattern that gives no run: with it the
+// field still has no injector or no producer open before the horizon.
+type SkippedCandidate struct {
+	Name   string
+	Kind   Kind
+	Reason string // "no injector" or "no producer"
+}
+
+// missingRole says what a well list lacks for a waterflood over the
+// horizon: "no injector", "no producer", or "" when it has both open
+// before the horizon.
+func missingRole(wells []reservoir.Well, horizon float64) string {
+	inj, prod := false, false
+	for _, w := range wells {
+		if w.Open >= horizon {
+			continue
+		}
+		switch w.Type {
+		case reservoir.Injector:
+			inj = true
+		case reservoir.Producer:
+			prod = true
+		}
+	}
+	switch {
+	case !inj:
+		return "no injector"
+	case !prod:
+		return "no producer"
+	}
+	return ""
 }
 
 // Plan is a spec expanded into its candidates, with the hash of every
@@ -51,6 +87,8 @@ type Plan struct {
 	Candidates []Candidate
 	// Skipped lists the infill nodes that were skipped.
 	Skipped []SkippedNode
+	// SkippedCandidates lists the layouts and patterns that were skipped.
+	SkippedCandidates []SkippedCandidate
 	// Dropped counts pattern points dropped (inactive cell, cell taken).
 	Dropped map[string]int
 	// Horizon is the run end in days (the spec's or the base case's).
@@ -103,6 +141,10 @@ func NewPlan(s *Spec) (*Plan, error) {
 		if msg := checkLayout(b, l.Wells); msg != "" {
 			return nil, fmt.Errorf("screen: layout %s: %s", l.Name, msg)
 		}
+		if why := missingRole(l.Wells, p.Horizon); why != "" {
+			p.SkippedCandidates = append(p.SkippedCandidates, SkippedCandidate{Name: l.Name, Kind: KindLayout, Reason: why})
+			continue
+		}
 		p.add(Candidate{Name: l.Name, Kind: KindLayout, X: math.NaN(), Y: math.NaN(), Wells: slices.Clone(l.Wells), NewWells: len(l.Wells)})
 	}
 	for _, pt := range s.Patterns {
@@ -114,6 +156,10 @@ func NewPlan(s *Spec) (*Plan, error) {
 			return nil, fmt.Errorf("screen: %w", err)
 		}
 		p.Dropped[pt.Name] = dropped
+		if why := missingRole(wells, p.Horizon); why != "" {
+			p.SkippedCandidates = append(p.SkippedCandidates, SkippedCandidate{Name: pt.Name, Kind: KindPattern, Reason: why})
+			continue
+		}
 		p.add(Candidate{Name: pt.Name, Kind: KindPattern, X: math.NaN(), Y: math.NaN(), Wells: wells, NewWells: len(wells)})
 	}
 	for _, c := range p.Candidates {
@@ -131,6 +177,9 @@ func NewPlan(s *Spec) (*Plan, error) {
 		}
 	}
 	if len(p.Candidates) == 0 {
+		if len(p.SkippedCandidates) > 0 || len(p.Skipped) > 0 {
+			return nil, errors.New("screen: no candidate: every infill node, layout and pattern was skipped (see the reasons counted in the log); a waterflood needs an injector and a producer open before the horizon")
+		}
 		return nil, errors.New("screen: no candidate: every infill node was skipped and no layout or pattern is given")
 	}
 	if len(p.Candidates) > MaxCandidates {
@@ -213,6 +262,10 @@ func (p *Plan) addInfill(in Infill) error {
 				continue
 			}
 			wells := append(slices.Clone(b.Wells), w)
+			if why := missingRole(wells, p.Horizon); why != "" {
+				p.Skipped = append(p.Skipped, SkippedNode{X: x, Y: y, Reason: why})
+				continue
+			}
 			p.add(Candidate{Name: name, Kind: KindInfill, X: x, Y: y, Wells: wells, NewWells: 1})
 		}
 	}

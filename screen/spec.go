@@ -214,7 +214,10 @@ func ParseSpec(path string, data []byte) (spec *Spec, err error) {
 	if !p.ok() {
 		return nil, p.err
 	}
-	base, err := reservoir.Load(rel(bp))
+	// The base case may lack injectors or producers (a field on primary
+	// production, before its first injectors): NewPlan skips a candidate
+	// that still leaves the field without one.
+	base, err := reservoir.Loader{PartialWells: true}.Load(rel(bp))
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
 			return nil, &SpecError{Path: path, Line: baseNode.Line, Msg: "base case not found: " + rel(bp), Err: err}

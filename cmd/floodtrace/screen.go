@@ -144,7 +144,10 @@ func runScreen(args []string) error {
 	logf("spec %s: %d candidate(s) x %d realization(s), horizon %g days, objective %s (hash %s)",
 		args[0], len(plan.Candidates), nr, plan.Horizon, objectiveName(spec), plan.Hash)
 	if len(plan.Skipped) > 0 {
-		logf("infill: %d node(s) skipped (outside the reservoir or too close to a well)", len(plan.Skipped))
+		logf("infill: %d node(s) skipped: %s", len(plan.Skipped), countReasons(plan.Skipped, func(s screen.SkippedNode) string { return s.Reason }))
+	}
+	for _, sk := range plan.SkippedCandidates {
+		logf("%s %s skipped: %s open before the horizon", sk.Kind, sk.Name, sk.Reason)
 	}
 	for _, note := range plan.Notes {
 		logf("note: %s", note)
@@ -347,4 +350,23 @@ func printRanking(rk *screen.Ranking, finished, total int) {
 	for _, fl := range rk.Failed {
 		fmt.Fprintf(stderr, "warning: candidate %s failed: %s\n", fl.Candidate, strings.Join(fl.Errors, "; "))
 	}
+}
+
+// countReasons counts items by reason, in order of first appearance:
+// "3 inactive, 2 too close".
+func countReasons[T any](items []T, reason func(T) string) string {
+	var order []string
+	n := map[string]int{}
+	for _, it := range items {
+		r := reason(it)
+		if n[r] == 0 {
+			order = append(order, r)
+		}
+		n[r]++
+	}
+	parts := make([]string, len(order))
+	for i, r := range order {
+		parts[i] = fmt.Sprintf("%d %s", n[r], r)
+	}
+	return strings.Join(parts, ", ")
 }

@@ -1,0 +1,81 @@
+package screen
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"floodtrace/pressure"
+)
+
+// TestBaseWithoutInjectors: a field on primary production (producers
+// only) is a valid screening base when the candidates supply the
+// injectors; a candidate that leaves the field without an injector is
+// skipped and counted with its reason.
+func TestBaseWithoutInjectors(t *testing.T) {
+	dir := t.TempDir()
+	caseText := `title: Tarrow Bench primary (invented)
+units: field
+grid: {nx: 12, ny: 10, dx: 100, dy: 100}
+rock: {perm: 150, porosity: 0.2, thickness: 20}
+fluids: {water_viscosity: 0.5, oil_viscosity: 1.0, initial_water_saturation: 0.2}
+relperm:
+  corey: {swc: 0.2, sor: 0.2, krw_max: 0.4, kro_max: 0.9, nw: 2, no: 2}
+wells:
+  - {name: P-1, type: producer, x: 1050, y: 850, bhp: 500}
+  - {name: P-2, type: producer, x: 150, y: 850, bhp: 500}
+run: {end: 600, report_every: 50, streamlines: 100}
+`
+	if err := os.WriteFile(filepath.Join(dir, "case.yaml"), []byte(caseText), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name       string
+		infill     string
+		candidates int
+		skipped    map[string]int
+		wantErr    string
+	}{
+		{"first injectors", "{type: injector, rate: 300, spacing: [400, 400], min_distance: 150}", 6, nil, ""},
+		{"producers only", "{type: producer, bhp: 500, spacing: [400, 400], min_distance: 150}", 0, map[string]int{"no injector": 6}, "every infill node, layout and pattern was skipped"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			spec := "base: case.yaml\nhorizon: 600\nstreamlines: 100\ncandidates:\n  infill: " + tc.infill + "\n"
+			s, err := ParseSpec(filepath.Join(dir, "spec.yaml"), []byte(spec))
+			if err != nil {
+				t.Fatalf("a base case without injectors is refused: %v", err)
+			}
+			p, err := NewPlan(s)
+			if tc.wantErr != "" {
+				if err == nil || !strings.Contains(err.Error(), tc.wantErr) {
+					t.Fatalf("error %v, want one containing %q", err, tc.wantErr)
+				}
+				return
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(p.Candidates) != tc.candidates {
+				t.Errorf("%d candidates, want %d", len(p.Candidates), tc.candidates)
+			}
+			got := map[string]int{}
+			for _, sk := range p.Skipped {
+				if sk.Reason != "too close" && sk.Reason != "inactive" {
+					got[sk.Reason]++
+				}
+			}
+			if len(got) != len(tc.skipped) {
+				t.Errorf("skipped %v, want %v", got, tc.skipped)
+			}
+			// Every candidate runs: the new injector makes it a waterflood.
+			res, err := p.RunCandidate(0, -1, pressure.Settings{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(res.Injectors) != 1 || !(res.Injectors[0].CumWater > 0) {
+				t.Errorf("candidate %s: injectors %+v", p.Candidates[0].Name, res.Injectors)
+			}
+		})
+	}
+}
