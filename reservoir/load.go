@@ -95,7 +95,7 @@ type decoder struct {
 	maxCells int
 	// partialWells: see Loader.PartialWells.
 	partialWells bool
-	errs     collector
+	errs         collector
 }
 
 // propSpec is a rock property given as a number or a map path.

@@ -40,7 +40,7 @@ type Candidate struct {
 
 // SkippedNode is an infill lattice node that gives no candidate.
 type SkippedNode struct {
-	X, Y   float64
+	X, Y float64
 	// Reason is "inactive" (outside the reservoir), "too close" (to a
 	// well), "bad well index", or "no injector" / "no producer" (the base
 	// case with the new well still lacks one open before the horizon).
