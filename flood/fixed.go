@@ -5,9 +5,8 @@ import (
 	"math"
 	"runtime"
 	"sort"
-	"sync"
-	"sync/atomic"
 
+	"floodtrace/internal/parallel"
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
 	"floodtrace/streamline"
@@ -200,15 +199,7 @@ func (ls *lineSet) cellBounds(workers int) []int32 {
 // forRanges calls fn(bounds[r], bounds[r+1]) for every range r, in
 // parallel.
 func forRanges(bounds []int32, fn func(lo, hi int32)) {
-	if len(bounds) == 2 {
-		fn(bounds[0], bounds[1])
-		return
-	}
-	var wg sync.WaitGroup
-	for r := 0; r+1 < len(bounds); r++ {
-		wg.Go(func() { fn(bounds[r], bounds[r+1]) })
-	}
-	wg.Wait()
+	parallel.Each(len(bounds)-1, len(bounds)-1, 1, func(_, r int) { fn(bounds[r], bounds[r+1]) })
 }
 
 // forCellRanges calls fn on contiguous ranges of the cells [0, n), one per
@@ -216,19 +207,8 @@ func forRanges(bounds []int32, fn func(lo, hi int32)) {
 // values to the cells of its range, taking the segments in line order,
 // makes every cell's sum in the same order whatever the number of ranges.
 func forCellRanges(n, workers int, fn func(lo, hi int32)) {
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = max(1, min(workers, n/4096))
-	if workers == 1 {
-		fn(0, int32(n))
-		return
-	}
-	var wg sync.WaitGroup
-	for w := range workers {
-		wg.Go(func() { fn(int32(w*n/workers), int32((w+1)*n/workers)) })
-	}
-	wg.Wait()
+	pieces := max(1, min(parallel.Workers(workers), n/4096))
+	parallel.Pieces(n, pieces, pieces, func(_, lo, hi int) { fn(int32(lo), int32(hi)) })
 }
 
 // lineBlocks is the fixed number of blocks the lines are cut into for
@@ -238,33 +218,7 @@ const lineBlocks = 64
 // forBlocks calls fn on lineBlocks contiguous ranges of [0, n) using up to
 // workers goroutines (0 = GOMAXPROCS). fn must write disjoint data.
 func forBlocks(n, workers int, fn func(lo, hi int)) {
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	nb := min(lineBlocks, n)
-	if nb == 0 {
-		return
-	}
-	if workers == 1 || nb == 1 {
-		fn(0, n)
-		return
-	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < min(workers, nb); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				b := int(next.Add(1)) - 1
-				if b >= nb {
-					return
-				}
-				fn(b*n/nb, (b+1)*n/nb)
-			}
-		}()
-	}
-	wg.Wait()
+	parallel.Pieces(n, lineBlocks, workers, func(_, lo, hi int) { fn(lo, hi) })
 }
 
 func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *blTable, s Settings) {

@@ -6,8 +6,8 @@ import (
 	"math"
 	"runtime"
 	"slices"
-	"sync"
 
+	"floodtrace/internal/parallel"
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
 	"floodtrace/streamline"
@@ -159,26 +159,10 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	return g, nil
 }
 
-// rows runs fn over the grid rows on the workers (static interleaved
-// partition); fn must write only to its rows' cells and slots.
+// rows runs fn over the grid rows on the workers (internal/parallel.Each);
+// fn must write only to its rows' cells and slots.
 func (g *gridRun) rows(fn func(j int)) {
-	ny := g.m.Grid.NY
-	workers := min(g.workers, ny)
-	if workers <= 1 {
-		for j := range ny {
-			fn(j)
-		}
-		return
-	}
-	var wg sync.WaitGroup
-	for w := range workers {
-		wg.Go(func() {
-			for j := w; j < ny; j += workers {
-				fn(j)
-			}
-		})
-	}
-	wg.Wait()
+	parallel.Each(g.m.Grid.NY, g.workers, 1, func(_, j int) { fn(j) })
 }
 
 func (g *gridRun) run() error {

@@ -6,8 +6,8 @@ import (
 	"math"
 	"runtime"
 	"slices"
-	"sync"
 
+	"floodtrace/internal/parallel"
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
 	"floodtrace/streamline"
@@ -606,29 +606,11 @@ func (u *updateRun) firstError(what string) error {
 	return nil
 }
 
-// parallel runs fn for i in [0, n) on the workers, each taking a fixed,
-// interleaved set of blocks (static partition). fn must write only to
-// per-i slots or per-worker scratch.
+// parallel runs fn for i in [0, n) on the workers, in runs of 8 lines
+// (internal/parallel.Each). fn must write only to per-i slots or to
+// per-worker scratch that it resets for each i.
 func (u *updateRun) parallel(n int, fn func(worker, i int)) {
-	const block = 8
-	workers := min(u.workers, (n+block-1)/block)
-	if workers <= 1 {
-		for i := range n {
-			fn(0, i)
-		}
-		return
-	}
-	var wg sync.WaitGroup
-	for w := range workers {
-		wg.Go(func() {
-			for start := w * block; start < n; start += workers * block {
-				for i := start; i < min(start+block, n); i++ {
-					fn(w, i)
-				}
-			}
-		})
-	}
-	wg.Wait()
+	parallel.Each(n, u.workers, 8, fn)
 }
 
 // chunk advances every line from t to t1 and books the production.

@@ -10,6 +10,7 @@ import (
 	"strconv"
 
 	"floodtrace/internal/outdir"
+	"floodtrace/internal/parallel"
 	"floodtrace/reservoir"
 )
 
@@ -396,11 +397,11 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 }
 
 // writeBands formats items [0, n) in bands of per items in parallel and
-// writes the bands to w in order (outdir.WriteBands): the bytes do not
+// writes the bands to w in order (parallel.Bands): the bytes do not
 // depend on the number of goroutines.
 func writeBands(w io.Writer, n, per int, format func(lo, hi int, buf []byte) []byte) error {
 	nb := (n + per - 1) / per
-	return outdir.WriteBands(w, nb, func(b int, buf []byte) ([]byte, error) {
+	return parallel.Bands(w, nb, func(b int, buf []byte) ([]byte, error) {
 		return format(b*per, min((b+1)*per, n), buf), nil
 	})
 }

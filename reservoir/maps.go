@@ -9,14 +9,12 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"runtime"
 	"strconv"
 	"strings"
-	"sync"
 	"sync/atomic"
 	"unsafe"
 
-	"floodtrace/internal/outdir"
+	"floodtrace/internal/parallel"
 )
 
 // MaxCells is the largest grid the package loads: 50 million cells. Larger
@@ -359,36 +357,24 @@ func parseRowsParallel(arena []byte, ends []int, dst func(r int) []float64, noda
 		}
 		return 0, ""
 	}
-	workers := min(runtime.GOMAXPROCS(0), nb)
-	var next atomic.Int64
 	var stop atomic.Int64 // lowest band with an error, plus one (0: none)
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Go(func() {
-			for {
-				b := int(next.Add(1)) - 1
-				if b >= nb {
-					return
-				}
-				if s := stop.Load(); s > 0 && int(s) <= b {
-					continue // an earlier band already failed
-				}
-				for r := b * band; r < min((b+1)*band, n); r++ {
-					if col, msg := parseRow(r); msg != "" {
-						errs[b] = bad{r, col, msg}
-						for {
-							s := stop.Load()
-							if (s > 0 && int(s) <= b+1) || stop.CompareAndSwap(s, int64(b+1)) {
-								break
-							}
-						}
+	parallel.Each(nb, 0, 1, func(_, b int) {
+		if s := stop.Load(); s > 0 && int(s) <= b {
+			return // an earlier band already failed
+		}
+		for r := b * band; r < min((b+1)*band, n); r++ {
+			if col, msg := parseRow(r); msg != "" {
+				errs[b] = bad{r, col, msg}
+				for {
+					s := stop.Load()
+					if (s > 0 && int(s) <= b+1) || stop.CompareAndSwap(s, int64(b+1)) {
 						break
 					}
 				}
+				break
 			}
-		})
-	}
-	wg.Wait()
+		}
+	})
 	for _, e := range errs {
 		if e.msg != "" {
 			return fail(e.row, e.col, e.msg)
@@ -770,7 +756,7 @@ func WriteASCIIRasterDigits(w io.Writer, g Grid, values []float64, active []bool
 		}
 		return buf, nil
 	}
-	return outdir.WriteBands(w, nb, format)
+	return parallel.Bands(w, nb, format)
 }
 
 // pow10 holds the powers of ten that are exact in float64.

@@ -5,6 +5,7 @@ import (
 	"math"
 	"sync"
 
+	"floodtrace/internal/parallel"
 	"floodtrace/reservoir"
 )
 
@@ -34,7 +35,7 @@ func (b *builder) maps(lowFlow []bool) *Result {
 	// takes the lines in line order, so every sum is made in the same order
 	// whatever the number of ranges.
 	ranges := max(1, b.workers)
-	parallel(ranges, b.workers, func(_, rg int) {
+	parallel.Each(ranges, b.workers, 0, func(_, rg int) {
 		lo, hi := int32(rg*n/ranges), int32((rg+1)*n/ranges)
 		for i := range b.lines {
 			l := &b.lines[i]

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+
+	"floodtrace/internal/parallel"
 )
 
 // Launch tells how a streamline was started.
@@ -211,7 +213,7 @@ func (b *builder) trace(seeds []seed) {
 	base := len(b.lines)
 	b.lines = append(b.lines, make([]Line, len(seeds))...)
 	b.meta = append(b.meta, make([]lineMeta, len(seeds))...)
-	parallel(len(seeds), b.workers, func(w, i int) {
+	parallel.Each(len(seeds), b.workers, 0, func(w, i int) {
 		sc := &b.scratch[w]
 		b.lines[base+i], b.meta[base+i] = b.t.line(seeds[i], &sc[0], &sc[1])
 	})

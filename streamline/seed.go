@@ -2,6 +2,8 @@ package streamline
 
 import (
 	"math"
+
+	"floodtrace/internal/parallel"
 )
 
 // injectorSeeds returns the launch points on the outflow faces of the
@@ -202,7 +204,7 @@ func (b *builder) fill(lowFlow []bool) {
 				done[k] = true
 			}
 		}
-		parallel(len(batch), b.workers, func(w, i int) {
+		parallel.Each(len(batch), b.workers, 0, func(w, i int) {
 			sc := &b.scratch[w]
 			lines[i], meta[i] = t.line(batch[i], &sc[0], &sc[1])
 		})

@@ -2,8 +2,6 @@ package streamline
 
 import (
 	"math"
-	"sync"
-	"sync/atomic"
 
 	"floodtrace/reservoir"
 )
@@ -331,36 +329,4 @@ func (t *tracer) run(h *half, k int, xi, eta, sign float64, entryFace int, entry
 			lastS = eta
 		}
 	}
-}
-
-// parallel calls fn(worker, i) for i in [0, n) on the given number of
-// goroutines, which take chunks of indices as they become free (lines
-// differ much in length). fn must write only to slots owned by i (and
-// scratch owned by worker), so results do not depend on the number of
-// workers or on the order the chunks are taken.
-func parallel(n, workers int, fn func(worker, i int)) {
-	workers = min(workers, n)
-	if workers <= 1 {
-		for i := 0; i < n; i++ {
-			fn(0, i)
-		}
-		return
-	}
-	chunk := max(1, min(16, n/(8*workers)))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Go(func() {
-			for {
-				start := int(next.Add(int64(chunk))) - chunk
-				if start >= n {
-					return
-				}
-				for i := start; i < min(start+chunk, n); i++ {
-					fn(w, i)
-				}
-			}
-		})
-	}
-	wg.Wait()
 }

@@ -6,10 +6,10 @@ import (
 	"math"
 	"runtime"
 	"strings"
-	"sync"
-	"sync/atomic"
 
 	"gonum.org/v1/gonum/mat"
+
+	"floodtrace/internal/parallel"
 )
 
 // AMGSettings controls the set-up of the algebraic multigrid
@@ -202,35 +202,6 @@ func partition(n int) []int {
 	return blk
 }
 
-// forBlocks calls fn(w, b) once for every block b in [0, nb), on up to
-// workers goroutines; w in [0, workers) names the goroutine, for scratch
-// space. Blocks must write disjoint data, so the order does not matter.
-func forBlocks(nb, workers int, fn func(w, b int)) {
-	workers = min(workers, nb)
-	if workers <= 1 {
-		for b := range nb {
-			fn(0, b)
-		}
-		return
-	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	wg.Add(workers)
-	for w := range workers {
-		go func() {
-			defer wg.Done()
-			for {
-				b := int(next.Add(1)) - 1
-				if b >= nb {
-					return
-				}
-				fn(w, b)
-			}
-		}()
-	}
-	wg.Wait()
-}
-
 func procs() int { return runtime.GOMAXPROCS(0) }
 
 // NewAMG returns the smoothed aggregation AMG preconditioner of the
@@ -388,7 +359,7 @@ func checkAMGMatrix(a *CSR) error {
 // diagonal returns the diagonal of a (columns sorted, diagonal present).
 func diagonal(a *CSR, blk []int) []float64 {
 	d := make([]float64, a.N)
-	forBlocks(len(blk)-1, procs(), func(_, b int) {
+	parallel.Each(len(blk)-1, procs(), 1, func(_, b int) {
 		for i := blk[b]; i < blk[b+1]; i++ {
 			for p := a.RowPtr[i]; p < a.RowPtr[i+1]; p++ {
 				if a.Col[p] == i {
@@ -406,7 +377,7 @@ func diagonal(a *CSR, blk []int) []float64 {
 // Kolev and Yang 2011).
 func l1Diagonal(a *CSR, blk []int) []float64 {
 	inv := make([]float64, a.N)
-	forBlocks(len(blk)-1, procs(), func(_, b int) {
+	parallel.Each(len(blk)-1, procs(), 1, func(_, b int) {
 		lo, hi := blk[b], blk[b+1]
 		for i := lo; i < hi; i++ {
 			d := 0.0
@@ -445,7 +416,7 @@ func buildProlongation(a *CSR, blk []int, theta float64, s AMGSettings) (*rect, 
 	}
 	strong := make([]bool, len(a.Val))
 	af := make([]float64, len(a.Val))
-	forBlocks(nb, procs(), func(_, b int) {
+	parallel.Each(nb, procs(), 1, func(_, b int) {
 		for i := blk[b]; i < blk[b+1]; i++ {
 			f, pd := 0.0, -1
 			for p := a.RowPtr[i]; p < a.RowPtr[i+1]; p++ {
@@ -641,7 +612,7 @@ func filteredRadius(a *CSR, af []float64, blk []int, d []float64, iters int) flo
 	big := make([]float64, nb)
 	rho := 0.0
 	for range iters {
-		forBlocks(nb, procs(), func(_, b int) {
+		parallel.Each(nb, procs(), 1, func(_, b int) {
 			sn, sd, m := 0.0, 0.0, 0.0
 			for i := blk[b]; i < blk[b+1]; i++ {
 				v := 0.0
@@ -742,7 +713,7 @@ func buildRows(rows, cols int, blk []int, size func(lo, hi int) int, row func(ac
 	bcol := make([][]int, nb)
 	bval := make([][]float64, nb)
 	m := &rect{rows: rows, cols: cols, ptr: make([]int, rows+1)}
-	forBlocks(nb, workers, func(w, b int) {
+	parallel.Each(nb, workers, 1, func(w, b int) {
 		lo, hi := blk[b], blk[b+1]
 		sz := size(lo, hi)
 		acc := rowAcc{pos: pos[w], col: make([]int, 0, sz), val: make([]float64, 0, sz)}
@@ -759,7 +730,7 @@ func buildRows(rows, cols int, blk []int, size func(lo, hi int) int, row func(ac
 	}
 	m.col = make([]int, m.ptr[rows])
 	m.val = make([]float64, m.ptr[rows])
-	forBlocks(nb, workers, func(_, b int) {
+	parallel.Each(nb, workers, 1, func(_, b int) {
 		copy(m.col[m.ptr[blk[b]]:], bcol[b])
 		copy(m.val[m.ptr[blk[b]]:], bval[b])
 	})
@@ -908,7 +879,7 @@ func (h *AMG) coarsest(l *amgLevel, x, b []float64) {
 func (h *AMG) sweep(l *amgLevel, x, b []float64, forward, zero bool) {
 	a, blk, invd, xs := l.a, l.blk, l.invd, l.xs
 	rp, col, val := a.RowPtr, a.Col, a.Val
-	forBlocks(len(blk)-1, procs(), func(_, bb int) {
+	parallel.Each(len(blk)-1, procs(), 1, func(_, bb int) {
 		lo, hi := blk[bb], blk[bb+1]
 		switch {
 		case zero:
@@ -958,7 +929,7 @@ func (h *AMG) restrictResidual(l, c *amgLevel, x, b []float64) {
 	a, t := l.a, l.t
 	rp, col, val := a.RowPtr, a.Col, a.Val
 	blk := l.blk
-	forBlocks(len(blk)-1, procs(), func(_, bb int) {
+	parallel.Each(len(blk)-1, procs(), 1, func(_, bb int) {
 		for i := blk[bb]; i < blk[bb+1]; i++ {
 			s := b[i]
 			for p := rp[i]; p < rp[i+1]; p++ {
@@ -968,7 +939,7 @@ func (h *AMG) restrictResidual(l, c *amgLevel, x, b []float64) {
 		}
 	})
 	r, cb, cblk := l.r, c.b, c.blk
-	forBlocks(len(cblk)-1, procs(), func(_, bb int) {
+	parallel.Each(len(cblk)-1, procs(), 1, func(_, bb int) {
 		for i := cblk[bb]; i < cblk[bb+1]; i++ {
 			s := 0.0
 			for p := r.ptr[i]; p < r.ptr[i+1]; p++ {
@@ -982,7 +953,7 @@ func (h *AMG) restrictResidual(l, c *amgLevel, x, b []float64) {
 // prolong adds P c.x to x and leaves a copy of the result in l.xs.
 func (h *AMG) prolong(l, c *amgLevel, x []float64) {
 	p, cx, xs, blk := l.p, c.x, l.xs, l.blk
-	forBlocks(len(blk)-1, procs(), func(_, bb int) {
+	parallel.Each(len(blk)-1, procs(), 1, func(_, bb int) {
 		for i := blk[bb]; i < blk[bb+1]; i++ {
 			s := x[i]
 			for q := p.ptr[i]; q < p.ptr[i+1]; q++ {

@@ -1,10 +1,9 @@
 package synth
 
 import (
-	"runtime"
-	"sync"
-
 	"gonum.org/v1/gonum/dsp/fourier"
+
+	"floodtrace/internal/parallel"
 )
 
 // nextFast returns the smallest m >= n whose only prime factors are 2, 3
@@ -30,21 +29,8 @@ func nextFast(n int) int {
 // runs fn on each. Every index is processed by exactly the same arithmetic
 // whatever the split, so results do not depend on the number of workers.
 func parallelRange(n int, fn func(lo, hi int)) {
-	w := min(runtime.GOMAXPROCS(0), n)
-	if w <= 1 {
-		fn(0, n)
-		return
-	}
-	var wg sync.WaitGroup
-	for t := range w {
-		lo, hi := t*n/w, (t+1)*n/w
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			fn(lo, hi)
-		}()
-	}
-	wg.Wait()
+	w := parallel.Workers(0)
+	parallel.Pieces(n, w, w, func(_, lo, hi int) { fn(lo, hi) })
 }
 
 // colBlock is the number of columns gathered together in the column pass,

@@ -1,4 +1,4 @@
-package outdir
+package parallel
 
 import (
 	"io"
@@ -7,15 +7,15 @@ import (
 	"sync/atomic"
 )
 
-// bandBufs recycles the text buffers of WriteBands between calls (a run
+// bandBufs recycles the text buffers of Bands between calls (a run
 // writes many rasters and text files).
 var bandBufs sync.Pool
 
-// WriteBands formats bands 0..nb-1 on up to GOMAXPROCS goroutines and
+// Bands formats bands 0..nb-1 on up to GOMAXPROCS goroutines and
 // writes them to w in band order as they come, so that formatting goes on
 // while earlier bands are written. At most a few bands per goroutine are
 // held at once. The first error in band order is returned.
-func WriteBands(w io.Writer, nb int, format func(band int, buf []byte) ([]byte, error)) error {
+func Bands(w io.Writer, nb int, format func(band int, buf []byte) ([]byte, error)) error {
 	if nb <= 0 {
 		return nil
 	}
