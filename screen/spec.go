@@ -9,14 +9,13 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"regexp"
 	"sort"
-	"strconv"
 	"strings"
 	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
+	"floodtrace/internal/yamldoc"
 	"floodtrace/reservoir"
 )
 
@@ -137,8 +136,6 @@ func LoadSpec(path string) (*Spec, error) {
 	}
 	return ParseSpec(path, data)
 }
-
-var yamlLineRE = regexp.MustCompile(`^yaml: line (\d+): (.*)$`)
 
 // ParseSpec is LoadSpec for a spec already in memory; path names it in
 // messages and locates the files it names.
@@ -270,45 +267,17 @@ func ParseSpec(path string, data []byte) (spec *Spec, err error) {
 }
 
 // parseYAML returns the root of the single YAML document in data.
-func parseYAML(path string, data []byte) (root *yaml.Node, err error) {
-	defer func() {
-		if r := recover(); r != nil {
-			root, err = nil, &SpecError{Path: path, Msg: fmt.Sprintf("YAML parser failed: %v", r)}
-		}
-	}()
-	if len(bytes.TrimSpace(data)) == 0 {
+func parseYAML(path string, data []byte) (*yaml.Node, error) {
+	root, perr := yamldoc.Parse(data)
+	switch {
+	case perr == nil:
+		return root, nil
+	case perr.Empty:
 		return nil, &SpecError{Path: path, Msg: "empty spec"}
+	case perr.Multiple:
+		return nil, &SpecError{Path: path, Line: perr.Line, Msg: "more than one YAML document; a spec holds one"}
 	}
-	dec := yaml.NewDecoder(bytes.NewReader(data))
-	var doc yaml.Node
-	if err := dec.Decode(&doc); err != nil {
-		if errors.Is(err, io.EOF) {
-			return nil, &SpecError{Path: path, Msg: "empty spec"}
-		}
-		return nil, yamlError(path, err)
-	}
-	var extra yaml.Node
-	if err := dec.Decode(&extra); err == nil {
-		return nil, &SpecError{Path: path, Line: extra.Line, Msg: "more than one YAML document; a spec holds one"}
-	} else if !errors.Is(err, io.EOF) {
-		return nil, yamlError(path, err)
-	}
-	if len(doc.Content) == 0 {
-		return nil, &SpecError{Path: path, Msg: "empty spec"}
-	}
-	return doc.Content[0], nil
-}
-
-func yamlError(path string, err error) error {
-	msg := err.Error()
-	if m := yamlLineRE.FindStringSubmatch(msg); m != nil {
-		line, _ := strconv.Atoi(m[1])
-		if strings.HasPrefix(m[2], "did not find expected") {
-			line++ // yaml.v3 reports these zero-based
-		}
-		return &SpecError{Path: path, Line: line, Msg: "YAML syntax: " + m[2], Err: err}
-	}
-	return &SpecError{Path: path, Msg: "YAML syntax: " + strings.TrimPrefix(msg, "yaml: "), Err: err}
+	return nil, &SpecError{Path: path, Line: perr.Line, Msg: perr.Msg, Err: perr.Err}
 }
 
 func parseType(p *yparser, m *ymap) reservoir.WellType {

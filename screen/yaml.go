@@ -1,7 +1,6 @@
 package screen
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -9,7 +8,7 @@ import (
 
 	"gopkg.in/yaml.v3"
 
-	"floodtrace/reservoir"
+	"floodtrace/internal/yamldoc"
 )
 
 // SpecError is a problem with a screening spec: the file, the line (0 if
@@ -53,32 +52,9 @@ func (p *yparser) failf(n *yaml.Node, format string, a ...any) {
 
 func (p *yparser) ok() bool { return p.err == nil }
 
-// deref follows YAML aliases (bounded, so alias loops cannot hang).
-func deref(n *yaml.Node) *yaml.Node {
-	for i := 0; n != nil && n.Kind == yaml.AliasNode && i < 64; i++ {
-		n = n.Alias
-	}
-	return n
-}
+func deref(n *yaml.Node) *yaml.Node { return yamldoc.Deref(n) }
 
-func describe(n *yaml.Node) string {
-	switch n.Kind {
-	case yaml.MappingNode:
-		return "a mapping"
-	case yaml.SequenceNode:
-		return "a list"
-	case yaml.ScalarNode:
-		if n.Tag == "!!null" {
-			return "nothing"
-		}
-		v := n.Value
-		if len(v) > 40 {
-			v = v[:40] + "..."
-		}
-		return fmt.Sprintf("%q", v)
-	}
-	return "something else"
-}
+func describe(n *yaml.Node) string { return yamldoc.Describe(n) }
 
 // ymap is a checked YAML mapping: its values and key nodes by name.
 type ymap struct {
@@ -86,14 +62,16 @@ type ymap struct {
 	node  *yaml.Node
 	vals  map[string]*yaml.Node
 	keys  map[string]*yaml.Node
+	m     *yamldoc.Map
 }
 
+// has reports whether key is written; the readers refuse a key written
+// with no value ("has no value"), as case files do (internal/yamldoc).
 func (m *ymap) has(k string) bool {
 	if m == nil {
 		return false
 	}
-	_, ok := m.vals[k]
-	return ok
+	return m.m.Given(k)
 }
 
 func (m *ymap) label(k string) string {
@@ -115,35 +93,27 @@ func (p *yparser) mapping(n *yaml.Node, where string, allowed, required []string
 	if name == "" {
 		name = "the spec"
 	}
-	if n.Kind != yaml.MappingNode {
-		p.failf(n, "%s must be a mapping (key: value lines), found %s", name, describe(n))
+	ym, probs := yamldoc.Mapping(n, allowed, required)
+	for _, pr := range probs {
+		switch pr.Kind {
+		case yamldoc.NotMapping:
+			p.failf(n, "%s must be a mapping (key: value lines), found %s", name, describe(n))
+		case yamldoc.BadKey:
+			p.failf(pr.Node, "%s: a key must be a plain name, found %s", name, describe(deref(pr.Node)))
+		case yamldoc.UnknownKey:
+			if pr.Suggest != "" {
+				p.failf(pr.Node, "unknown key %q in %s; did you mean %q? (allowed: %s)", pr.Key, name, pr.Suggest, strings.Join(allowed, ", "))
+			} else {
+				p.failf(pr.Node, "unknown key %q in %s (allowed: %s)", pr.Key, name, strings.Join(allowed, ", "))
+			}
+		case yamldoc.DuplicateKey:
+			p.failf(pr.Node, "key %q appears twice in %s (first on line %d)", pr.Key, name, pr.FirstLine)
+		case yamldoc.MissingKey:
+			p.failf(n, "%s: missing key %q", name, pr.Key)
+		}
 		return nil
 	}
-	m := &ymap{where: where, node: n, vals: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		k, v := deref(n.Content[i]), deref(n.Content[i+1])
-		if k.Kind != yaml.ScalarNode {
-			p.failf(k, "%s: a key must be a plain name, found %s", name, describe(k))
-			return nil
-		}
-		key := k.Value
-		if !contains(allowed, key) {
-			p.failf(k, "unknown key %q in %s; did you mean %q? (allowed: %s)", key, name, nearest(key, allowed), strings.Join(allowed, ", "))
-			return nil
-		}
-		if _, dup := m.vals[key]; dup {
-			p.failf(k, "key %q appears twice in %s (first on line %d)", key, name, m.keys[key].Line)
-			return nil
-		}
-		m.vals[key], m.keys[key] = v, k
-	}
-	for _, r := range required {
-		if _, ok := m.vals[r]; !ok {
-			p.failf(n, "%s: missing key %q", name, r)
-			return nil
-		}
-	}
-	return m
+	return &ymap{where: where, node: n, vals: ym.Vals, keys: ym.Keys, m: ym}
 }
 
 // number reads a finite number; check returns "" or what is wrong.
@@ -163,33 +133,7 @@ func (p *yparser) number(m *ymap, key string, def float64, check func(float64) s
 	return v
 }
 
-// scalarNumber parses a YAML scalar as a finite number.
-func scalarNumber(n *yaml.Node) (float64, string) {
-	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
-		return 0, "must be a number, found " + describe(n)
-	}
-	if n.Tag != "!!int" && n.Tag != "!!float" {
-		return 0, "must be a number, found " + describe(n)
-	}
-	v, err := strconv.ParseFloat(strings.ReplaceAll(n.Value, "_", ""), 64)
-	if err != nil {
-		var ne *strconv.NumError
-		if errors.As(err, &ne) && errors.Is(ne.Err, strconv.ErrRange) {
-			return 0, "is out of range"
-		}
-		// YAML spellings such as .inf, .nan, 0x1f, 0o17.
-		if n.Tag == "!!int" {
-			if i, err := strconv.ParseInt(n.Value, 0, 64); err == nil {
-				return float64(i), ""
-			}
-		}
-		return 0, "must be a finite number, found " + describe(n)
-	}
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, "must be a finite number, found " + describe(n)
-	}
-	return v, ""
-}
+func scalarNumber(n *yaml.Node) (float64, string) { return yamldoc.Number(n) }
 
 func (p *yparser) integer(m *ymap, key string, def, lo, hi int) int {
 	if !p.ok() || !m.has(key) {
@@ -215,7 +159,11 @@ func (p *yparser) str(m *ymap, key string) string {
 		return ""
 	}
 	n := m.vals[key]
-	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
+	if yamldoc.IsNull(n) {
+		p.failf(m.keys[key], "%s has no value; expected text", m.label(key))
+		return ""
+	}
+	if n.Kind != yaml.ScalarNode {
 		p.failf(n, "%s must be text, found %s", m.label(key), describe(n))
 		return ""
 	}
@@ -289,9 +237,9 @@ func contains(list []string, s string) bool {
 	return false
 }
 
-// nearest returns the element of list closest to s by edit distance
-// (reservoir.Nearest), whether or not it is close.
+// nearest returns the element of list closest to s (yamldoc.Nearest),
+// whether or not it is close.
 func nearest(s string, list []string) string {
-	best, _ := reservoir.Nearest(s, list)
+	best, _ := yamldoc.Nearest(s, list)
 	return best
 }
