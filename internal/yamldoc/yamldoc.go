@@ -226,11 +226,11 @@ type ProblemKind int
 
 // The problems Mapping finds.
 const (
-	NotMapping ProblemKind = iota // the node is not a mapping (Node is it)
-	BadKey                        // a key is not a plain scalar
-	UnknownKey                    // Key is not allowed here; Suggest is the nearest allowed key
-	DuplicateKey                  // Key is given twice; FirstLine is the first
-	MissingKey                    // a required Key is absent (Node is the mapping)
+	NotMapping   ProblemKind = iota // the node is not a mapping (Node is it)
+	BadKey                          // a key is not a plain scalar
+	UnknownKey                      // Key is not allowed here; Suggest is the nearest allowed key
+	DuplicateKey                    // Key is given twice; FirstLine is the first
+	MissingKey                      // a required Key is absent (Node is the mapping)
 )
 
 // Problem is one problem of a mapping, at Node's line.
