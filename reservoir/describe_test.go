@@ -127,22 +127,3 @@ func TestPeacemanRadius(t *testing.T) {
 		t.Errorf("axis swap: %g vs %g", a, b)
 	}
 }
-
-func TestLevenshtein(t *testing.T) {
-	// Levenshtein (1966) distances, worked by hand: kitten -> sitting
-	// needs two substitutions and one insertion.
-	for _, c := range []struct {
-		a, b string
-		d    int
-	}{{"kitten", "sitting", 3}, {"", "abc", 3}, {"flaw", "lawn", 2}, {"same", "same", 0}} {
-		if got := levenshtein(c.a, c.b); got != c.d {
-			t.Errorf("levenshtein(%q, %q) = %d, want %d", c.a, c.b, got, c.d)
-		}
-	}
-	if got, ok := Nearest("permx", []string{"perm", "perm_y", "porosity"}); got != "perm" || !ok {
-		t.Errorf("Nearest(permx) = %q, %v", got, ok)
-	}
-	if _, ok := Nearest("zzzzzzzz", []string{"perm"}); ok {
-		t.Error("a distant word was suggested")
-	}
-}

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"strconv"
 	"strings"
+
+	"floodtrace/internal/yamldoc"
 )
 
 // InputError is a problem with an input file: the case file, a map or a
@@ -103,28 +105,6 @@ func (c *collector) err() error {
 	return l
 }
 
-// levenshtein returns the edit distance between a and b (insertions,
-// deletions and substitutions of bytes; Levenshtein 1966).
-func levenshtein(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
-}
-
 // Nearest returns the candidate closest to s by edit distance (Levenshtein
 // 1966, compared in lower case; ties go to the earlier candidate), and
 // whether it is close enough to suggest: at most 2 edits, or half the
@@ -132,18 +112,4 @@ func levenshtein(a, b string) int {
 // it for their suggestions too.
 func Nearest(s string, candidates []string) (string, bool) { return nearest(s, candidates) }
 
-func nearest(s string, candidates []string) (string, bool) {
-	best, bestD := "", -1
-	ls := strings.ToLower(s)
-	for _, c := range candidates {
-		d := levenshtein(ls, strings.ToLower(c))
-		if bestD < 0 || d < bestD {
-			best, bestD = c, d
-		}
-	}
-	if bestD < 0 {
-		return "", false
-	}
-	limit := max(2, max(len(s), len(best))/2)
-	return best, bestD <= limit
-}
+func nearest(s string, candidates []string) (string, bool) { return yamldoc.Nearest(s, candidates) }

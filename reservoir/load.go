@@ -8,13 +8,13 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"regexp"
 	"slices"
-	"strconv"
 	"strings"
 	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
+
+	"floodtrace/internal/yamldoc"
 )
 
 // MaxCaseBytes is the largest case file Load reads (16 MiB).
@@ -122,84 +122,21 @@ type rawCase struct {
 	wellsNode *yaml.Node
 }
 
-var (
-	yamlLineRE   = regexp.MustCompile(`^yaml: line (\d+): (.*)$`)
-	yamlAnchorRE = regexp.MustCompile(`^yaml: unknown anchor '(.*)' referenced$`)
-)
-
-// yamlError turns a yaml.v3 syntax error into an *InputError with the
-// line of the problem. yaml.v3 reports parser errors ("did not find
-// expected ...") with a zero-based line, scanner errors with a one-based
-// line, tab errors at the scalar before the tab and unknown anchors with no
-// line; this corrects those cases.
-func (d *decoder) yamlError(err error, data []byte) error {
-	msg := err.Error()
-	if m := yamlLineRE.FindStringSubmatch(msg); m != nil {
-		line, _ := strconv.Atoi(m[1])
-		text := m[2]
-		switch {
-		case strings.HasPrefix(text, "did not find expected"):
-			line++
-		case strings.Contains(text, "tab character"):
-			if l := lineWhere(data, tabIndented); l > 0 {
-				line = l
-			}
-			text += " (indent with spaces, not tabs)"
-		case strings.Contains(text, "cannot start any token"):
-			if lines := strings.Split(string(data), "\n"); line >= 1 && line <= len(lines) && tabIndented(lines[line-1]) {
-				text += " (a tab: indent with spaces, not tabs)"
-			}
-		}
-		return &InputError{Path: d.path, Line: line, Msg: "YAML syntax: " + text, Err: err}
-	}
-	if m := yamlAnchorRE.FindStringSubmatch(msg); m != nil {
-		line := lineWhere(data, func(s string) bool { return strings.Contains(s, "*"+m[1]) })
-		return &InputError{Path: d.path, Line: line, Msg: fmt.Sprintf("YAML syntax: unknown anchor %q referenced", m[1]), Err: err}
-	}
-	return &InputError{Path: d.path, Msg: "YAML syntax: " + strings.TrimPrefix(msg, "yaml: "), Err: err}
-}
-
-// tabIndented reports whether the indentation of line s holds a tab.
-func tabIndented(s string) bool {
-	return strings.Contains(s[:len(s)-len(strings.TrimLeft(s, " \t"))], "\t")
-}
-
-// lineWhere returns the 1-based number of the first line of data for which
-// match is true, or 0.
-func lineWhere(data []byte, match func(string) bool) int {
-	for i, l := range strings.Split(string(data), "\n") {
-		if match(l) {
-			return i + 1
-		}
-	}
-	return 0
-}
-
-// parseYAML returns the root node of the single document in data.
-func (d *decoder) parseYAML(data []byte) (root *yaml.Node, err error) {
-	defer func() {
-		if r := recover(); r != nil {
-			root, err = nil, &InputError{Path: d.path, Msg: fmt.Sprintf("YAML parser failed: %v", r)}
-		}
-	}()
-	dec := yaml.NewDecoder(bytes.NewReader(data))
-	var doc yaml.Node
-	if err := dec.Decode(&doc); err != nil {
-		if errors.Is(err, io.EOF) {
-			return nil, &InputError{Path: d.path, Msg: "empty case file"}
-		}
-		return nil, d.yamlError(err, data)
-	}
-	var extra yaml.Node
-	if err := dec.Decode(&extra); err == nil {
-		return nil, &InputError{Path: d.path, Line: extra.Line, Msg: "more than one YAML document (a second '---'); a case file holds one"}
-	} else if !errors.Is(err, io.EOF) {
-		return nil, d.yamlError(err, data)
-	}
-	if len(doc.Content) == 0 || (doc.Content[0].Kind == yaml.ScalarNode && doc.Content[0].Tag == "!!null") {
+// parseYAML returns the root of the single YAML document in data
+// (internal/yamldoc, which corrects yaml.v3's line numbers: parser errors
+// come zero-based, tab errors at the scalar before the tab, unknown
+// anchors with no line).
+func (d *decoder) parseYAML(data []byte) (*yaml.Node, error) {
+	root, perr := yamldoc.Parse(data)
+	switch {
+	case perr == nil:
+		return root, nil
+	case perr.Empty:
 		return nil, &InputError{Path: d.path, Msg: "empty case file"}
+	case perr.Multiple:
+		return nil, &InputError{Path: d.path, Line: perr.Line, Msg: "more than one YAML document (a second '---'); a case file holds one"}
 	}
-	return doc.Content[0], nil
+	return nil, &InputError{Path: d.path, Line: perr.Line, Msg: perr.Msg, Err: perr.Err}
 }
 
 func (d *decoder) decode(data []byte) (*Model, error) {

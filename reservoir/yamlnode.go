@@ -3,11 +3,11 @@ package reservoir
 import (
 	"fmt"
 	"math"
-	"slices"
-	"strconv"
 	"strings"
 
 	"gopkg.in/yaml.v3"
+
+	"floodtrace/internal/yamldoc"
 )
 
 // section is one YAML mapping of the case file, checked against its
@@ -20,28 +20,11 @@ type section struct {
 	keys map[string]*yaml.Node
 }
 
-// deref follows YAML aliases.
-func deref(n *yaml.Node) *yaml.Node {
-	for i := 0; n != nil && n.Kind == yaml.AliasNode && i < 100; i++ {
-		n = n.Alias
-	}
-	return n
-}
+// deref follows YAML aliases (internal/yamldoc, shared with screening
+// specs).
+func deref(n *yaml.Node) *yaml.Node { return yamldoc.Deref(n) }
 
-func kindName(n *yaml.Node) string {
-	switch n.Kind {
-	case yaml.MappingNode:
-		return "a mapping"
-	case yaml.SequenceNode:
-		return "a list"
-	case yaml.ScalarNode:
-		if n.Tag == "!!null" {
-			return "nothing"
-		}
-		return fmt.Sprintf("%q", n.Value)
-	}
-	return "something else"
-}
+func kindName(n *yaml.Node) string { return yamldoc.Describe(n) }
 
 // where names a section in messages.
 func (s *section) where() string {
@@ -96,34 +79,26 @@ func (d *decoder) section(n *yaml.Node, name, well string, allowed, required []s
 		}
 		return nil
 	}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		kn, vn := deref(n.Content[i]), deref(n.Content[i+1])
-		if kn == nil || kn.Kind != yaml.ScalarNode {
-			d.fail(s, n.Content[i], "a key %s must be a plain word", s.where())
-			continue
-		}
-		key := kn.Value
-		if !slices.Contains(allowed, key) {
-			msg := fmt.Sprintf("unknown key %q %s", key, s.where())
-			if sug, ok := nearest(key, allowed); ok {
-				msg += fmt.Sprintf("; did you mean %q?", sug)
+	m, probs := yamldoc.Mapping(n, allowed, required)
+	for _, pr := range probs {
+		switch pr.Kind {
+		case yamldoc.BadKey:
+			d.fail(s, pr.Node, "a key %s must be a plain word", s.where())
+		case yamldoc.UnknownKey:
+			msg := fmt.Sprintf("unknown key %q %s", pr.Key, s.where())
+			if pr.Suggest != "" {
+				msg += fmt.Sprintf("; did you mean %q?", pr.Suggest)
 			} else {
 				msg += "; valid keys: " + strings.Join(allowed, ", ")
 			}
-			d.fail(s, kn, "%s", msg)
-			continue
-		}
-		if prev, dup := s.keys[key]; dup {
-			d.fail(s, kn, "key %q given twice %s (first on line %d)", key, s.where(), prev.Line)
-			continue
-		}
-		s.keys[key], s.vals[key] = kn, vn
-	}
-	for _, k := range required {
-		if _, ok := s.vals[k]; !ok {
-			d.fail(s, n, "missing key %q %s", k, s.where())
+			d.fail(s, pr.Node, "%s", msg)
+		case yamldoc.DuplicateKey:
+			d.fail(s, pr.Node, "key %q given twice %s (first on line %d)", pr.Key, s.where(), pr.FirstLine)
+		case yamldoc.MissingKey:
+			d.fail(s, n, "missing key %q %s", pr.Key, s.where())
 		}
 	}
+	s.vals, s.keys = m.Vals, m.Keys
 	return s
 }
 
@@ -136,39 +111,9 @@ func (s *section) has(key string) bool {
 	return ok && !(v.Kind == yaml.ScalarNode && v.Tag == "!!null")
 }
 
-// scalarNumber parses a YAML scalar as a finite number; msg describes the
-// problem.
-func scalarNumber(n *yaml.Node) (v float64, msg string) {
-	if n.Kind != yaml.ScalarNode {
-		return 0, "must be a number, found " + kindName(n)
-	}
-	switch n.Tag {
-	case "!!int", "!!float":
-		if err := n.Decode(&v); err != nil {
-			// Integers too large for int64 decode as float64 just as well;
-			// anything else is unreadable.
-			f, err2 := strconv.ParseFloat(strings.ReplaceAll(n.Value, "_", ""), 64)
-			if err2 != nil {
-				return 0, fmt.Sprintf("%q is not a number", n.Value)
-			}
-			v = f
-		}
-	case "!!str":
-		f, err := strconv.ParseFloat(strings.TrimSpace(n.Value), 64)
-		if err != nil {
-			return 0, fmt.Sprintf("%q is not a number", n.Value)
-		}
-		v = f
-	case "!!null":
-		return 0, "has no value; expected a number"
-	default:
-		return 0, fmt.Sprintf("%q is not a number", n.Value)
-	}
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, fmt.Sprintf("%q is not a finite number", n.Value)
-	}
-	return v, ""
-}
+// scalarNumber parses a YAML scalar as a finite number (yamldoc.Number);
+// msg describes the problem.
+func scalarNumber(n *yaml.Node) (v float64, msg string) { return yamldoc.Number(n) }
 
 // num returns the number at key, or def if the key is absent. check, if
 // not nil, returns a phrase such as "is not positive" for a bad value.

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"floodtrace/pressure"
+	"floodtrace/reservoir"
 )
 
 // TestBaseWithoutInjectors: a field on primary production (producers
@@ -75,6 +76,52 @@ run: {end: 600, report_every: 50, streamlines: 100}
 			}
 			if len(res.Injectors) != 1 || !(res.Injectors[0].CumWater > 0) {
 				t.Errorf("candidate %s: injectors %+v", p.Candidates[0].Name, res.Injectors)
+			}
+		})
+	}
+}
+
+// TestOneYAMLRule: a value written the same way means the same in a case
+// file and in a spec (one reader, internal/yamldoc): quoted numbers are
+// numbers, a key with no value is refused as having none.
+func TestOneYAMLRule(t *testing.T) {
+	dir := t.TempDir()
+	caseHead := `title: t
+units: field
+grid: {nx: 12, ny: 10, dx: 100, dy: 100}
+rock: {perm: 150, porosity: 0.2, thickness: 20}
+fluids: {water_viscosity: 0.5, oil_viscosity: 1.0}
+relperm:
+  corey: {swc: 0.2, sor: 0.2, krw_max: 0.4, kro_max: 0.9, nw: 2, no: 2}
+run: {end: 600}
+wells:
+  - {name: P-1, type: producer, x: 1050, y: 850, bhp: 500}
+`
+	if err := os.WriteFile(filepath.Join(dir, "case.yaml"), []byte(caseHead), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name, rate string
+		bad        string // "" = accepted
+	}{
+		{"plain", "300", ""},
+		{"quoted", `"300"`, ""},
+		{"no value", "", "rate"},
+		{"word", "lots", "must be a number"},
+		{"infinite", ".inf", "not a finite number"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			caseText := caseHead + "  - name: I-1\n    type: injector\n    x: 150\n    y: 150\n    rate: " + tc.rate + "\n"
+			_, caseErr := reservoir.Parse(filepath.Join(dir, "c2.yaml"), []byte(caseText))
+			spec := "base: case.yaml\ncandidates:\n  infill:\n    type: injector\n    spacing: [400, 400]\n    rate: " + tc.rate + "\n"
+			_, specErr := ParseSpec(filepath.Join(dir, "spec.yaml"), []byte(spec))
+			for what, err := range map[string]error{"case": caseErr, "spec": specErr} {
+				switch {
+				case tc.bad == "" && err != nil:
+					t.Errorf("%s refuses rate %q: %v", what, tc.rate, err)
+				case tc.bad != "" && (err == nil || !strings.Contains(err.Error(), tc.bad)):
+					t.Errorf("%s: rate %q gives %v, want an error containing %q", what, tc.rate, err, tc.bad)
+				}
 			}
 		})
 	}

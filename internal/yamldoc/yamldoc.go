@@ -178,19 +178,19 @@ func Number(n *yaml.Node) (v float64, msg string) {
 	if err != nil {
 		var ne *strconv.NumError
 		if errors.As(err, &ne) && errors.Is(ne.Err, strconv.ErrRange) {
-			return 0, fmt.Sprintf("= %s is out of range", text)
+			return 0, fmt.Sprintf("%q is out of range", n.Value)
 		}
 		// Integers in other bases: 0x1f, 0o17, 0b101.
 		if i, err := strconv.ParseInt(strings.ReplaceAll(text, "_", ""), 0, 64); err == nil {
 			return float64(i), ""
 		}
 		if n.Tag == "!!float" {
-			return 0, "must be a finite number, found " + Describe(n)
+			return 0, fmt.Sprintf("%q is not a finite number", n.Value)
 		}
 		return 0, "must be a number, found " + Describe(n)
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, "must be a finite number, found " + Describe(n)
+		return 0, fmt.Sprintf("%q is not a finite number", n.Value)
 	}
 	return v, ""
 }

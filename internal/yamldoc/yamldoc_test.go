@@ -125,6 +125,22 @@ func TestNearest(t *testing.T) {
 	}
 }
 
+func TestLevenshtein(t *testing.T) {
+	// Levenshtein (1966) distances, worked by hand: kitten -> sitting
+	// needs two substitutions and one insertion.
+	for _, c := range []struct {
+		a, b string
+		d    int
+	}{{"kitten", "sitting", 3}, {"", "abc", 3}, {"flaw", "lawn", 2}, {"same", "same", 0}} {
+		if got := levenshtein(c.a, c.b); got != c.d {
+			t.Errorf("levenshtein(%q, %q) = %d, want %d", c.a, c.b, got, c.d)
+		}
+	}
+	if got, ok := Nearest("prem", []string{"perm", "perm_y", "porosity"}); got != "perm" || !ok {
+		t.Errorf("Nearest(prem) = %q, %v", got, ok)
+	}
+}
+
 func FuzzParse(f *testing.F) {
 	for _, s := range []string{"a: 1", "a: &x [1, *x]", "---\n---", "a:\n\t- b", "{a: {b: {c: *d}}}"} {
 		f.Add([]byte(s))
