@@ -406,10 +406,9 @@ func (g *gridRun) stableStep() float64 {
 		best := math.Inf(1)
 		for i := range nx {
 			c := j*nx + i
-			// Clamped: the flux table's cubic interpolation may dip below
-			// 0 by ~1e-9 just above a kink at connate water. Every
-			// transfer below uses these values, so water stays conserved.
-			g.fw[c] = math.Min(1, math.Max(0, g.fl.Fw(g.sw[c])))
+			// In [0, 1] (the flux table clamps); every transfer below
+			// uses these values, so water stays conserved.
+			g.fw[c] = g.fl.Fw(g.sw[c])
 		}
 		for i := range nx {
 			c := j*nx + i
