@@ -132,6 +132,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	if err != nil {
 		return nil, err
 	}
+	m, late := withinRun(m)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if err := ff.Validate(); err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
@@ -148,6 +149,9 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	g := &gridRun{book: newBook(m, sched, "grid"), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
 	if g.logf == nil {
 		g.logf = func(string, ...any) {}
+	}
+	for _, w := range late {
+		g.warn(w)
 	}
 	if !(g.swi >= 0 && g.swi <= 1) {
 		return nil, fmt.Errorf("flood: initial water saturation %g outside [0, 1]", g.swi)

@@ -199,6 +199,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	if s.Workers < 0 {
 		return nil, fmt.Errorf("flood: negative worker count %d", s.Workers)
 	}
+	m, late := withinRun(m)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if err := ff.Validate(); err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
@@ -219,6 +220,9 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	}
 	if u.logf == nil {
 		u.logf = func(string, ...any) {}
+	}
+	for _, w := range late {
+		u.warn(w)
 	}
 	// Injectors inject water only. The flux table interpolates fw between
 	// its nodes, so at a kink of the curve at 1-sor its value there may
