@@ -132,6 +132,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	if err != nil {
 		return nil, err
 	}
+	m, late := withinRun(m)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if err := ff.Validate(); err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
@@ -148,6 +149,9 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	g := &gridRun{book: newBook(m, sched, "grid"), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
 	if g.logf == nil {
 		g.logf = func(string, ...any) {}
+	}
+	for _, w := range late {
+		g.warn(w)
 	}
 	if !(g.swi >= 0 && g.swi <= 1) {
 		return nil, fmt.Errorf("flood: initial water saturation %g outside [0, 1]", g.swi)
@@ -390,10 +394,9 @@ func (g *gridRun) stableStep() float64 {
 		best := math.Inf(1)
 		for i := range nx {
 			c := j*nx + i
-			// Clamped: the flux table's cubic interpolation may dip below
-			// 0 by ~1e-9 just above a kink at connate water. Every
-			// transfer below uses these values, so water stays conserved.
-			g.fw[c] = math.Min(1, math.Max(0, g.fl.Fw(g.sw[c])))
+			// In [0, 1] (the flux table clamps); every transfer below
+			// uses these values, so water stays conserved.
+			g.fw[c] = g.fl.Fw(g.sw[c])
 		}
 		for i := range nx {
 			c := j*nx + i

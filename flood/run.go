@@ -153,21 +153,20 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	default:
 		return nil, fmt.Errorf("unknown engine %q (want streamline or grid)", s.Engine)
 	}
-	if needsUpdates(m) {
+	// Events and openings after the end change nothing, not even the mode.
+	// RunUpdates drops them again and warns.
+	mm, late := withinRun(m)
+	if needsUpdates(mm) {
 		return RunUpdates(m, s, UpdateOptions{})
 	}
+	m = mm
+	// From here the case has no schedule event and no late well (they send
+	// it to pressure updates above).
 	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
+	r.Warnings = append(r.Warnings, late...)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if mr := ff.EndpointMobilityRatio(); mr > 2 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("end-point mobility ratio is %.2g (above 2): fixed streamlines assume the velocity field does not change; use pressure updates (run.pressure_updates) for a better estimate", mr))
-	}
-	if len(m.Schedule) > 0 {
-		r.Warnings = append(r.Warnings, fmt.Sprintf("the case has %d schedule event(s); fixed streamlines keep the initial well controls: use pressure updates (run.pressure_updates > 1) to honour the schedule", len(m.Schedule)))
-	}
-	for _, w := range m.Wells {
-		if w.Open > 0 {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("well %s opens on day %g; fixed streamlines treat it as open from the start", w.Name, w.Open))
-		}
 	}
 
 	logf("pressure: solving %d cells", m.Grid.N())

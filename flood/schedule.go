@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"floodtrace/reservoir"
 )
@@ -160,4 +161,104 @@ func (s *WellSchedule) EverType(i int, typ reservoir.WellType, end float64) bool
 		}
 	}
 	return false
+}
+
+// withinRun returns m without what cannot change its run: the schedule
+// events on or after the end of the run, and the wells that open on or
+// after it (with all their events), unless an event before the end reopens
+// them. Such an event or well must not send the case to pressure updates
+// or show in the outputs, so the run is that of the case without them. It
+// returns one warning for each, naming the well, the day and the case
+// line. m is not changed; when nothing is dropped it is returned itself.
+// Events naming unknown wells and non-finite days are kept, for
+// NewWellSchedule to refuse.
+func withinRun(m *reservoir.Model) (*reservoir.Model, []string) {
+	end := m.Run.End
+	late := func(t float64) bool { return t >= end && !math.IsInf(t, 0) }
+	reopened := map[string]bool{}
+	for _, e := range m.Schedule {
+		if e.Reopen && !late(e.Time) {
+			reopened[e.Well] = true
+		}
+	}
+	var warns []string
+	dropWell := map[string]bool{}
+	for _, w := range m.Wells {
+		if late(w.Open) && !reopened[w.Name] {
+			dropWell[w.Name] = true
+		}
+	}
+	if len(dropWell) == 0 && !slices.ContainsFunc(m.Schedule, func(e reservoir.Event) bool {
+		return late(e.Time) && m.WellIndex(e.Well) >= 0
+	}) {
+		return m, nil
+	}
+	mm := *m
+	mm.Wells = nil
+	for _, w := range m.Wells {
+		if !dropWell[w.Name] {
+			mm.Wells = append(mm.Wells, w)
+			continue
+		}
+		n := 0
+		for _, e := range m.Schedule {
+			if e.Well == w.Name && !late(e.Time) {
+				n++
+			}
+		}
+		msg := fmt.Sprintf("%swell %s opens on day %g, not before the end of the run (day %g): it never flows and is left out of the run",
+			caseLine(m, w.Line), w.Name, w.Open, end)
+		if n > 0 {
+			msg += fmt.Sprintf(", with its %d schedule event(s) before that day", n)
+		}
+		warns = append(warns, msg)
+	}
+	mm.Schedule = nil
+	for _, e := range m.Schedule {
+		switch {
+		case late(e.Time) && m.WellIndex(e.Well) >= 0:
+			warns = append(warns, fmt.Sprintf("%sschedule event for well %s on day %g (%s) is not before the end of the run (day %g): ignored",
+				caseLine(m, e.Line), e.Well, e.Time, eventAction(e), end))
+		case dropWell[e.Well]:
+		default:
+			mm.Schedule = append(mm.Schedule, e)
+		}
+	}
+	return &mm, warns
+}
+
+// caseLine returns "path:line: " for a message about a line of the case
+// file, or "" when the model was not read from a file.
+func caseLine(m *reservoir.Model, line int) string {
+	switch {
+	case m.Path != "" && line > 0:
+		return fmt.Sprintf("%s:%d: ", m.Path, line)
+	case m.Path != "":
+		return m.Path + ": "
+	}
+	return ""
+}
+
+// eventAction describes what a schedule event does, for messages.
+func eventAction(e reservoir.Event) string {
+	var parts []string
+	switch {
+	case e.Shut:
+		parts = append(parts, "shut-in")
+	case e.Reopen:
+		parts = append(parts, "reopening")
+	}
+	if e.Convert != "" {
+		parts = append(parts, "conversion to "+string(e.Convert))
+	}
+	if !math.IsNaN(e.Rate) {
+		parts = append(parts, fmt.Sprintf("rate %g", e.Rate))
+	}
+	if !math.IsNaN(e.BHP) {
+		parts = append(parts, fmt.Sprintf("BHP %g", e.BHP))
+	}
+	if len(parts) == 0 {
+		return "no change"
+	}
+	return strings.Join(parts, ", ")
 }

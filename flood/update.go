@@ -199,6 +199,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	if s.Workers < 0 {
 		return nil, fmt.Errorf("flood: negative worker count %d", s.Workers)
 	}
+	m, late := withinRun(m)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if err := ff.Validate(); err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
@@ -219,6 +220,9 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	}
 	if u.logf == nil {
 		u.logf = func(string, ...any) {}
+	}
+	for _, w := range late {
+		u.warn(w)
 	}
 	// Injectors inject water only. The flux table interpolates fw between
 	// its nodes, so at a kink of the curve at 1-sor its value there may
@@ -702,9 +706,9 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 		} else {
 			fw = u.fl.Fw(u.sw[u.m.Wells[P.Well].Cell])
 		}
-		// The flux table's cubic interpolation may dip below 0 by ~1e-9
-		// just above a kink of the curve at connate water.
-		fw = math.Min(1, math.Max(0, fw))
+		// No clamp here: the flux table returns fw in [0, 1], the lines
+		// transported that same water, and a clamp of this copy alone
+		// would book water the lines never delivered.
 		u.perW[p] += u.rate[p] * fw * dt
 		u.perL[p] += u.rate[p] * dt
 		if !u.broken[p] && (fw > u.threshold || flux[p] > 0 && inst[p] > u.threshold*flux[p]) {

@@ -1,6 +1,7 @@
 package flood
 
 import (
+	"fmt"
 	"math"
 	"slices"
 	"testing"
@@ -114,9 +115,7 @@ func TestUpdatesBuckleyLeverett(t *testing.T) {
 		t.Fatalf("%d solves with engine %q, want 6 streamline solves", r.Solves, r.Engine)
 	}
 	checkBuckleyLeverett(t, r, 0.02, 0.04)
-	if math.Abs(r.MassBalanceError) > 1e-9 {
-		t.Errorf("mass balance error %g", r.MassBalanceError)
-	}
+	checkMassBalance(t, "updates channel", r.MassBalanceError, 1e-12) // measured -1.6e-13
 }
 
 // constantMobility is a relative-permeability pair whose sum is 1 at every
@@ -176,6 +175,18 @@ func heteroCase(t testing.TB, n int, seed uint64, krw, muw, kro, muo float64) *r
 	return m
 }
 
+// checkMassBalance logs a run's mass balance error (injected - produced -
+// change of water in place, over injected) and fails unless it is within
+// tol; the tolerances are a few times the measured figure, so a change
+// that stops conserving water fails.
+func checkMassBalance(t *testing.T, what string, got, tol float64) {
+	t.Helper()
+	t.Logf("%s: mass balance error %.2g (tolerance %.0e)", what, got, tol)
+	if !(math.Abs(got) <= tol) {
+		t.Errorf("%s: mass balance error %g, want within %g", what, got, tol)
+	}
+}
+
 // waterCutRMS is the RMS difference of the producers' water cuts of two
 // runs with the same report times.
 func waterCutRMS(t testing.TB, a, b *Result) float64 {
@@ -223,9 +234,12 @@ func TestUnitMobilityFixedEqualsUpdated(t *testing.T) {
 }
 
 // TestUpdatesMassBalance: the cell-to-streamline mappings and the 1D
-// scheme conserve water, so injected - produced - change of water in
-// place must vanish (to 1e-4 of the injected volume) over a run with
-// updates, on a heterogeneous case with an unfavourable mobility ratio.
+// scheme conserve water (conservative finite volumes, LeVeque 2002, from
+// memory), so injected - produced - change of water in place vanishes to
+// round-off over a run with updates, on a heterogeneous case with an
+// unfavourable mobility ratio: 4.8e-11 of the injected volume, checked to
+// 2e-10. (A clamp of the producers' water fraction that the transport did
+// not see once made it -2e-8.)
 func TestUpdatesMassBalance(t *testing.T) {
 	m := heteroCase(t, 30, 3, 0.4, 0.5, 0.9, 5)
 	m.Run.PressureUpdates = 8
@@ -233,10 +247,7 @@ func TestUpdatesMassBalance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	t.Logf("mass balance error %.2g over %d solves", r.MassBalanceError, r.Solves)
-	if !(math.Abs(r.MassBalanceError) < 1e-4) {
-		t.Errorf("mass balance error %g, want below 1e-4", r.MassBalanceError)
-	}
+	checkMassBalance(t, fmt.Sprintf("updates, %d solves", r.Solves), r.MassBalanceError, 2e-10) // measured 4.8e-11
 	// The same balance by hand from the reported volumes and the last map.
 	injected := 0.0
 	for _, in := range r.Injectors {
@@ -254,9 +265,7 @@ func TestUpdatesMassBalance(t *testing.T) {
 			dW += m.PoreVolume(c) * (s - m.Fluids.InitialSw)
 		}
 	}
-	if e := (injected - produced - dW) / injected; !(math.Abs(e) < 1e-4) {
-		t.Errorf("balance from the outputs %g, want below 1e-4", e)
-	}
+	checkMassBalance(t, "from the outputs", (injected-produced-dW)/injected, 2e-10) // measured 4.8e-11
 	if got, want := r.PVI[last], injected/r.PoreVolume; math.Abs(got-want) > 1e-12*want {
 		t.Errorf("final PVI %g, want %g", got, want)
 	}

@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"floodtrace/reservoir"
 )
 
 func TestFluxTable(t *testing.T) {
@@ -56,6 +58,59 @@ func TestFluxTable(t *testing.T) {
 	}
 	if _, err := NewFlux(nil); err == nil {
 		t.Error("NewFlux accepted nil")
+	}
+}
+
+// TestFluxTableStaysInRange: where connate water falls between two table
+// nodes, fw has a kink (0 below it, rising above), and the cubic Hermite
+// interpolant on the interval around the kink (slope 0 at the lower node,
+// not at the upper) undershoots below 0: cubic Hermite interpolation of
+// monotone data need not be monotone (Fritsch and Carlson 1980). A
+// fractional flow below 0 makes the transport produce negative water, and
+// a book that clamps only its own copy of it no longer balances; so the
+// table itself returns values in [0, 1] to every caller. The curves: that
+// of the flood package's heterogeneous test case, an invented one with
+// connate water 0.1234 and the test sandstone (no end point on a node).
+func TestFluxTableStaysInRange(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		ff   *FracFlow
+	}{
+		{"swc 0.2, mobility ratio 4.4", NewFracFlow(reservoir.Corey{Swc: 0.2, Sor: 0.2, KrwMax: 0.4, KroMax: 0.9, Nw: 2, No: 2}, 0.5, 5)},
+		{"swc 0.1234, nw 3", NewFracFlow(reservoir.Corey{Swc: 0.1234, Sor: 0.3, KrwMax: 0.3, KroMax: 1, Nw: 3, No: 2}, 0.4, 2)},
+		{"sandstone", sandstone()},
+	} {
+		fl, err := NewFlux(c.ff)
+		if err != nil {
+			t.Fatal(err)
+		}
+		swc, sor := c.ff.Endpoints()
+		// 400 points across each interval that holds an end point, and a
+		// sweep of the whole range.
+		var ss []float64
+		for _, e := range []float64{swc, 1 - sor} {
+			k := math.Floor(e * fluxIntervals)
+			for q := 0; q <= 400; q++ {
+				ss = append(ss, (k+float64(q)/400)/fluxIntervals)
+			}
+		}
+		for q := 0; q <= 20000; q++ {
+			ss = append(ss, float64(q)/20000)
+		}
+		for _, s := range ss {
+			if v := fl.Fw(s); !(v >= 0 && v <= 1) {
+				t.Errorf("%s: Fw(%.17g) = %g outside [0, 1]", c.name, s, v)
+				break
+			}
+		}
+		// Below connate water the table is exactly 0, and away from the
+		// kink the clamp changes nothing (TestFluxTable checks the error).
+		if v := fl.Fw(swc / 2); v != 0 {
+			t.Errorf("%s: Fw below connate water %g, want 0", c.name, v)
+		}
+		if e := math.Abs(fl.Fw(0.5) - c.ff.Fw(0.5)); e > 1e-10 {
+			t.Errorf("%s: Fw(0.5) off the curve by %g", c.name, e)
+		}
 	}
 }
 

@@ -81,19 +81,32 @@ func NewFlux(c Curve) (*Flux, error) {
 	return fl, nil
 }
 
-// Fw returns the interpolated fractional flow at s, clamped to [0, 1].
+// Fw returns the interpolated fractional flow at s, clamped to [0, 1]. The
+// cubic may leave [0, 1] by round-off-sized amounts (about 1e-11) on the
+// interval holding a kink of the curve at an end point of the mobile range;
+// the clamp is here, once, so that the transport of Advance and every
+// caller's bookkeeping see the same value and water is conserved.
 func (fl *Flux) Fw(s float64) float64 {
 	x := s * fluxIntervals
-	if !(x > 0) {
-		return fl.f[0]
+	var v float64
+	switch {
+	case !(x > 0):
+		v = fl.f[0]
+	case x >= fluxIntervals:
+		v = fl.f[fluxIntervals]
+	default:
+		k := int(x)
+		t := x - float64(k)
+		c := &fl.poly[k]
+		v = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
 	}
-	if x >= fluxIntervals {
-		return fl.f[fluxIntervals]
+	if v < 0 {
+		return 0
 	}
-	k := int(x)
-	t := x - float64(k)
-	c := &fl.poly[k]
-	return c[0] + t*(c[1]+t*(c[2]+t*c[3]))
+	if v > 1 {
+		return 1
+	}
+	return v
 }
 
 // DFw returns the slope of the interpolant at s (0 outside [0, 1]).
