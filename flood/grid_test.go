@@ -81,7 +81,7 @@ func TestGridDeterministic(t *testing.T) {
 
 // TestGridResolveCriterion: re-solving the pressure only when the mean
 // saturation has changed by 0.002 gives the water cuts of re-solving at
-// every step (the reference IMPES) to within 0.005 RMS.
+// every step (the reference IMPES) to within 0.002 RMS (measured 6.1e-4).
 func TestGridResolveCriterion(t *testing.T) {
 	m := heteroCase(t, 16, 9, 0.4, 0.5, 0.9, 5)
 	every, err := RunGrid(m, Settings{Frames: -1}, GridOptions{ResolveEvery: 1})
@@ -96,7 +96,7 @@ func TestGridResolveCriterion(t *testing.T) {
 	if !(lazy.Solves < every.Solves/2) {
 		t.Errorf("%d solves with the change criterion, %d at every step", lazy.Solves, every.Solves)
 	}
-	if rms := waterCutRMS(t, every, lazy); !(rms < 0.005) {
+	if rms := waterCutRMS(t, every, lazy); !(rms < 0.002) {
 		t.Errorf("water-cut RMS difference %.4f between every-step and lazy re-solves", rms)
 	}
 }
@@ -104,8 +104,8 @@ func TestGridResolveCriterion(t *testing.T) {
 // TestUpdatesMatchGrid: with an end-point mobility ratio of 4.4 the
 // velocity field changes as water displaces oil. Streamlines updated 15
 // times follow it and match the independent grid engine (IMPES) within
-// 0.05 RMS in the producers' water cuts, closer than fixed streamlines,
-// which keep the initial field.
+// 0.045 RMS in the producers' water cuts (twice the measured 0.0222),
+// closer than fixed streamlines, which keep the initial field (0.0593).
 func TestUpdatesMatchGrid(t *testing.T) {
 	m := heteroCase(t, 40, 7, 0.4, 0.5, 0.9, 5)
 	if mr := (0.4 / 0.5) / (0.9 / 5); !(mr > 3) {
@@ -126,8 +126,8 @@ func TestUpdatesMatchGrid(t *testing.T) {
 	}
 	rUpd, rFixed := waterCutRMS(t, upd, grid), waterCutRMS(t, fixed, grid)
 	t.Logf("water-cut RMS vs grid engine: updated %.4f, fixed %.4f", rUpd, rFixed)
-	if !(rUpd < 0.05) {
-		t.Errorf("updated streamlines vs grid: RMS %.4f, want < 0.05", rUpd)
+	if !(rUpd < 0.045) {
+		t.Errorf("updated streamlines vs grid: RMS %.4f, want < 0.045", rUpd)
 	}
 	if !(rUpd < rFixed) {
 		t.Errorf("updated streamlines (RMS %.4f) are not closer to the grid engine than fixed ones (%.4f)", rUpd, rFixed)

@@ -78,17 +78,20 @@ func (rc radialCase) solve(t *testing.T) (*reservoir.Model, *Solution) {
 // did, comparing it with the 1983 formula.
 func TestRadialField(t *testing.T) {
 	cases := []radialCase{
+		// Tolerances are about three times the measured errors (field
+		// 2.0e-3, 2.0e-3, 6.1e-3; ro 0.27%, 0.27%, 0.19%).
 		// Peaceman (1978): square isotropic cells.
 		{name: "isotropic", n: 201, dx: 50, dy: 50, kx: 100, ky: 100, h: 30, mu: 1.2, q: 500, inj: 70,
-			rw: 0.3, tolField: 0.01, tolRadius: 0.01, minR: 5, maxR: 20, checkField141: true},
+			rw: 0.3, tolField: 6e-3, tolRadius: 8e-3, minR: 5, maxR: 20, checkField141: true},
 		// Peaceman (1983): anisotropic with dy/dx = sqrt(ky/kx), square in
 		// the transformed coordinates.
 		{name: "anisotropic-square", n: 201, dx: 40, dy: 20, kx: 200, ky: 50, h: 20, mu: 0.8, q: 400, inj: 70,
-			rw: 0.25, tolField: 0.01, tolRadius: 0.02, minR: 5, maxR: 20},
+			rw: 0.25, tolField: 6e-3, tolRadius: 8e-3, minR: 5, maxR: 20},
 		// Peaceman (1983): anisotropic on square cells, a 2:1 rectangle
-		// in the transformed coordinates; "within a few percent".
+		// in the transformed coordinates ("within a few percent" by
+		// Peaceman's account; 0.19% here).
 		{name: "anisotropic-rect", n: 201, dx: 30, dy: 30, kx: 400, ky: 100, h: 25, mu: 1, q: 300, inj: 70,
-			rw: 0.3, tolField: 0.02, tolRadius: 0.03, minR: 6, maxR: 20},
+			rw: 0.3, tolField: 0.018, tolRadius: 6e-3, minR: 6, maxR: 20},
 	}
 	for _, rc := range cases {
 		t.Run(rc.name, func(t *testing.T) {
@@ -163,7 +166,9 @@ func TestRadialField(t *testing.T) {
 // (all rate-controlled, so solved with a gauge) against superposition of
 // the steady radial solution (method of images / superposition, common
 // practice; 141.2 from memory): with no skin,
-// BHP_inj - BHP_prod = 2*141.2*q*mu/(k*h)*ln(L/rw), to 2%.
+// BHP_inj - BHP_prod = 2*141.2*q*mu/(k*h)*ln(L/rw), to 6e-3 (about three
+// times the measured 1.9e-3 and 2.0e-3; a 5% error in the equivalent
+// radius moves the difference by about 0.65%, a 12% error by 1.5%).
 func TestDoublet(t *testing.T) {
 	cases := []struct {
 		name        string
@@ -192,7 +197,7 @@ func TestDoublet(t *testing.T) {
 			L := float64(tc.sep) * tc.d
 			want := 2 * 141.2 * tc.q * tc.mu / (tc.k * tc.h) * math.Log(L/tc.rw)
 			got := sol.Wells[0].BHP - sol.Wells[1].BHP
-			if e := math.Abs(got-want) / want; e > 0.02 {
+			if e := math.Abs(got-want) / want; e > 6e-3 {
 				t.Errorf("BHP difference %.6g psi, superposition %.6g (rel %.3g)", got, want, e)
 			} else {
 				t.Logf("BHP difference %.6g psi, superposition %.6g (rel %.2e), %d iterations", got, want, e, sol.Iterations)

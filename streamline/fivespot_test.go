@@ -16,8 +16,9 @@ import (
 // breakthrough in pore volumes is the smallest injector-to-producer time of
 // flight times the injection rate over the pore volume; it does not depend
 // on the rate. The two-point pressure solve and the corner-cell wells bias
-// coarse grids; the error must shrink with refinement and be within 0.02
-// at 201 x 201.
+// coarse grids; the error must shrink with refinement and be within 3e-4
+// at 201 x 201 (measured at 2000 lines: +1.1e-3, +3.5e-4, +9e-5 at 51,
+// 101, 201; the bound is about three times the last).
 func TestQuarterFiveSpot(t *testing.T) {
 	const want = 0.7178
 	sizes := []int{51, 101, 201}
@@ -58,7 +59,7 @@ func TestQuarterFiveSpot(t *testing.T) {
 			t.Errorf("%d: warnings %q", size, r.Warnings)
 		}
 	}
-	if e := errs[len(errs)-1]; math.Abs(e) > 0.02 {
+	if e := errs[len(errs)-1]; math.Abs(e) > 3e-4 {
 		t.Errorf("201x201 breakthrough off by %g PV", e)
 	}
 	for n := 1; n < len(errs); n++ {
@@ -243,27 +244,34 @@ func diffResult(a, b *streamline.Result) string {
 // TestVolumeBookkeeping checks, on a heterogeneous field with several
 // wells, that the sum over lines of flux*tau approaches the pore volume of
 // the flowing region as the lines get denser (within 1% at the default
-// count), that each producer receives exactly its rate, that each injector
-// sends its rate, and that the allocation fractions of each well sum to 1
-// (common practice).
+// count), that the cell by cell traced volumes converge to the cells' pore
+// volumes (the pore-volume weighted relative L1 error sum|V_k - PV_k| /
+// sum PV_k falls with every doubling of the count and stays below a bound
+// about 15% above its measured value: 0.152, 0.089, 0.052, 0.027 at 250,
+// 1000, 2000, 4000 lines), that each producer receives exactly its rate,
+// that each injector sends its rate, and that the allocation fractions of
+// each well sum to 1 (common practice).
 func TestVolumeBookkeeping(t *testing.T) {
 	f := solve(t, heterogeneous(t, 90, 11))
-	t.Logf("%6s %8s %12s %12s", "count", "lines", "traced/PV", "cells |err|>10%")
-	for _, count := range []int{250, 1000, 2000, 4000} {
+	t.Logf("%6s %8s %12s %12s", "count", "lines", "traced/PV", "L1 rel")
+	prevL1 := math.Inf(1)
+	for _, tc := range []struct {
+		count int
+		maxL1 float64
+	}{{250, 0.175}, {1000, 0.10}, {2000, 0.06}, {4000, 0.031}} {
+		count := tc.count
 		r, err := streamline.Trace(f, streamline.Settings{Count: count})
 		if err != nil {
 			t.Fatal(err)
 		}
-		flowing, traced := 0.0, 0.0
-		off := 0
+		flowing, traced, l1 := 0.0, 0.0, 0.0
 		for k, pv := range f.PoreVolume {
 			if !r.Stagnant[k] {
 				flowing += pv
-				if math.Abs(r.Volume[k]/pv-1) > 0.1 {
-					off++
-				}
+				l1 += math.Abs(r.Volume[k] - pv)
 			}
 		}
+		l1 /= flowing
 		in := make([]float64, len(f.Wells))
 		out := make([]float64, len(f.Wells))
 		for _, l := range r.Lines {
@@ -275,7 +283,14 @@ func TestVolumeBookkeeping(t *testing.T) {
 				in[l.Producer] += l.Flux
 			}
 		}
-		t.Logf("%6d %8d %12.6f %12d", count, len(r.Lines), traced/flowing, off)
+		t.Logf("%6d %8d %12.6f %12.5f", count, len(r.Lines), traced/flowing, l1)
+		if !(l1 <= tc.maxL1) {
+			t.Errorf("count %d: traced cell volumes off their pore volumes by %.4f (relative L1), bound %g", count, l1, tc.maxL1)
+		}
+		if !(l1 < prevL1) {
+			t.Errorf("count %d: relative L1 error %.4f does not fall from %.4f with more lines", count, l1, prevL1)
+		}
+		prevL1 = l1
 		if count >= 2000 && math.Abs(traced/flowing-1) > 0.01 {
 			t.Errorf("count %d: traced pore volume %g, flowing pore volume %g", count, traced, flowing)
 		}

@@ -100,25 +100,46 @@ func peacemanModel(n int, dx, kx, ky, h, q float64) *reservoir.Model {
 	return m
 }
 
-// PeacemanSquare checks the equivalent radius of a well block in a square,
-// isotropic grid: the numerical pressure field around a well matches the
-// steady radial solution with ro = 0.198*dx (Peaceman 1978; the value
-// 0.1985 from the exact analysis of the five-point scheme, from memory).
-type PeacemanSquare struct{}
+// PeacemanSquare checks the well model of a square, isotropic grid. The
+// numerical pressure field around a rate well matches the steady radial
+// solution with the equivalent radius ro = 0.198*dx (Peaceman 1978; the
+// value 0.1985 from the exact analysis of the five-point scheme, from
+// memory); and the well's BHP, which comes from the well index, matches
+// the steady radial solution p_w - p(r) = 141.2*q*mu/(k*h)*ln(r/rw)
+// (Darcy's law in radial form, field units) at r = 10*dx, the mean of the
+// four cells on the axes at that distance.
+type PeacemanSquare struct {
+	// Skin is the well's skin factor: zero for the benchmark; the tests
+	// set it to make sure the well-index check can fail.
+	Skin float64
+}
 
 // Name returns the problem's identifier.
 func (PeacemanSquare) Name() string { return "peaceman-1978" }
 
 // Run solves the problem.
-func (PeacemanSquare) Run() ([]Check, error) {
+func (p PeacemanSquare) Run() ([]Check, error) {
 	const n, dx, k, h, q = 161, 10.0, 100.0, 10.0, 200.0
 	m := peacemanModel(n, dx, k, k, h, q)
+	m.Wells[0].Skin = p.Skin
 	sol, err := solve(m)
 	if err != nil {
 		return nil, err
 	}
-	ro := wellRingRadius(sol, m.Grid, n/2, n/2, k, k, h, q, 1)
-	return []Check{check("peaceman-1978", "equivalent radius / dx", "Peaceman (1978): 0.198", 0.198, ro/dx, 0.02, true)}, nil
+	c := n / 2
+	ro := wellRingRadius(sol, m.Grid, c, c, k, k, h, q, 1)
+	// The well index: BHP against the block pressures 10 cells away.
+	const r = 10
+	pr := 0.0
+	for _, d := range [][2]int{{r, 0}, {-r, 0}, {0, r}, {0, -r}} {
+		pr += sol.P[m.Grid.Index(c+d[0], c+d[1])] / 4
+	}
+	rw := m.Wells[0].Radius
+	want := radial * q * 1 / (k * h) * math.Log(r*dx/rw)
+	return []Check{
+		check("peaceman-1978", "equivalent radius / dx", "Peaceman (1978): 0.198", 0.198, ro/dx, 5e-3, true),
+		check("peaceman-1978", "BHP - p at 10 dx, psi (well index)", "steady radial flow 141.2*q*mu/(k*h)*ln(r/rw), Peaceman (1978) ro", want, sol.Wells[0].BHP-pr, 1e-3, true),
+	}, nil
 }
 
 // PeacemanAnisotropic checks the anisotropic equivalent radius of Peaceman
@@ -145,7 +166,7 @@ func (PeacemanAnisotropic) Run() ([]Check, error) {
 	// fitted radius is scaled back by the same factor.
 	ellipse := (math.Pow(ky/kx, 0.25) + math.Pow(kx/ky, 0.25)) / 2
 	ro := wellRingRadius(sol, m.Grid, n/2, n/2, kx, ky, h, q, 1) / ellipse
-	return []Check{check("peaceman-1983", "equivalent radius, ft", "Peaceman (1983) anisotropic form", want, ro, 0.03, true)}, nil
+	return []Check{check("peaceman-1983", "equivalent radius, ft", "Peaceman (1983) anisotropic form", want, ro, 0.02, true)}, nil
 }
 
 // Doublet is a rate injector and a rate producer 20 cells apart in a large
@@ -172,7 +193,7 @@ func (Doublet) Run() ([]Check, error) {
 	rw := m.Wells[0].Radius
 	want := 2 * radial * q / (k * h) * math.Log(20*dx/rw)
 	got := sol.Wells[0].BHP - sol.Wells[1].BHP
-	return []Check{check("doublet", "BHP difference, psi", "superposition of radial flow, 2*141.2*q*mu/(k*h)*ln(L/rw)", want, got, 0.02, true)}, nil
+	return []Check{check("doublet", "BHP difference, psi", "superposition of radial flow, 2*141.2*q*mu/(k*h)*ln(L/rw)", want, got, 6e-3, true)}, nil
 }
 
 // FiveSpotSweep is the homogeneous quarter five-spot at unit mobility
@@ -200,7 +221,7 @@ func (p FiveSpotSweep) Run() ([]Check, error) {
 		return nil, err
 	}
 	got := r.Producers[0].TracerBreakthrough * r.Injectors[0].Rate / r.PoreVolume
-	return []Check{check("five-spot-sweep", fmt.Sprintf("sweep at breakthrough (%dx%d)", n, n), "Craig (1971) after Muskat: 0.7178", 0.7178, got, 0.02, false)}, nil
+	return []Check{check("five-spot-sweep", fmt.Sprintf("sweep at breakthrough (%dx%d)", n, n), "Craig (1971) after Muskat: 0.7178", 0.7178, got, 1e-3, false)}, nil
 }
 
 // WelgeFront checks the front saturation of quadratic Corey curves with no
@@ -230,6 +251,8 @@ func (WelgeFront) Run() ([]Check, error) {
 // (pressure, streamlines, transport) and compares the producer's water cut
 // after breakthrough with the Buckley and Leverett (1942) outlet solution
 // fw(S2), fw'(S2) = 1/tD, for quadratic Corey curves and mu_w/mu_o = 0.5.
+// Fixed streamlines carry the exact solution, so the measured errors are
+// 2e-10 to 1e-9 and the tolerance is 1e-8.
 type ChannelOutlet struct{}
 
 // Name returns the problem's identifier.
@@ -266,7 +289,7 @@ func (ChannelOutlet) Run() ([]Check, error) {
 				hi = mid
 			}
 		}
-		cs = append(cs, check("buckley-leverett-outlet", fmt.Sprintf("water cut at %.3f PVI", tD), "Buckley and Leverett (1942)", fw(lo), p.WaterCut[k], 1e-4, false))
+		cs = append(cs, check("buckley-leverett-outlet", fmt.Sprintf("water cut at %.3f PVI", tD), "Buckley and Leverett (1942)", fw(lo), p.WaterCut[k], 1e-8, false))
 	}
 	return cs, nil
 }
@@ -275,7 +298,8 @@ func (ChannelOutlet) Run() ([]Check, error) {
 // permeabilities differ by a factor r = 4. From the definition of the
 // F-Phi curve (Shook and Mitchell 2009, from memory), the fast half of the
 // storage carries r/(1+r) of the flow and the Lorenz coefficient is
-// (r-1)/(2(r+1)) = 0.3.
+// (r-1)/(2(r+1)) = 0.3. The channels are uniform, so the computed value is
+// exact up to round-off (measured 1e-15; tolerance 1e-9).
 type TwoChannelLorenz struct{}
 
 // Name returns the problem's identifier.
@@ -300,11 +324,14 @@ func (TwoChannelLorenz) Run() ([]Check, error) {
 	if err != nil {
 		return nil, err
 	}
-	return []Check{check("lorenz-two-channels", "Lorenz coefficient, r = 4", "definition of the F-Phi curve: (r-1)/(2(r+1))", (r-1)/(2*(r+1)), res.Lorenz, 0.01, false)}, nil
+	return []Check{check("lorenz-two-channels", "Lorenz coefficient, r = 4", "definition of the F-Phi curve: (r-1)/(2(r+1))", (r-1)/(2*(r+1)), res.Lorenz, 1e-9, false)}, nil
 }
 
 // EngineAgreement runs one heterogeneous case at unit mobility ratio with
-// fixed streamlines and with the grid (IMPES) engine. Straight-line
+// fixed streamlines and with the grid (IMPES) engine. It is a cross-check
+// (KindCrossCheck), not a verification: the two engines share the pressure
+// solver, the well model and the bookkeeping, so an error there would be
+// common to both. Straight-line
 // relative permeabilities with equal end-point mobilities keep the total
 // mobility constant at every saturation, so the velocity field does not
 // change as water advances (Corey curves with equal end points would not:
@@ -316,6 +343,10 @@ type EngineAgreement struct{}
 
 // Name returns the problem's identifier.
 func (EngineAgreement) Name() string { return "engine-agreement" }
+
+// CrossCheck reports that the problem compares two of floodtrace's engines,
+// which share the pressure solver, the well model and the bookkeeping.
+func (EngineAgreement) CrossCheck() bool { return true }
 
 // Run solves the problem.
 func (EngineAgreement) Run() ([]Check, error) {
@@ -356,7 +387,9 @@ func (EngineAgreement) Run() ([]Check, error) {
 			ss += d * d
 		}
 		rms := math.Sqrt(ss / float64(len(sl.Times)))
-		cs = append(cs, check("engine-agreement", "RMS water-cut difference, "+a.Name, "streamline and grid engines at mobility ratio 1 (common practice)", 0, rms, 0.05, false))
+		c := check("engine-agreement", "RMS water-cut difference, "+a.Name, "streamline and grid engines at mobility ratio 1 (common practice)", 0, rms, 0.05, false)
+		c.Kind = KindCrossCheck
+		cs = append(cs, c)
 	}
 	return cs, nil
 }

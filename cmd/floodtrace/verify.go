@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"strings"
-	"text/tabwriter"
 
 	"github.com/spf13/pflag"
 
@@ -24,12 +23,15 @@ func init() {
 		Short: "run the built-in benchmark problems against published results",
 		Long: `Verify runs floodtrace's built-in benchmark problems through the same code as a
 user's case and compares each result with its published or closed-form value:
-Darcy's law, Peaceman's well-block radius (1978, 1983), superposition of radial
-flow for a doublet, the five-spot sweep at breakthrough (Craig 1971 after
-Muskat), the Welge front saturation, the Buckley-Leverett outlet water cut, the
-Lorenz coefficient of two sealed channels, and the agreement of the streamline
-and grid engines. It prints one row per check and exits with code 1 if any
-check fails.
+Darcy's law, Peaceman's well-block radius (1978, 1983) and the well's BHP
+against steady radial flow, superposition of radial flow for a doublet, the
+five-spot sweep at breakthrough (Craig 1971 after Muskat), the Welge front
+saturation, the Buckley-Leverett outlet water cut and the Lorenz coefficient of
+two sealed channels. A second part of the table holds cross-checks, which
+compare floodtrace with itself (the streamline and grid engines share the
+pressure solver and the well model) and so verify nothing on their own; in
+--json each check has a "kind", "reference" or "cross-check". It prints one row
+per check and exits with code 1 if any check fails.
 
 Examples:
   floodtrace verify
@@ -93,20 +95,9 @@ func runVerify(args []string) error {
 		}
 		fmt.Fprintln(stdout, string(b))
 	} else {
-		tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "problem\tquantity\treference\tsource\tcomputed\ttolerance\tresult")
-		for _, c := range cs {
-			res := "pass"
-			if !c.Pass {
-				res = "FAIL"
-			}
-			if c.Error != "" {
-				fmt.Fprintf(tw, "%s\t%s\t\t\t\t\tFAIL: %s\n", c.Problem, c.Quantity, c.Error)
-				continue
-			}
-			fmt.Fprintf(tw, "%s\t%s\t%.6g\t%s\t%.6g\t%s\t%s\n", c.Problem, c.Quantity, c.Reference, c.Source, c.Computed, c.TolString(), res)
+		if err := verify.WriteTable(stdout, cs); err != nil {
+			return internalError{err}
 		}
-		tw.Flush()
 		fmt.Fprintf(stdout, "\n%d of %d checks passed\n", len(cs)-failed, len(cs))
 	}
 	if failed > 0 {
