@@ -114,7 +114,9 @@ type Result struct {
 	Iterations       int
 	RelResidual      float64
 	StreamlineCount  int
-	Warnings         []string
+	// Warnings are messages for the user: the case's own (Model.Warnings)
+	// first, then those of the run.
+	Warnings []string
 }
 
 // ReportTimes returns the report times of a run: every reportEvery days
@@ -156,7 +158,8 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if needsUpdates(m) {
 		return RunUpdates(m, s, UpdateOptions{})
 	}
-	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
+	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
+		Warnings: append([]string(nil), m.Warnings...)}
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if mr := ff.EndpointMobilityRatio(); mr > 2 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("end-point mobility ratio is %.2g (above 2): fixed streamlines assume the velocity field does not change; use pressure updates (run.pressure_updates) for a better estimate", mr))
