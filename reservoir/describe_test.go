@@ -139,8 +139,8 @@ func TestLevenshtein(t *testing.T) {
 			t.Errorf("levenshtein(%q, %q) = %d, want %d", c.a, c.b, got, c.d)
 		}
 	}
-	if got, ok := Nearest("permx", []string{"perm", "perm_y", "porosity"}); got != "perm" || !ok {
-		t.Errorf("Nearest(permx) = %q, %v", got, ok)
+	if got, ok := Nearest("porosty", []string{"perm", "perm_y", "porosity"}); got != "porosity" || !ok {
+		t.Errorf("Nearest(porosty) = %q, %v", got, ok)
 	}
 	if _, ok := Nearest("zzzzzzzz", []string{"perm"}); ok {
 		t.Error("a distant word was suggested")

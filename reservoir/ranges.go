@@ -29,6 +29,7 @@ type Limit struct {
 	Metric      Bound
 	Positive    bool
 	NonNegative bool
+	HiOpen      bool // Hi itself is refused
 }
 
 // Bound returns the bound of the unit system u.
@@ -59,8 +60,12 @@ func (l Limit) refuse(u UnitSystem, v float64) string {
 		return "is negative"
 	}
 	b := l.Bound(u)
-	if v < b.Lo || v > b.Hi {
-		return fmt.Sprintf("is outside the accepted range [%g, %g]%s", b.Lo, b.Hi, unitSuffix(l.Unit(u)))
+	if v < b.Lo || v > b.Hi || (l.HiOpen && v == b.Hi) {
+		r := "]"
+		if l.HiOpen {
+			r = ")"
+		}
+		return fmt.Sprintf("is outside the accepted range [%g, %g%s%s", b.Lo, b.Hi, r, unitSuffix(l.Unit(u)))
 	}
 	return ""
 }
@@ -130,13 +135,13 @@ var Limits = []Limit{
 	limMobileOil: {Name: "movable oil at the start, 1 - sor - initial_water_saturation", Keys: "`fluids.initial_water_saturation`",
 		Field: Bound{0, 1, 0.05, 1}, Metric: Bound{0, 1, 0.05, 1}},
 	limSatEnd: {Name: "end-point saturations", Keys: "`relperm.corey.swc`, `relperm.corey.sor`",
-		Field: Bound{0, 0.999999, 0, 0.6}, Metric: Bound{0, 0.999999, 0, 0.6}, NonNegative: true},
+		Field: Bound{0, 1, 0, 0.6}, Metric: Bound{0, 1, 0, 0.6}, NonNegative: true, HiOpen: true},
 	limKrMax: {Name: "end-point relative permeabilities", Keys: "`relperm.corey.krw_max`, `relperm.corey.kro_max`",
-		Field: Bound{1e-9, 1, 0.01, 1}, Metric: Bound{1e-9, 1, 0.01, 1}, Positive: true},
+		Field: Bound{0, 1, 0.01, 1}, Metric: Bound{0, 1, 0.01, 1}, Positive: true},
 	limCoreyExp: {Name: "Corey exponents", Keys: "`relperm.corey.nw`, `relperm.corey.no`",
 		Field: Bound{1, 20, 1, 8}, Metric: Bound{1, 20, 1, 8}, Positive: true},
 	limMobileRange: {Name: "mobile saturation range, 1 - swc - sor", Keys: "`relperm` (Corey or table)",
-		Field: Bound{1e-9, 1, 0.1, 1}, Metric: Bound{1e-9, 1, 0.1, 1}, Positive: true},
+		Field: Bound{0, 1, 0.1, 1}, Metric: Bound{0, 1, 0.1, 1}, Positive: true},
 	limRate: {Name: "well rate", Keys: "well `rate`, event `rate`", UnitField: "bbl/day", UnitMetric: "m3/day",
 		Field: Bound{0.01, 1e6, 1, 1e5}, Metric: Bound{0.001, 1.6e5, 0.1, 1.6e4}, Positive: true},
 	limBHP: {Name: "bottom-hole pressure and its limits", Keys: "well `bhp`, `max_bhp`, `min_bhp`, event `bhp`", UnitField: "psi", UnitMetric: "bar",
@@ -148,7 +153,7 @@ var Limits = []Limit{
 	limTime: {Name: "well opening and event times", Keys: "well `open`, event `time`", UnitField: "days", UnitMetric: "days",
 		Field: Bound{0, 1e5, 0, 1e5}, Metric: Bound{0, 1e5, 0, 1e5}, NonNegative: true},
 	limEnd: {Name: "end of the run", Keys: "`run.end`", UnitField: "days", UnitMetric: "days",
-		Field: Bound{1e-6, 1e5, 1, 36500}, Metric: Bound{1e-6, 1e5, 1, 36500}, Positive: true},
+		Field: Bound{0, 1e5, 1, 36500}, Metric: Bound{0, 1e5, 1, 36500}, Positive: true},
 	limStreamlines: {Name: "streamline count", Keys: "`run.streamlines`",
 		Field: Bound{1, 1e6, 100, 2e5}, Metric: Bound{1, 1e6, 100, 2e5}, Positive: true},
 	limFaultMult: {Name: "fault transmissibility multiplier", Keys: "fault `multiplier`",
@@ -156,17 +161,28 @@ var Limits = []Limit{
 }
 
 // LimitsMarkdown returns Limits as the Markdown table README.md shows.
+// Inputs that must be positive refuse 0 too; "< 1" marks an excluded
+// upper end.
 func LimitsMarkdown() string {
 	var b strings.Builder
-	b.WriteString("| input | case-file keys | refused outside (field) | warned outside (field) | refused outside (metric) | warned outside (metric) |\n")
+	b.WriteString("| input | case-file keys | accepted (field) | usual (field) | accepted (metric) | usual (metric) |\n")
 	b.WriteString("| --- | --- | --- | --- | --- | --- |\n")
-	span := func(lo, hi float64, unit string) string {
-		return fmt.Sprintf("%g .. %g%s", lo, hi, unitSuffix(unit))
-	}
 	for _, l := range Limits {
+		span := func(lo, hi float64, unit string) string {
+			if lo == 0 && l.Positive {
+				return fmt.Sprintf("> 0 .. %g%s", hi, unitSuffix(unit))
+			}
+			return fmt.Sprintf("%g .. %g%s", lo, hi, unitSuffix(unit))
+		}
+		limit := func(lo, hi float64, unit string) string {
+			if l.HiOpen {
+				return fmt.Sprintf("%g .. < %g%s", lo, hi, unitSuffix(unit))
+			}
+			return span(lo, hi, unit)
+		}
 		fmt.Fprintf(&b, "| %s | %s | %s | %s | %s | %s |\n", l.Name, l.Keys,
-			span(l.Field.Lo, l.Field.Hi, l.UnitField), span(l.Field.UsualLo, l.Field.UsualHi, l.UnitField),
-			span(l.Metric.Lo, l.Metric.Hi, l.UnitMetric), span(l.Metric.UsualLo, l.Metric.UsualHi, l.UnitMetric))
+			limit(l.Field.Lo, l.Field.Hi, l.UnitField), span(l.Field.UsualLo, l.Field.UsualHi, l.UnitField),
+			limit(l.Metric.Lo, l.Metric.Hi, l.UnitMetric), span(l.Metric.UsualLo, l.Metric.UsualHi, l.UnitMetric))
 	}
 	return b.String()
 }

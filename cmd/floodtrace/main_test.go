@@ -35,10 +35,23 @@ func TestBadInputCorpus(t *testing.T) {
 			}
 			for _, cmd := range []string{"check", "run"} {
 				args := []string{cmd, filepath.Join(d, "case.yaml")}
+				// The output folder holds an earlier result: a refused
+				// case must leave it as it was, even with --force.
+				out := t.TempDir()
+				sentinel := filepath.Join(out, "summary.json")
+				if err := os.WriteFile(sentinel, []byte("earlier run\n"), 0o644); err != nil {
+					t.Fatal(err)
+				}
 				if cmd == "run" {
-					args = append(args, "--out", t.TempDir(), "--no-pictures", "--force")
+					args = append(args, "--out", out, "--no-pictures", "--force")
 				}
 				code, _, e := run(t, args...)
+				if b, err := os.ReadFile(sentinel); err != nil || string(b) != "earlier run\n" {
+					t.Errorf("%s: the earlier summary.json was overwritten or removed (%v)", cmd, err)
+				}
+				if ents, _ := os.ReadDir(out); len(ents) != 1 {
+					t.Errorf("%s: the output folder has %d entries, want the earlier file only", cmd, len(ents))
+				}
 				if code != exitInput {
 					t.Errorf("%s: exit code %d, want 1; stderr:\n%s", cmd, code, e)
 				}
