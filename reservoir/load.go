@@ -42,8 +42,13 @@ func Parse(path string, data []byte) (*Model, error) { return Loader{}.Parse(pat
 // error is an *InputError, a *WellError, or an ErrorList of them when one
 // pass finds several. All such errors are problems of the input.
 //
-// Cells are inactive where the active map is 0 or where any map holds
-// NODATA; property arrays hold zero in inactive cells. Wells go into the
+// Cells are inactive where the active map is 0 or NODATA; a NODATA value
+// of a rock map in a cell the active map marks active is an error. Without
+// an active map, cells where any map holds NODATA are inactive, with a
+// warning counting them. Property arrays hold zero in inactive cells.
+// Every physical value is checked against its range in Limits: refused
+// outside the accepted range, and a warning (Model.Warnings) outside the
+// usual one. Wells go into the
 // cell that holds their point (Grid.Locate). Messages name cells as
 // "cell (i=12, j=7)", counted from 0 at the south-west corner, i east and j
 // north.
