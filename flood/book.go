@@ -33,7 +33,8 @@ type book struct {
 
 func newBook(m *reservoir.Model, sched *WellSchedule, engine string) book {
 	return book{m: m, sched: sched, seen: map[string]bool{}, swi: m.Fluids.InitialSw,
-		r: &Result{Model: m, Engine: engine, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}}
+		r: &Result{Model: m, Engine: engine, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
+			Warnings: append([]string(nil), m.Warnings...)}}
 }
 
 // warn adds a warning once.

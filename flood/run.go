@@ -114,7 +114,9 @@ type Result struct {
 	Iterations       int
 	RelResidual      float64
 	StreamlineCount  int
-	Warnings         []string
+	// Warnings are messages for the user: the case's own (Model.Warnings)
+	// first, then those of the run.
+	Warnings []string
 }
 
 // ReportTimes returns the report times of a run: every reportEvery days
@@ -162,7 +164,8 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	m = mm
 	// From here the case has no schedule event and no late well (they send
 	// it to pressure updates above).
-	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP()}
+	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
+		Warnings: append([]string(nil), m.Warnings...)}
 	r.Warnings = append(r.Warnings, late...)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if mr := ff.EndpointMobilityRatio(); mr > 2 {

@@ -78,14 +78,13 @@ func Solve(in Input, s Settings) (*Solution, error) {
 		if len(x) > 0 {
 			m, err := pre(sys.A)
 			if err != nil {
-				return nil, fmt.Errorf("pressure: preconditioner: %w", err)
+				return nil, &SolverError{Stage: "preconditioner", Unknowns: len(x), Err: err}
 			}
 			res, err := sparse.CG(sys.A, sys.B, x, m, sparse.CGSettings{Tol: tol})
 			sol.Iterations += res.Iterations
 			sol.RelResidual = res.RelativeResidual
 			if err != nil {
-				return nil, fmt.Errorf("pressure: linear solve of %d unknowns: %w (%d iterations, relative residual %.3g)",
-					len(x), err, res.Iterations, res.RelativeResidual)
+				return nil, &SolverError{Stage: "linear solve", Unknowns: len(x), Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
 			}
 		}
 		for k := range p {

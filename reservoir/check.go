@@ -42,8 +42,21 @@ func (d *decoder) resolveGrid(rc *rawCase) {
 			d.errs.add(err)
 			return
 		}
+		for _, c := range []struct {
+			name string
+			v    float64
+		}{{"cellsize (dx)", h.Grid.DX}, {"cellsize (dy)", h.Grid.DY}} {
+			if msg := Limits[limDX].refuse(d.units, c.v); msg != "" {
+				d.errs.add(&InputError{Path: p.path, Msg: fmt.Sprintf("raster header %s = %g %s", c.name, c.v, msg)})
+				return
+			}
+			if msg := Limits[limDX].unusual(d.units, c.v); msg != "" {
+				d.warns = append(d.warns, (&InputError{Path: p.path, Msg: fmt.Sprintf("raster header %s = %g %s; check the value and its unit", c.name, c.v, msg)}).Error())
+			}
+		}
 		m.Grid = h.Grid
 		rc.gridFrom = "from the header of " + p.path
+		d.cellCountWarning(p.path, 0, m.Grid)
 		return
 	}
 	d.errs.add(&InputError{Path: d.path, Line: rc.rockLine, Msg: "no grid: the case has no grid section and none of the rock maps is a GIS ASCII raster whose header could define it"})
@@ -98,31 +111,33 @@ func (d *decoder) loadRock(rc *rawCase) {
 	if !d.errs.ok() {
 		return
 	}
+	// With an active map, the cells it marks active (not 0 and not
+	// NODATA) must have a value in every property map; without one, a
+	// NODATA value makes its cell inactive, and a warning counts them.
 	active := make([]bool, n)
 	for k := range active {
 		active[k] = true
 	}
+	explicit := false
 	for _, p := range rc.props {
-		a := arrays[p.key]
-		for k, v := range a {
-			if math.IsNaN(v) || (p.key == "active" && v == 0) {
+		if p.key != "active" {
+			continue
+		}
+		explicit = true
+		for k, v := range arrays[p.key] {
+			if math.IsNaN(v) || v == 0 {
 				active[k] = false
 			}
 		}
 	}
-	// Validate the values of the active cells, one message per property
-	// naming the first bad cell and counting the others.
-	for _, p := range rc.props {
-		if !p.isMap || p.key == "active" {
-			continue
-		}
-		a := arrays[p.key]
-		first, count := -1, 0
-		// Scan in file order (north row first) so that the cell named is
-		// the first one the user meets in the file.
+	// firstBad scans the active cells of a in file order (north row
+	// first, so that the cell named is the first one the user meets in
+	// the file) and returns the first cell where bad holds and the count.
+	firstBad := func(a []float64, bad func(float64) bool) (first, count int) {
+		first = -1
 		for j := g.NY - 1; j >= 0; j-- {
 			for k := j * g.NX; k < (j+1)*g.NX; k++ {
-				if active[k] && propCheck(p.key, a[k]) != "" {
+				if active[k] && bad(a[k]) {
 					if first < 0 {
 						first = k
 					}
@@ -130,17 +145,59 @@ func (d *decoder) loadRock(rc *rawCase) {
 				}
 			}
 		}
-		if first >= 0 {
-			i, j := g.IJ(first)
-			msg := fmt.Sprintf("%s %g %s in an active cell", propName(p.key), a[first], propCheck(p.key, a[first]))
-			switch {
-			case count == 2:
-				msg += " (and 1 more cell)"
-			case count > 2:
-				msg += fmt.Sprintf(" (and %d more cells)", count-1)
+		return first, count
+	}
+	more := func(count int) string {
+		switch {
+		case count == 2:
+			return " (and 1 more cell)"
+		case count > 2:
+			return fmt.Sprintf(" (and %d more cells)", count-1)
+		}
+		return ""
+	}
+	at := func(p propSpec, k int, msg string) *InputError {
+		i, j := g.IJ(k)
+		return &InputError{Path: p.path, Row: g.NY - j, Col: i + 1, Msg: msg}
+	}
+	for _, p := range rc.props {
+		if !p.isMap || p.key == "active" {
+			continue
+		}
+		a := arrays[p.key]
+		first, count := firstBad(a, math.IsNaN)
+		if first < 0 {
+			continue
+		}
+		if explicit {
+			d.errs.add(at(p, first, fmt.Sprintf("%s is NODATA in a cell the active map marks active%s; give a value there or mark the cell 0 in the active map",
+				propName(p.key), more(count))))
+			continue
+		}
+		for k, v := range a {
+			if math.IsNaN(v) {
+				active[k] = false
 			}
-			msg += "; mark cells outside the reservoir with NODATA or 0 in the active map"
-			d.errs.add(&InputError{Path: p.path, Row: g.NY - j, Col: i + 1, Msg: msg})
+		}
+		d.warns = append(d.warns, (&InputError{Path: p.path, Msg: fmt.Sprintf(
+			"%d of %d cells are NODATA in this %s map and became inactive (the case gives no active map)", count, n, propName(p.key))}).Error())
+	}
+	// Validate the values of the active cells, one message per property
+	// naming the first bad cell and counting the others; then warn, the
+	// same way, about values outside their usual range.
+	for _, p := range rc.props {
+		if !p.isMap || p.key == "active" {
+			continue
+		}
+		a := arrays[p.key]
+		if first, count := firstBad(a, func(v float64) bool { return !math.IsNaN(v) && propCheck(m.Units, p.key, v) != "" }); first >= 0 {
+			d.errs.add(at(p, first, fmt.Sprintf("%s %g %s in an active cell%s; mark cells outside the reservoir with NODATA or 0 in the active map",
+				propName(p.key), a[first], propCheck(m.Units, p.key, a[first]), more(count))))
+			continue
+		}
+		if first, count := firstBad(a, func(v float64) bool { return !math.IsNaN(v) && propUnusual(m.Units, p.key, v) != "" }); first >= 0 {
+			d.warns = append(d.warns, at(p, first, fmt.Sprintf("%s %g %s in an active cell%s; check the values and their unit",
+				propName(p.key), a[first], propUnusual(m.Units, p.key, a[first]), more(count))).Error())
 		}
 	}
 	nActive := 0

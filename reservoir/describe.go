@@ -75,7 +75,8 @@ func CellLabel(i, j int) string { return fmt.Sprintf("cell (i=%d, j=%d)", i, j) 
 // Describe returns the short description of a model that "floodtrace
 // check" prints: title and units, grid, cell counts, pore volume, OOIP,
 // fluids and relative permeability, the wells with their cells and
-// controls, faults, schedule, run settings and a memory estimate.
+// controls, faults, schedule, run settings, a memory estimate and the
+// warnings of Load (Model.Warnings).
 func Describe(m *Model) string {
 	var b strings.Builder
 	length, perm, visc, rate, pres, vol := m.Units.Labels()
@@ -164,5 +165,11 @@ func Describe(m *Model) string {
 	fmt.Fprintf(&b, "  run         %g days, report every %g days, %d streamlines, %s\n", r.End, r.ReportEvery, r.Streamlines, solves)
 	mem := EstimateMemory(g.NX, g.NY, r.Streamlines)
 	fmt.Fprintf(&b, "  memory      about %s for a run (%d bytes, estimate)\n", formatBytes(float64(mem)), mem)
+	if len(m.Warnings) > 0 {
+		fmt.Fprintf(&b, "  warnings    %d (accepted; a run repeats them)\n", len(m.Warnings))
+		for _, w := range m.Warnings {
+			fmt.Fprintf(&b, "    %s\n", w)
+		}
+	}
 	return b.String()
 }

@@ -47,8 +47,13 @@ func Parse(path string, data []byte) (*Model, error) { return Loader{}.Parse(pat
 // error is an *InputError, a *WellError, or an ErrorList of them when one
 // pass finds several. All such errors are problems of the input.
 //
-// Cells are inactive where the active map is 0 or where any map holds
-// NODATA; property arrays hold zero in inactive cells. Wells go into the
+// Cells are inactive where the active map is 0 or NODATA; a NODATA value
+// of a rock map in a cell the active map marks active is an error. Without
+// an active map, cells where any map holds NODATA are inactive, with a
+// warning counting them. Property arrays hold zero in inactive cells.
+// Every physical value is checked against its range in Limits: refused
+// outside the accepted range, and a warning (Model.Warnings) outside the
+// usual one. Wells go into the
 // cell that holds their point (Grid.Locate). Messages name cells as
 // "cell (i=12, j=7)", counted from 0 at the south-west corner, i east and j
 // north.
@@ -96,6 +101,8 @@ type decoder struct {
 	// partialWells: see Loader.PartialWells.
 	partialWells bool
 	errs         collector
+	units        UnitSystem // of the case, once read
+	warns        []string   // warnings, in the order found
 }
 
 // propSpec is a rock property given as a number or a map path.
@@ -177,6 +184,7 @@ func (d *decoder) decode(data []byte) (*Model, error) {
 	if err := d.errs.err(); err != nil {
 		return nil, err
 	}
+	m.Warnings = d.warns
 	return m, nil
 }
 
@@ -223,6 +231,7 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	if m.Units == "" {
 		m.Units = Field // for defaults while the other sections are read
 	}
+	d.units = m.Units
 	d.readRun(m, top)
 	if top.has("grid") {
 		rc.gridNode = top.keys["grid"]
@@ -247,6 +256,8 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 			d.fail(nil, rc.swiNode, "fluids.initial_water_saturation = %g is below the connate water saturation %g of the relative permeability", m.Fluids.InitialSw, swc)
 		} else if m.Fluids.InitialSw >= 1-sor {
 			d.fail(nil, rc.swiNode, "fluids.initial_water_saturation = %g leaves no movable oil (1 - sor = %g)", m.Fluids.InitialSw, 1-sor)
+		} else if mo := 1 - sor - m.Fluids.InitialSw; Limits[limMobileOil].unusual(d.units, mo) != "" {
+			d.warnAt(nil, rc.swiNode, "fluids.initial_water_saturation = %g leaves only %.3g of movable oil saturation (1 - sor - swi); the flood recovers little", m.Fluids.InitialSw, mo)
 		}
 	}
 	if top.vals["wells"] != nil {
@@ -268,7 +279,7 @@ func (d *decoder) readRun(m *Model, top *section) {
 	if top.vals["run"] != nil {
 		s = d.section(top.vals["run"], "run", "", []string{"end", "report_every", "snapshots", "streamlines", "pressure_updates", "update_times"}, nil)
 	}
-	r.End = d.num(s, "end", r.End, inRange(0, 1e5, true, false))
+	r.End = d.limited(s, "end", r.End, limEnd, nil)
 	r.ReportEvery = math.Max(math.Round(r.End/120), math.Min(1, r.End))
 	r.ReportEvery = d.num(s, "report_every", r.ReportEvery, func(v float64) string {
 		switch {
@@ -281,7 +292,11 @@ func (d *decoder) readRun(m *Model, top *section) {
 		}
 		return ""
 	})
-	r.Streamlines = int(d.integer(s, "streamlines", int64(r.Streamlines), 1, 1_000_000))
+	before := d.nErrs()
+	r.Streamlines = int(d.integer(s, "streamlines", int64(r.Streamlines), 1, int64(Limits[limStreamlines].Field.Hi)))
+	if s.has("streamlines") && d.nErrs() == before {
+		d.usual(s, s.vals["streamlines"], s.label("streamlines"), float64(r.Streamlines), limStreamlines)
+	}
 	if s.has("pressure_updates") && s.has("update_times") {
 		d.fail(s, s.keys["update_times"], "run: give pressure_updates or update_times, not both")
 	}
@@ -313,7 +328,19 @@ func (d *decoder) readRun(m *Model, top *section) {
 		if len(ts) > 10_000 {
 			d.fail(s, s.vals["snapshots"], "run.snapshots: more than 10000 times")
 		}
+		if !slices.IsSorted(ts) {
+			d.warnAt(s, s.vals["snapshots"], "run.snapshots are not in increasing order; they are taken sorted")
+		}
 		slices.Sort(ts)
+		var dups []string
+		for i := 1; i < len(ts); i++ {
+			if ts[i] == ts[i-1] && (i < 2 || ts[i-1] != ts[i-2]) {
+				dups = append(dups, fmt.Sprintf("%g", ts[i]))
+			}
+		}
+		if len(dups) > 0 {
+			d.warnAt(s, s.vals["snapshots"], "run.snapshots gives %s more than once; each time is taken once", strings.Join(dups, ", "))
+		}
 		r.Snapshots = slices.Compact(ts)
 	}
 	m.Run = r
@@ -327,7 +354,7 @@ func (d *decoder) readGrid(n *yaml.Node, keyLine int) *Grid {
 	nerr := len(d.errs.errs)
 	nx := d.integer(s, "nx", 0, 1, math.MaxInt32)
 	ny := d.integer(s, "ny", 0, 1, math.MaxInt32)
-	g := &Grid{DX: d.num(s, "dx", 0, positive), DY: d.num(s, "dy", 0, positive)}
+	g := &Grid{DX: d.limited(s, "dx", 0, limDX, nil), DY: d.limited(s, "dy", 0, limDX, nil)}
 	if s.has("origin") {
 		o, nodes := d.numbers(s, "origin")
 		if len(nodes) == len(s.vals["origin"].Content) && len(o) != 2 {
@@ -344,6 +371,7 @@ func (d *decoder) readGrid(n *yaml.Node, keyLine int) *Grid {
 		return nil
 	}
 	g.NX, g.NY = int(nx), int(ny)
+	d.cellCountWarning(d.path, keyLine, *g)
 	return g
 }
 
@@ -380,9 +408,11 @@ func (d *decoder) readRock(rc *rawCase, n *yaml.Node) {
 				continue
 			}
 			p.path = d.rel(v.Value)
-		} else if m := propCheck(k, p.value); m != "" {
+		} else if m := propCheck(d.units, k, p.value); m != "" {
 			d.fail(s, v, "rock.%s = %s %s", k, v.Value, m)
 			continue
+		} else if lim, ok := propLimit(k); ok {
+			d.usual(s, v, "rock."+k, p.value, lim)
 		}
 		rc.props = append(rc.props, p)
 	}
@@ -396,13 +426,33 @@ func (d *decoder) rel(p string) string {
 	return filepath.Join(d.dir, filepath.FromSlash(p))
 }
 
-// propCheck validates a property value of an active cell.
-func propCheck(key string, v float64) string {
+// propLimit returns the index in Limits of a rock property.
+func propLimit(key string) (int, bool) {
 	switch key {
-	case "perm", "perm_y", "thickness":
-		return positive(v)
+	case "perm", "perm_y":
+		return limPerm, true
 	case "porosity":
-		return inRange(0, 1, true, false)(v)
+		return limPorosity, true
+	case "thickness":
+		return limThickness, true
+	}
+	return 0, false
+}
+
+// propCheck validates a property value of an active cell: "" or a phrase
+// such as "is not positive".
+func propCheck(u UnitSystem, key string, v float64) string {
+	if lim, ok := propLimit(key); ok {
+		return Limits[lim].refuse(u, v)
+	}
+	return ""
+}
+
+// propUnusual returns "" or a phrase for a warning about a property value
+// of an active cell.
+func propUnusual(u UnitSystem, key string, v float64) string {
+	if lim, ok := propLimit(key); ok {
+		return Limits[lim].unusual(u, v)
 	}
 	return ""
 }
@@ -414,8 +464,8 @@ func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
 		return
 	}
 	f := &rc.m.Fluids
-	f.WaterViscosity = d.num(s, "water_viscosity", 0, positive)
-	f.OilViscosity = d.num(s, "oil_viscosity", 0, positive)
+	f.WaterViscosity = d.limited(s, "water_viscosity", 0, limWaterVisc, nil)
+	f.OilViscosity = d.limited(s, "oil_viscosity", 0, limOilVisc, nil)
 	if s.has("initial_water_saturation") {
 		rc.hasSwi = true
 		rc.swiNode = s.vals["initial_water_saturation"]
@@ -459,6 +509,16 @@ func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {
 			d.fail(c, c.vals["sor"], "relperm.corey: swc + sor = %g leaves no mobile range; it must be below 1", cr.Swc+cr.Sor)
 			return nil
 		}
+		for _, u := range []struct {
+			key string
+			v   float64
+			lim int
+		}{{"swc", cr.Swc, limSatEnd}, {"sor", cr.Sor, limSatEnd}, {"krw_max", cr.KrwMax, limKrMax}, {"kro_max", cr.KroMax, limKrMax}, {"nw", cr.Nw, limCoreyExp}, {"no", cr.No, limCoreyExp}} {
+			if c.has(u.key) {
+				d.usual(c, c.vals[u.key], "relperm.corey."+u.key, u.v, u.lim)
+			}
+		}
+		d.mobileRangeWarning(c, c.vals["sor"], "relperm.corey", cr.Swc, cr.Sor)
 		return cr
 	case s.has("table"):
 		p := d.str(s, "table")
@@ -476,6 +536,8 @@ func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {
 			}
 			return nil
 		}
+		swc, sor := t.Endpoints()
+		d.mobileRangeWarning(s, s.vals["table"], "relperm.table "+t.Source, swc, sor)
 		return t
 	default:
 		d.fail(s, s.node, "relperm: give corey: {swc, sor, krw_max, kro_max, nw, no} or table: path of a CSV file with columns sw,krw,kro")
@@ -548,21 +610,16 @@ func (d *decoder) readWells(m *Model, top *section) {
 			d.fail(s, it, "has no control: give rate or bhp")
 		case hasRate:
 			w.Control = RateControl
-			w.Rate = d.num(s, "rate", 0, func(v float64) string {
-				if v > 0 {
-					return ""
-				}
-				return "is not positive (rates are positive for injectors and producers; shut a well with a schedule event)"
-			})
+			w.Rate = d.limited(s, "rate", 0, limRate, positiveRate)
 		default:
 			w.Control = BHPControl
-			w.BHP = d.num(s, "bhp", 0, positive)
+			w.BHP = d.limited(s, "bhp", 0, limBHP, nil)
 		}
 		if s.has("max_bhp") {
 			if w.Type == Producer {
 				d.fail(s, s.keys["max_bhp"], "max_bhp is an injector limit; a producer takes min_bhp")
 			}
-			w.MaxBHP = d.num(s, "max_bhp", 0, positive)
+			w.MaxBHP = d.limited(s, "max_bhp", 0, limBHP, nil)
 			if w.Control == BHPControl && w.BHP > 0 && w.MaxBHP > 0 && w.BHP > w.MaxBHP {
 				d.fail(s, s.vals["bhp"], "bhp = %g is above its max_bhp %g", w.BHP, w.MaxBHP)
 			}
@@ -571,14 +628,14 @@ func (d *decoder) readWells(m *Model, top *section) {
 			if w.Type == Injector {
 				d.fail(s, s.keys["min_bhp"], "min_bhp is a producer limit; an injector takes max_bhp")
 			}
-			w.MinBHP = d.num(s, "min_bhp", 0, positive)
+			w.MinBHP = d.limited(s, "min_bhp", 0, limBHP, nil)
 			if w.Control == BHPControl && w.BHP > 0 && w.MinBHP > 0 && w.BHP < w.MinBHP {
 				d.fail(s, s.vals["bhp"], "bhp = %g is below its min_bhp %g", w.BHP, w.MinBHP)
 			}
 		}
-		w.Radius = d.num(s, "radius", w.Radius, positive)
-		w.Skin = d.num(s, "skin", 0, anyValue)
-		w.Open = d.num(s, "open", 0, nonNegative)
+		w.Radius = d.limited(s, "radius", w.Radius, limRadius, nil)
+		w.Skin = d.limited(s, "skin", 0, limSkin, nil)
+		w.Open = d.limited(s, "open", 0, limTime, nil)
 		m.Wells = append(m.Wells, w)
 	}
 }
@@ -599,7 +656,11 @@ func (d *decoder) readFaults(m *Model, top *section) {
 		} else {
 			seen[f.Name] = it.Line
 		}
-		f.Multiplier = d.num(s, "multiplier", 1, nonNegative)
+		before := d.nErrs()
+		f.Multiplier = d.num(s, "multiplier", 1, func(v float64) string { return Limits[limFaultMult].refuse(d.units, v) })
+		if s.has("multiplier") && d.nErrs() == before && f.Multiplier > 1 {
+			d.warnAt(s, s.vals["multiplier"], "fault %q: multiplier %g is above 1: the fault is a conduit that raises the transmissibility of the faces it crosses", f.Name, f.Multiplier)
+		}
 		bad := 0
 		for _, p := range d.list(s, "trace") {
 			if p.Kind != yaml.SequenceNode || len(p.Content) != 2 {
@@ -637,7 +698,7 @@ func (d *decoder) readSchedule(m *Model, top *section) {
 			continue
 		}
 		e := Event{Rate: math.NaN(), BHP: math.NaN(), Line: it.Line}
-		e.Time = d.num(s, "time", 0, nonNegative)
+		e.Time = d.limited(s, "time", 0, limTime, nil)
 		e.Well = d.str(s, "well")
 		if s.has("well") && m.WellIndex(e.Well) < 0 {
 			msg := fmt.Sprintf("schedule: unknown well %q", e.Well)
@@ -647,10 +708,10 @@ func (d *decoder) readSchedule(m *Model, top *section) {
 			d.fail(s, s.vals["well"], "%s", msg)
 		}
 		if s.has("rate") {
-			e.Rate = d.num(s, "rate", math.NaN(), positive)
+			e.Rate = d.limited(s, "rate", math.NaN(), limRate, positiveRate)
 		}
 		if s.has("bhp") {
-			e.BHP = d.num(s, "bhp", math.NaN(), positive)
+			e.BHP = d.limited(s, "bhp", math.NaN(), limBHP, nil)
 		}
 		if s.has("shut") {
 			e.Shut = d.boolean(s, "shut")

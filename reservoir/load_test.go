@@ -38,7 +38,7 @@ func TestLoadRasterFieldCase(t *testing.T) {
 		for i := 0; i < g.NX; i++ {
 			k := g.Index(i, j)
 			r := g.NY - j
-			nodata := r == 1 && i == 5
+			nodata := r == 1 && i == 5 // NODATA in perm.asc and in mask.asc
 			masked := r == 4 && i == 0 // mask.asc row 4, column 1 is 0
 			if m.Active[k] == (nodata || masked) {
 				t.Errorf("cell (%d,%d) active = %v", i, j, m.Active[k])

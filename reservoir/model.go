@@ -234,6 +234,12 @@ type Model struct {
 	Faults   []Fault
 	Schedule []Event
 	Run      RunSettings
+
+	// Warnings are the problems Load found that do not stop a run (values
+	// outside their usual range, cells made inactive by NODATA, ...), each
+	// naming the file and the line, or the row and column. check prints
+	// them and a run carries them into its own warnings.
+	Warnings []string
 }
 
 // PoreVolume returns the pore volume of cell k in reservoir volume units

@@ -22,6 +22,7 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"floodtrace/pressure"
 	"floodtrace/reservoir"
 )
 
@@ -140,7 +141,8 @@ func runMain(args []string, out, errw io.Writer) (code int) {
 			return exitUsage
 		}
 		var ie internalError
-		if errors.As(err, &ie) {
+		var se *pressure.SolverError
+		if errors.As(err, &ie) || errors.As(err, &se) {
 			fmt.Fprintf(stderr, "floodtrace %s: internal error: %v\nplease report this with the case file and the command line\n", c.Name, err)
 			return exitInternal
 		}
@@ -151,7 +153,8 @@ func runMain(args []string, out, errw io.Writer) (code int) {
 }
 
 // internalError marks a failure that is floodtrace's fault, not the
-// input's (exit code 3).
+// input's (exit code 3). A breakdown of the pressure solver on a case that
+// passed validation (*pressure.SolverError) is one too.
 type internalError struct{ err error }
 
 func (e internalError) Error() string { return e.err.Error() }

@@ -2,11 +2,16 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"runtime"
 	"strings"
 	"testing"
+
+	"floodtrace/pressure"
 )
 
 func run(t *testing.T, args ...string) (code int, out, errOut string) {
@@ -35,10 +40,23 @@ func TestBadInputCorpus(t *testing.T) {
 			}
 			for _, cmd := range []string{"check", "run"} {
 				args := []string{cmd, filepath.Join(d, "case.yaml")}
+				// The output folder holds an earlier result: a refused
+				// case must leave it as it was, even with --force.
+				out := t.TempDir()
+				sentinel := filepath.Join(out, "summary.json")
+				if err := os.WriteFile(sentinel, []byte("earlier run\n"), 0o644); err != nil {
+					t.Fatal(err)
+				}
 				if cmd == "run" {
-					args = append(args, "--out", t.TempDir(), "--no-pictures", "--force")
+					args = append(args, "--out", out, "--no-pictures", "--force")
 				}
 				code, _, e := run(t, args...)
+				if b, err := os.ReadFile(sentinel); err != nil || string(b) != "earlier run\n" {
+					t.Errorf("%s: the earlier summary.json was overwritten or removed (%v)", cmd, err)
+				}
+				if ents, _ := os.ReadDir(out); len(ents) != 1 {
+					t.Errorf("%s: the output folder has %d entries, want the earlier file only", cmd, len(ents))
+				}
 				if code != exitInput {
 					t.Errorf("%s: exit code %d, want 1; stderr:\n%s", cmd, code, e)
 				}
@@ -237,5 +255,64 @@ func TestFramesFlag(t *testing.T) {
 	}
 	if code, _, _ := run(t, "run", demo, "--out", t.TempDir(), "--frames", "-3"); code != exitUsage {
 		t.Errorf("--frames -3: exit %d, want 2", code)
+	}
+}
+
+// TestSolverErrorIsInternal checks that a breakdown of the pressure solver
+// on a validated case reaches the user as an internal error, exit code 3,
+// saying what broke.
+func TestSolverErrorIsInternal(t *testing.T) {
+	register(&command{Name: "zz-solver", Usage: "zz-solver", Short: "test", Long: "Example: none", Run: func([]string) error {
+		return fmt.Errorf("flood: solve at day 0: %w", &pressure.SolverError{Stage: "preconditioner", Unknowns: 12, Err: errors.New("sparse: incomplete Cholesky: diagonal entry 0 is +Inf, not positive")})
+	}})
+	defer delete(commands, "zz-solver")
+	code, _, e := run(t, "zz-solver")
+	if code != exitInternal {
+		t.Errorf("exit code %d, want 3", code)
+	}
+	for _, w := range []string{"internal error", "pressure solver broke down: preconditioner of 12 unknowns", "diagonal entry 0 is +Inf", "please report"} {
+		if !strings.Contains(e, w) {
+			t.Errorf("stderr lacks %q:\n%s", w, e)
+		}
+	}
+}
+
+// TestCaseWarningsReachTheUser checks that a warning of the case (here a
+// fault multiplier above 1) is listed by check, printed by run and kept in
+// summary.json, and that the demo has none.
+func TestCaseWarningsReachTheUser(t *testing.T) {
+	base, err := os.ReadFile("../../testdata/bad/fault_multiplier_absurd/case.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.Replace(string(base), "multiplier: 1e5", "multiplier: 5", 1)
+	dir := t.TempDir()
+	p := filepath.Join(dir, "case.yaml")
+	if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	want := p + `:15: fault "F-1": multiplier 5 is above 1: the fault is a conduit`
+	code, out, e := run(t, "check", p)
+	if code != exitOK || !strings.Contains(out, "warnings    1") || !strings.Contains(out, want) {
+		t.Errorf("check: exit %d, output:\n%s%s", code, out, e)
+	}
+	outDir := filepath.Join(dir, "out")
+	code, _, e = run(t, "run", p, "--out", outDir, "--no-pictures")
+	if code != exitOK || !strings.Contains(e, "warning: "+want) {
+		t.Errorf("run: exit %d, stderr:\n%s", code, e)
+	}
+	sum, err := os.ReadFile(filepath.Join(outDir, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s struct{ Warnings []string }
+	if err := json.Unmarshal(sum, &s); err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Warnings) == 0 || !strings.HasPrefix(s.Warnings[0], want) {
+		t.Errorf("summary.json warnings %q do not start with %q", s.Warnings, want)
+	}
+	if _, out, _ := run(t, "check", demo); strings.Contains(out, "warnings") {
+		t.Errorf("the demo has warnings:\n%s", out)
 	}
 }
