@@ -22,6 +22,7 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"floodtrace/flood"
 	"floodtrace/reservoir"
 )
 
@@ -140,7 +141,8 @@ func runMain(args []string, out, errw io.Writer) (code int) {
 			return exitUsage
 		}
 		var ie internalError
-		if errors.As(err, &ie) {
+		var fe *flood.UnphysicalError
+		if errors.As(err, &ie) || errors.As(err, &fe) {
 			fmt.Fprintf(stderr, "floodtrace %s: internal error: %v\nplease report this with the case file and the command line\n", c.Name, err)
 			return exitInternal
 		}
