@@ -298,6 +298,11 @@ func (pb *problem) backflow(ctl []control, p, q, bhp []float64, reopened []bool)
 			ctl[w].open, ctl[w].backflow = false, true
 			changed = true
 		}
+		for c := range shut {
+			if shut[c] > 0 {
+				pb.keepDriven(ctl, c)
+			}
+		}
 		return changed
 	}
 	changed := false
@@ -313,6 +318,44 @@ func (pb *problem) backflow(ctl []control, p, q, bhp []float64, reopened []bool)
 		}
 	}
 	return changed
+}
+
+// keepDriven handles region c when backflow has left it with open wells
+// that are all rate-controlled and whose rates do not balance: with its
+// BHP wells shut, the producers that take more than the injectors give are
+// drawn down to their lower limit (MinBHP or the atmospheric floor), or
+// the injectors that give more than the producers take are held at their
+// MaxBHP, so the region keeps a pressure level. (applyLimits moves a well
+// that would exceed its target back to rate control.) Injectors without
+// MaxBHP that give more than the region can take are left alone: Solve
+// reports the imbalance.
+func (pb *problem) keepDriven(ctl []control, c int) {
+	var net, tot float64
+	for w := range pb.wells {
+		if pb.comp[pb.wells[w].Cell] != c || !ctl[w].open {
+			continue
+		}
+		if ctl[w].bhp {
+			return
+		}
+		net += ctl[w].target
+		tot += math.Abs(ctl[w].target)
+	}
+	if math.Abs(net) <= 1e-9*tot {
+		return
+	}
+	for w := range pb.wells {
+		wl := &pb.wells[w]
+		if pb.comp[wl.Cell] != c || !ctl[w].open {
+			continue
+		}
+		switch {
+		case net < 0 && wl.Type == reservoir.Producer:
+			ctl[w] = control{open: true, bhp: true, target: pb.minBHP(w), switched: true}
+		case net > 0 && wl.Type == reservoir.Injector && wl.MaxBHP > 0:
+			ctl[w] = control{open: true, bhp: true, target: wl.MaxBHP, switched: true}
+		}
+	}
 }
 
 // reopens reports whether a well shut for backflow, at BHP control c,
