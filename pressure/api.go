@@ -87,6 +87,8 @@ type Solution struct {
 	// MassBalance is |sum of well rates| / total injection (total
 	// production when nothing is injected).
 	MassBalance float64
-	// Warnings are messages for the user (limits reached, isolated regions).
+	// Warnings are messages for the user (limits reached, wells shut for
+	// backflow with the pressure they would have to overcome, relative
+	// pressures, isolated regions).
 	Warnings []string
 }
