@@ -4,6 +4,7 @@ import (
 	"math"
 	"slices"
 
+	"floodtrace/pressure"
 	"floodtrace/reservoir"
 )
 
@@ -42,6 +43,16 @@ func (b *book) warn(msg string) {
 	if !b.seen[msg] {
 		b.seen[msg] = true
 		b.r.Warnings = append(b.r.Warnings, msg)
+	}
+}
+
+// limitFlag marks the injector of model well wi as having reached its
+// max_bhp when the solve held it at the limit, flowing or shut for
+// backflow (the limit below the pressure it must overcome).
+func (b *book) limitFlag(wi int, w pressure.WellResult) {
+	if k := b.injOf[wi]; k >= 0 && w.Type == reservoir.Injector && !w.Shut &&
+		w.LimitReached && w.Control == reservoir.BHPControl && (w.Q > 0 || w.Backflow) {
+		b.r.Injectors[k].MaxBHPReached = true
 	}
 }
 

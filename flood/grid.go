@@ -90,6 +90,9 @@ func RunGrid(m *reservoir.Model, s Settings, o GridOptions) (*Result, error) {
 	if err := g.run(); err != nil {
 		return nil, err
 	}
+	if err := checkResult(g.r); err != nil {
+		return nil, err
+	}
 	return g.r, nil
 }
 
@@ -285,6 +288,9 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	for _, w := range sol.Warnings {
 		g.warn(w)
 	}
+	if err := checkSolve("grid", sol, t); err != nil {
+		return err
+	}
 	clear(g.src)
 	clear(g.srcW)
 	clear(g.rate)
@@ -294,6 +300,7 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 			rate = 0
 		}
 		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP})
+		g.limitFlag(wi, w)
 		if w.Shut || w.Q == 0 {
 			continue
 		}
@@ -303,11 +310,6 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 				g.srcW[w.Cell] = 1
 			} else {
 				g.srcW[w.Cell] = -1 // the cell's own water fraction
-			}
-			if k := g.injOf[wi]; k >= 0 && w.Type == reservoir.Injector {
-				if w.LimitReached && w.Control == reservoir.BHPControl {
-					r.Injectors[k].MaxBHPReached = true
-				}
 			}
 		} else if p := g.prodOf[wi]; p >= 0 && w.Type == reservoir.Producer {
 			g.rate[p] = -w.Q

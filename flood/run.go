@@ -183,6 +183,9 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		// memory instead of touching new pages (docs/PERFORMANCE.md).
 		runtime.GC()
 	}
+	if err := checkSolve("streamline", sol, 0); err != nil {
+		return nil, err
+	}
 	r.Pressure = sol
 	r.Solves, r.Iterations, r.RelResidual = 1, sol.Iterations, sol.RelResidual
 	r.Warnings = append(r.Warnings, sol.Warnings...)
@@ -208,6 +211,9 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	pv := m.PoreVolumes()
 	r.Phi, r.F = streamline.FPhi(pv, totalTravel(tr))
 	r.Lorenz = streamline.Lorenz(r.Phi, r.F)
+	if len(tr.Lines) == 0 && math.IsNaN(r.Lorenz) {
+		r.Lorenz = 0 // nothing flows (every well shut or held at zero rate)
+	}
 	r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
 	r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
 
@@ -229,6 +235,9 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}
 	r.fixedTransport(m, sol, lines, newBLTable(sol1d, ff), s)
+	if err := checkResult(r); err != nil {
+		return nil, err
+	}
 	return r, nil
 }
 

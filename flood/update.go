@@ -85,6 +85,9 @@ func RunUpdates(m *reservoir.Model, s Settings, o UpdateOptions) (*Result, error
 	if err := u.run(); err != nil {
 		return nil, err
 	}
+	if err := checkResult(u.r); err != nil {
+		return nil, err
+	}
 	return u.r, nil
 }
 
@@ -330,6 +333,9 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 	for _, w := range sol.Warnings {
 		u.warn(w)
 	}
+	if err := checkSolve("streamline", sol, t); err != nil {
+		return nil, err
+	}
 	for _, w := range sol.Wells {
 		rate := math.Abs(w.Q)
 		if w.Shut {
@@ -357,18 +363,13 @@ func (u *updateRun) interval(idx int, t0, t1 float64) error {
 		u.rate[p] = 0
 	}
 	for wi, w := range sol.Wells {
+		u.limitFlag(wi, w)
 		if w.Shut || w.Q == 0 {
 			continue
 		}
 		flowing = true
 		if w.Q < 0 && u.prodOf[wi] >= 0 {
 			u.rate[u.prodOf[wi]] = -w.Q
-		}
-		if w.Q > 0 && u.injOf[wi] >= 0 {
-			in := &r.Injectors[u.injOf[wi]]
-			if w.LimitReached && w.Control == reservoir.BHPControl {
-				in.MaxBHPReached = true
-			}
 		}
 	}
 	for k := range r.Injectors {

@@ -40,10 +40,23 @@ type WellResult struct {
 	BHP     float64
 	Control reservoir.Control // the control in force after limits
 	// LimitReached is true when a rate-controlled well hit its MaxBHP or
-	// MinBHP and was switched to BHP control.
+	// MinBHP (for a producer without MinBHP, the default floor
+	// reservoir.UnitSystem.Atmospheric) and was switched to BHP control;
+	// it stays true when the well was then shut for backflow.
 	LimitReached bool
-	Shut         bool
-	WI           float64 // Peaceman well index times mobility (connection factor)
+	// Shut is true for a well shut in by the case or the schedule (Q = 0).
+	Shut bool
+	// Backflow is true for an open well that this solve shut because,
+	// flowing, it would flow against its type: an injector whose BHP (or
+	// MaxBHP) is below its cell pressure, a producer whose BHP (or MinBHP)
+	// is above it. Q is 0 and BHP is the cell pressure with the well shut,
+	// the pressure the well would have to overcome; a warning names it.
+	Backflow bool
+	// Relative is true for a well in a region whose open wells are all
+	// rate-controlled: its pressures are relative to a gauge cell held at
+	// 0 (see Solve), so its BHP may be negative, and no BHP limit applies.
+	Relative bool
+	WI       float64 // Peaceman well index times mobility (connection factor)
 }
 
 // Solution is the solved pressure field.
@@ -74,6 +87,8 @@ type Solution struct {
 	// MassBalance is |sum of well rates| / total injection (total
 	// production when nothing is injected).
 	MassBalance float64
-	// Warnings are messages for the user (limits reached, isolated regions).
+	// Warnings are messages for the user (limits reached, wells shut for
+	// backflow with the pressure they would have to overcome, relative
+	// pressures, isolated regions).
 	Warnings []string
 }

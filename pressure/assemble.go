@@ -52,6 +52,7 @@ type control struct {
 	bhp      bool    // under BHP control
 	target   float64 // BHP under BHP control, else the source rate (positive injection)
 	switched bool    // a rate-controlled well moved to BHP control at its limit
+	backflow bool    // shut for this solve: open, it would flow against its type
 }
 
 // problem is the validated, control-independent part of a solve.
@@ -209,6 +210,16 @@ func (pb *problem) initialControls() []control {
 func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 	g := pb.g
 	n := g.N()
+	// A region is driven while it holds an open well; backflow can shut
+	// wells, so this follows the controls.
+	for c := range pb.driven {
+		pb.driven[c] = false
+	}
+	for w := range pb.wells {
+		if ctl[w].open {
+			pb.driven[pb.comp[pb.wells[w].Cell]] = true
+		}
+	}
 	gauged := make([]bool, pb.ncomp)
 	for c := range gauged {
 		gauged[c] = pb.driven[c]

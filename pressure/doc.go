@@ -7,7 +7,11 @@
 // Solve is the entry point; Assemble exposes the linear system for
 // benchmarks and preconditioner work. Regions cut off from every open well
 // are left out and reported; regions driven by rate-controlled wells alone
-// are solved with a gauge cell at pressure 0.
+// are solved with a gauge cell at pressure 0. Wells never flow against
+// their type: a well that would is shut for that solve and reported
+// (WellResult.Backflow), and a rate producer without MinBHP has a default
+// floor at atmospheric pressure (reservoir.UnitSystem.Atmospheric), set
+// here at solve time rather than in the model.
 //
 // References: Peaceman (1978, 1983) for the well model; Meijerink and van
 // der Vorst (1977) and Gustafsson (1978) for the incomplete Cholesky

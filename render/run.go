@@ -467,6 +467,10 @@ func (r *run) tofMap() error {
 	if err != nil {
 		return err
 	}
+	if _, _, _, _, ok := RobustRange(v, r.scene.Active, 0, 1, true); !ok {
+		r.rep.note("tof.asc holds no finite time of flight (nothing flows): no time-of-flight map")
+		return nil
+	}
 	s := r.scene
 	s.Subtitle = "Time of flight from the injectors · first pressure solve"
 	img, err := DrawField(s, v, r.tofSc, r.opt.Width, r.opt.Height)

@@ -50,6 +50,17 @@ func (u UnitSystem) DefaultWellRadius() float64 {
 	return 0.3
 }
 
+// Atmospheric is atmospheric pressure in the unit system's pressure unit:
+// 14.7 psi or 1.01325 bar (common practice). Package pressure uses it as
+// the default lower BHP limit of a rate-controlled producer that gives no
+// min_bhp.
+func (u UnitSystem) Atmospheric() float64 {
+	if u == Metric {
+		return 1.01325
+	}
+	return 14.7
+}
+
 // Grid is a uniform Cartesian areal grid. Origin is the south-west corner
 // in map coordinates.
 type Grid struct {
@@ -146,9 +157,11 @@ type Well struct {
 	Rate    float64 // target rate when Control == RateControl
 	BHP     float64 // target bottom-hole pressure when Control == BHPControl
 	// MaxBHP is an injector's upper pressure limit (fracture or permit
-	// limit) and MinBHP a producer's lower limit; 0 means none. A
+	// limit) and MinBHP a producer's lower limit; 0 means none given. A
 	// rate-controlled well that would cross its limit switches to BHP
-	// control at the limit.
+	// control at the limit. The model keeps what the case file says: a
+	// rate-controlled producer with MinBHP 0 is held at the default floor
+	// UnitSystem.Atmospheric by package pressure at solve time, not here.
 	MaxBHP float64
 	MinBHP float64
 	Radius float64

@@ -22,6 +22,7 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"floodtrace/flood"
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
 )
@@ -142,7 +143,8 @@ func runMain(args []string, out, errw io.Writer) (code int) {
 		}
 		var ie internalError
 		var se *pressure.SolverError
-		if errors.As(err, &ie) || errors.As(err, &se) {
+		var fe *flood.UnphysicalError
+		if errors.As(err, &ie) || errors.As(err, &se) || errors.As(err, &fe) {
 			fmt.Fprintf(stderr, "floodtrace %s: internal error: %v\nplease report this with the case file and the command line\n", c.Name, err)
 			return exitInternal
 		}

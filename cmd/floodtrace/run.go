@@ -188,7 +188,9 @@ func printRunSummary(r *flood.Result) {
 	fmt.Fprintf(stdout, "field recovery %.1f%% of OOIP, water cut %.3f, Lorenz coefficient %.3f, mass balance error %.1e\n",
 		100*r.RecoveryFactor[last], r.FieldWaterCut[last], r.Lorenz, r.MassBalanceError)
 	for _, in := range r.Injectors {
-		if in.MaxBHPReached {
+		if in.MaxBHPReached && in.Rate == 0 && in.CumWater == 0 {
+			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and injects nothing: the limit is below the pressure it must overcome (see the warnings)\n", in.Name)
+		} else if in.MaxBHPReached {
 			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and runs at that pressure at %.4g %s; check the limit against local regulations\n", in.Name, in.Rate, rate)
 		}
 	}
