@@ -71,7 +71,7 @@ Examples:
 			// snapshot (maps/saturation_<day>.png), without the other maps,
 			// the charts, the animation or report.html. The data files are
 			// the same as with --pictures all.
-			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (data files only)")
+			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (data files only; --no-pictures is an alias of none)")
 			// --no-pictures is kept, hidden, as an alias of --pictures none.
 			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "alias of --pictures none")
 			_ = fs.MarkHidden("no-pictures")
