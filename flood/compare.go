@@ -1,133 +1,11 @@
 package flood
 
 import (
-	"encoding/csv"
-	"encoding/json"
-	"errors"
-	"fmt"
-	"io"
-	"io/fs"
 	"math"
-	"os"
-	"path/filepath"
 	"slices"
-	"strconv"
+
+	"floodtrace/runfolder"
 )
-
-// ProducerCurve is one producer's water-cut curve read from a finished
-// run.
-type ProducerCurve struct {
-	Name string
-	// Time (days) and WaterCut at the report times, in increasing time.
-	Time, WaterCut []float64
-	// Breakthrough is the water breakthrough in days, NaN when the run
-	// reports none.
-	Breakthrough float64
-}
-
-// RunCurves is what a comparison needs from a finished run folder: the
-// producers' water-cut curves (producers.csv) and breakthrough times
-// (summary.json).
-type RunCurves struct {
-	Dir, Title, Engine string
-	Producers          []ProducerCurve
-}
-
-// ReadRunCurves reads producers.csv and summary.json from the run folder
-// dir. A folder without summary.json holds no finished run and is an
-// error.
-func ReadRunCurves(dir string) (*RunCurves, error) {
-	b, err := os.ReadFile(filepath.Join(dir, "summary.json"))
-	if errors.Is(err, fs.ErrNotExist) {
-		return nil, fmt.Errorf("%s: no summary.json: not a finished floodtrace run", dir)
-	}
-	if err != nil {
-		return nil, err
-	}
-	var sum struct {
-		Title     string `json:"title"`
-		Engine    string `json:"engine"`
-		Producers []struct {
-			Name             string   `json:"name"`
-			BreakthroughDays *float64 `json:"breakthrough_days"`
-		} `json:"producers"`
-	}
-	if err := json.Unmarshal(b, &sum); err != nil {
-		return nil, fmt.Errorf("%s: %w", filepath.Join(dir, "summary.json"), err)
-	}
-	rc := &RunCurves{Dir: dir, Title: sum.Title, Engine: sum.Engine}
-	if rc.Engine == "" {
-		rc.Engine = "streamline"
-	}
-	index := func(name string) int {
-		for i := range rc.Producers {
-			if rc.Producers[i].Name == name {
-				return i
-			}
-		}
-		return -1
-	}
-	for _, p := range sum.Producers {
-		bt := math.NaN()
-		if p.BreakthroughDays != nil {
-			bt = *p.BreakthroughDays
-		}
-		if index(p.Name) < 0 {
-			rc.Producers = append(rc.Producers, ProducerCurve{Name: p.Name, Breakthrough: bt})
-		}
-	}
-	path := filepath.Join(dir, "producers.csv")
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.ReuseRecord = true
-	head, err := r.Read()
-	if err != nil {
-		return nil, fmt.Errorf("%s: header: %w", path, err)
-	}
-	col := map[string]int{}
-	for i, h := range head {
-		col[h] = i
-	}
-	for _, need := range []string{"time_days", "well", "water_cut"} {
-		if _, ok := col[need]; !ok {
-			return nil, fmt.Errorf("%s: no %s column", path, need)
-		}
-	}
-	ct, cw, cc := col["time_days"], col["well"], col["water_cut"]
-	for line := 2; ; line++ {
-		rec, err := r.Read()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			return nil, fmt.Errorf("%s: %w", path, err)
-		}
-		if rec[cc] == "" {
-			continue // no value (written for NaN)
-		}
-		t, err1 := strconv.ParseFloat(rec[ct], 64)
-		wc, err2 := strconv.ParseFloat(rec[cc], 64)
-		if err1 != nil || err2 != nil || math.IsNaN(t) || math.IsInf(t, 0) {
-			return nil, fmt.Errorf("%s:%d: time %q or water cut %q is not a number", path, line, rec[ct], rec[cc])
-		}
-		i := index(rec[cw])
-		if i < 0 {
-			rc.Producers = append(rc.Producers, ProducerCurve{Name: rec[cw], Breakthrough: math.NaN()})
-			i = len(rc.Producers) - 1
-		}
-		p := &rc.Producers[i]
-		if n := len(p.Time); n > 0 && !(t > p.Time[n-1]) {
-			return nil, fmt.Errorf("%s:%d: well %s: time %g does not increase", path, line, p.Name, t)
-		}
-		p.Time = append(p.Time, t)
-		p.WaterCut = append(p.WaterCut, wc)
-	}
-	return rc, nil
-}
 
 // ProducerComparison compares one producer of two runs.
 type ProducerComparison struct {
@@ -142,12 +20,12 @@ type ProducerComparison struct {
 	// NaN for none); BreakthroughDiff is B - A, NaN unless both exist.
 	BreakthroughA, BreakthroughB, BreakthroughDiff float64
 	// A and B are the two curves.
-	A, B ProducerCurve
+	A, B runfolder.ProducerCurve
 }
 
 // Comparison is the comparison of two runs.
 type Comparison struct {
-	A, B *RunCurves
+	A, B *runfolder.RunCurves
 	// Producers lists the producers found in both runs, in the order of A.
 	Producers []ProducerComparison
 	// OnlyA and OnlyB name producers found in one run only.
@@ -158,10 +36,10 @@ type Comparison struct {
 }
 
 // Compare compares the producers' water-cut curves and breakthrough times
-// of two runs.
-func Compare(a, b *RunCurves) *Comparison {
+// of two runs (read with runfolder.ReadRunCurves).
+func Compare(a, b *runfolder.RunCurves) *Comparison {
 	c := &Comparison{A: a, B: b, RMS: math.NaN()}
-	find := func(rc *RunCurves, name string) *ProducerCurve {
+	find := func(rc *runfolder.RunCurves, name string) *runfolder.ProducerCurve {
 		for i := range rc.Producers {
 			if rc.Producers[i].Name == name {
 				return &rc.Producers[i]

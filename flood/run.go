@@ -21,8 +21,9 @@ type Settings struct {
 	// Workers is the number of goroutines for tracing; 0 = all cores.
 	// Results do not depend on it.
 	Workers int
-	// Frames is how many saturation maps to keep for the animation:
-	// 0 = up to 40, negative = none.
+	// Frames is how many saturation maps to keep for the animation
+	// (runfolder.FramesAuto, the zero value: up to 40, fewer on very large
+	// grids; runfolder.FramesNone or any negative value: none; N > 0: N).
 	Frames int
 	// Pressure configures the pressure solve.
 	Pressure pressure.Settings

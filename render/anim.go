@@ -1,6 +1,8 @@
 package render
 
 import (
+	"floodtrace/runfolder"
+
 	"bytes"
 	"fmt"
 	"image"
@@ -114,6 +116,10 @@ func pickFrames(total, n int) []int {
 // animation writes saturation.gif from frames/saturation_<day>.asc (or
 // the snapshots when the run saved no frame).
 func (r *run) animation() error {
+	if r.opt.Frames < 0 {
+		r.rep.note("frames: none: no animation")
+		return nil
+	}
 	files := r.frameFiles()
 	if len(files) == 0 {
 		files = r.snapshotFiles()
@@ -150,10 +156,10 @@ func (r *run) animation() error {
 	if err := gif.EncodeAll(&b, anim); err != nil {
 		return fmt.Errorf("render: encoding saturation.gif: %w", err)
 	}
-	if err := writeFileAtomic(filepath.Join(r.dir, "saturation.gif"), b.Bytes()); err != nil {
+	if err := writeFileAtomic(filepath.Join(r.dir, runfolder.AnimationFile), b.Bytes()); err != nil {
 		return err
 	}
-	r.rep.Files = append(r.rep.Files, "saturation.gif")
-	r.gif = "saturation.gif"
+	r.rep.Files = append(r.rep.Files, runfolder.AnimationFile)
+	r.gif = runfolder.AnimationFile
 	return nil
 }

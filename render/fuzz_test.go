@@ -41,12 +41,3 @@ func FuzzReadStreamlines(f *testing.F) {
 		parseStreamlines("s.geojson", data)
 	})
 }
-
-func FuzzReadSummary(f *testing.F) {
-	f.Add([]byte(`{"title":"x","units":"field","grid":{"nx":2,"ny":2,"dx":10,"dy":10},"wells":[{"name":"I","type":"injector","x":5,"y":5}],"producers":[],"snapshots":[{"time_days":1,"file":"saturation_1.asc"}]}`))
-	f.Add([]byte(`{"grid":{"nx":-5}}`))
-	f.Add([]byte(`{`))
-	f.Fuzz(func(t *testing.T, data []byte) {
-		ParseSummary("summary.json", data)
-	})
-}

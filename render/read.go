@@ -3,7 +3,6 @@ package render
 import (
 	"encoding/csv"
 	"encoding/json"
-	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -14,122 +13,8 @@ import (
 	"strings"
 
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 )
-
-// Summary is the part of summary.json (docs/OUTPUTS.md) that render uses.
-type Summary struct {
-	Title      string `json:"title"`
-	CaseFile   string `json:"case_file"`
-	Units      string `json:"units"`
-	UnitLabels struct {
-		Length   string `json:"length"`
-		Rate     string `json:"rate"`
-		Volume   string `json:"volume"`
-		Pressure string `json:"pressure"`
-	} `json:"unit_labels"`
-	Grid struct {
-		NX int     `json:"nx"`
-		NY int     `json:"ny"`
-		DX float64 `json:"dx"`
-		DY float64 `json:"dy"`
-		X0 float64 `json:"x0"`
-		Y0 float64 `json:"y0"`
-	} `json:"grid"`
-	Wells []struct {
-		Name string  `json:"name"`
-		Type string  `json:"type"`
-		X    float64 `json:"x"`
-		Y    float64 `json:"y"`
-		I    int     `json:"i"`
-		J    int     `json:"j"`
-	} `json:"wells"`
-	Faults []struct {
-		Name  string       `json:"name"`
-		Trace [][2]float64 `json:"trace"`
-	} `json:"faults"`
-	Engine     string  `json:"engine"`
-	EndDays    float64 `json:"end_days"`
-	PoreVolume float64 `json:"pore_volume"`
-	OOIP       float64 `json:"ooip"`
-	Producers  []struct {
-		Name                   string   `json:"name"`
-		TracerBreakthroughDays *float64 `json:"tracer_breakthrough_days"`
-		TracerBreakthroughPVI  *float64 `json:"tracer_breakthrough_pvi"`
-		BreakthroughDays       *float64 `json:"breakthrough_days"`
-		BreakthroughPVI        *float64 `json:"breakthrough_pvi"`
-		FinalWaterCut          float64  `json:"final_water_cut"`
-		CumOil                 float64  `json:"cum_oil"`
-		CumWater               float64  `json:"cum_water"`
-	} `json:"producers"`
-	Injectors []struct {
-		Name          string  `json:"name"`
-		CumWater      float64 `json:"cum_water"`
-		MaxBHPReached bool    `json:"max_bhp_reached"`
-	} `json:"injectors"`
-	Field struct {
-		FinalPVI            float64 `json:"final_pvi"`
-		FinalRecoveryFactor float64 `json:"final_recovery_factor"`
-		FinalWaterCut       float64 `json:"final_water_cut"`
-	} `json:"field"`
-	LorenzCoefficient *float64 `json:"lorenz_coefficient"`
-	MassBalanceError  *float64 `json:"mass_balance_error"`
-	Streamlines       int      `json:"streamlines"`
-	PressureSolver    struct {
-		Iterations       int     `json:"iterations"`
-		RelativeResidual float64 `json:"relative_residual"`
-		Solves           int     `json:"solves"`
-	} `json:"pressure_solver"`
-	Snapshots []struct {
-		TimeDays float64 `json:"time_days"`
-		PVI      float64 `json:"pvi"`
-		File     string  `json:"file"`
-	} `json:"snapshots"`
-	Warnings []string `json:"warnings"`
-}
-
-// ReadSummary reads and checks DIR/summary.json.
-func ReadSummary(dir string) (*Summary, error) {
-	path := filepath.Join(dir, "summary.json")
-	b, err := os.ReadFile(path)
-	if errors.Is(err, os.ErrNotExist) {
-		return nil, fmt.Errorf("render: %s has no summary.json: not a run folder, or an unfinished run", dir)
-	}
-	if err != nil {
-		return nil, fmt.Errorf("render: %w", err)
-	}
-	return ParseSummary(path, b)
-}
-
-// ParseSummary parses and checks the content of a summary.json; path names
-// it in messages.
-func ParseSummary(path string, b []byte) (*Summary, error) {
-	var s Summary
-	if err := json.Unmarshal(b, &s); err != nil {
-		return nil, fmt.Errorf("render: %s: %w", path, err)
-	}
-	g := s.Grid
-	if g.NX <= 0 || g.NY <= 0 || !(g.DX > 0) || !(g.DY > 0) {
-		return nil, fmt.Errorf("render: %s: invalid grid nx=%d ny=%d dx=%v dy=%v", path, g.NX, g.NY, g.DX, g.DY)
-	}
-	if int64(g.NX)*int64(g.NY) > 50_000_000 {
-		return nil, fmt.Errorf("render: %s: grid %dx%d too large", path, g.NX, g.NY)
-	}
-	for _, w := range s.Wells {
-		if w.Type != "injector" && w.Type != "producer" {
-			return nil, fmt.Errorf("render: %s: well %q has type %q, want injector or producer", path, w.Name, w.Type)
-		}
-	}
-	if s.UnitLabels.Length == "" {
-		l, _, _, r, p, v := reservoir.UnitSystem(s.Units).Labels()
-		s.UnitLabels.Length, s.UnitLabels.Rate, s.UnitLabels.Pressure, s.UnitLabels.Volume = l, r, p, v
-	}
-	return &s, nil
-}
-
-// ResGrid returns the summary's grid as a reservoir.Grid.
-func (s *Summary) ResGrid() reservoir.Grid {
-	return reservoir.Grid{NX: s.Grid.NX, NY: s.Grid.NY, DX: s.Grid.DX, DY: s.Grid.DY, X0: s.Grid.X0, Y0: s.Grid.Y0}
-}
 
 // ReadASC reads a GIS ASCII raster into cell order of the grid g (k =
 // j*NX+i, j counting north) with the reader of the case maps
@@ -313,17 +198,17 @@ type frameFile struct {
 	Name string // base name without extension
 }
 
-// listDays finds files named prefix<day>.asc in dir, sorted by day.
-func listDays(dir, prefix string) []frameFile {
-	m, _ := filepath.Glob(filepath.Join(dir, prefix+"*.asc"))
+// listDays finds the saturation maps (runfolder.SnapshotName) in dir,
+// sorted by day.
+func listDays(dir string) []frameFile {
+	m, _ := filepath.Glob(filepath.Join(dir, runfolder.SnapshotGlob))
 	var out []frameFile
 	for _, p := range m {
-		base := strings.TrimSuffix(filepath.Base(p), ".asc")
-		d, err := strconv.ParseFloat(strings.TrimPrefix(base, prefix), 64)
-		if err != nil {
+		d, ok := runfolder.SnapshotDay(filepath.Base(p))
+		if !ok {
 			continue
 		}
-		out = append(out, frameFile{Day: d, Path: p, Name: base})
+		out = append(out, frameFile{Day: d, Path: p, Name: strings.TrimSuffix(filepath.Base(p), ".asc")})
 	}
 	sort.Slice(out, func(a, b int) bool { return out[a].Day < out[b].Day })
 	return out

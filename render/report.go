@@ -1,6 +1,8 @@
 package render
 
 import (
+	"floodtrace/runfolder"
+
 	"bytes"
 	"encoding/base64"
 	"fmt"
@@ -104,47 +106,41 @@ func (r *run) report() error {
 		Notes:    r.rep.Notes,
 	}
 	d.Meta = fmt.Sprintf("Waterflood screening run · %s units · %s engine · %s days simulated",
-		s.Units, nonEmpty(s.Engine, "streamline"), FormatNumber(s.EndDays, decimalsForDay(s.EndDays)))
+		s.Units, nonEmpty(s.Engine, "streamline"), FormatNumber(float64(s.EndDays), decimalsForDay(float64(s.EndDays))))
 	if s.CaseFile != "" {
 		d.Source = s.CaseFile
 	}
 
-	lc := math.NaN()
-	if s.LorenzCoefficient != nil {
-		lc = *s.LorenzCoefficient
-	}
-	mb := math.NaN()
-	if s.MassBalanceError != nil {
-		mb = *s.MassBalanceError
-	}
+	lc := runfolder.Value(s.LorenzCoefficient)
+	mb := float64(s.MassBalanceError)
 	d.Figures = []kv{
-		{"Recovery factor", fmtPct(s.Field.FinalRecoveryFactor)},
-		{"Field water cut", fmtPct(s.Field.FinalWaterCut)},
-		{"Pore volumes injected", fmtNum(s.Field.FinalPVI, 2)},
+		{"Recovery factor", fmtPct(float64(s.Field.FinalRecoveryFactor))},
+		{"Field water cut", fmtPct(float64(s.Field.FinalWaterCut))},
+		{"Pore volumes injected", fmtNum(float64(s.Field.FinalPVI), 2)},
 		{"Lorenz coefficient", fmtNum(lc, 3)},
 	}
 	g := s.Grid
 	d.Summary = []kv{
 		{"Case", d.Title},
 		{"Units", fmt.Sprintf("%s (lengths %s, rates %s, volumes %s, pressures %s)", s.Units, u.Length, u.Rate, u.Volume, u.Pressure)},
-		{"Grid", fmt.Sprintf("%d × %d cells of %s × %s %s, origin (%s, %s)", g.NX, g.NY, trimNum(g.DX), trimNum(g.DY), u.Length, trimNum(g.X0), trimNum(g.Y0))},
-		{"Pore volume", fmtNum(s.PoreVolume, 0) + " " + u.Volume},
-		{"Original oil in place", fmtNum(s.OOIP, 0) + " " + u.Volume},
-		{"Simulated time", FormatNumber(s.EndDays, decimalsForDay(s.EndDays)) + " days"},
-		{"Final recovery factor", fmtPct(s.Field.FinalRecoveryFactor)},
-		{"Final water cut", fmtPct(s.Field.FinalWaterCut)},
-		{"Final pore volumes injected", fmtNum(s.Field.FinalPVI, 3)},
+		{"Grid", fmt.Sprintf("%d × %d cells of %s × %s %s, origin (%s, %s)", g.NX, g.NY, trimNum(float64(g.DX)), trimNum(float64(g.DY)), u.Length, trimNum(float64(g.X0)), trimNum(float64(g.Y0)))},
+		{"Pore volume", fmtNum(float64(s.PoreVolume), 0) + " " + u.Volume},
+		{"Original oil in place", fmtNum(float64(s.OOIP), 0) + " " + u.Volume},
+		{"Simulated time", FormatNumber(float64(s.EndDays), decimalsForDay(float64(s.EndDays))) + " days"},
+		{"Final recovery factor", fmtPct(float64(s.Field.FinalRecoveryFactor))},
+		{"Final water cut", fmtPct(float64(s.Field.FinalWaterCut))},
+		{"Final pore volumes injected", fmtNum(float64(s.Field.FinalPVI), 3)},
 		{"Lorenz coefficient", fmtNum(lc, 3)},
 		{"Mass balance error", fmtSci(mb)},
 		{"Streamlines", FormatNumber(float64(s.Streamlines), 0)},
 		{"Pressure solver", fmt.Sprintf("%d solve(s), %d iterations, relative residual %s",
-			s.PressureSolver.Solves, s.PressureSolver.Iterations, fmtSci(s.PressureSolver.RelativeResidual))},
+			s.PressureSolver.Solves, s.PressureSolver.Iterations, fmtSci(float64(s.PressureSolver.RelativeResidual)))},
 	}
 
 	// Last reported control, rate and BHP of each well.
 	last := map[string]int{}
 	var wt *Table
-	if p := filepath.Join(r.dir, "wells.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.WellsFile); exists(p) {
 		t, err := ReadTable(p)
 		if err != nil {
 			return err
@@ -166,7 +162,7 @@ func (r *run) report() error {
 		}
 	}
 	for _, w := range s.Wells {
-		row := wellRow{Name: w.Name, Type: w.Type, Location: trimNum(w.X) + ", " + trimNum(w.Y),
+		row := wellRow{Name: w.Name, Type: w.Type, Location: trimNum(float64(w.X)) + ", " + trimNum(float64(w.Y)),
 			Cell: fmt.Sprintf("%d, %d", w.I, w.J), Control: "–", Rate: "–", BHP: "–", CumOil: "–", CumWater: "–"}
 		if i, ok := last[w.Name]; ok && wt != nil {
 			row.Control = nonEmpty(wt.Str(i, "control"), "–")
@@ -174,11 +170,11 @@ func (r *run) report() error {
 			row.BHP = fmtNum(wt.Num(i, "bhp"), 0)
 		}
 		if i, ok := prod[w.Name]; ok {
-			row.CumOil = fmtNum(s.Producers[i].CumOil, 0)
-			row.CumWater = fmtNum(s.Producers[i].CumWater, 0)
+			row.CumOil = fmtNum(float64(s.Producers[i].CumOil), 0)
+			row.CumWater = fmtNum(float64(s.Producers[i].CumWater), 0)
 		}
 		if i, ok := inj[w.Name]; ok {
-			row.CumWater = fmtNum(s.Injectors[i].CumWater, 0)
+			row.CumWater = fmtNum(float64(s.Injectors[i].CumWater), 0)
 			row.Flag = s.Injectors[i].MaxBHPReached
 		}
 		d.Wells = append(d.Wells, row)
@@ -186,10 +182,10 @@ func (r *run) report() error {
 	for _, p := range s.Producers {
 		d.Breakthrough = append(d.Breakthrough, btRow{p.Name,
 			fmtOpt(p.TracerBreakthroughDays, 0), fmtOpt(p.TracerBreakthroughPVI, 3),
-			fmtOpt(p.BreakthroughDays, 0), fmtOpt(p.BreakthroughPVI, 3), fmtPct(p.FinalWaterCut)})
+			fmtOpt(p.BreakthroughDays, 0), fmtOpt(p.BreakthroughPVI, 3), fmtPct(float64(p.FinalWaterCut))})
 	}
 	d.HasBreakthough = len(d.Breakthrough) > 0
-	if p := filepath.Join(r.dir, "allocation.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.AllocationFile); exists(p) {
 		t, err := ReadTable(p)
 		if err != nil {
 			return err
@@ -226,10 +222,10 @@ func (r *run) report() error {
 	if err := reportTemplate.Execute(&b, d); err != nil {
 		return fmt.Errorf("render: report.html: %w", err)
 	}
-	if err := writeFileAtomic(filepath.Join(r.dir, "report.html"), b.Bytes()); err != nil {
+	if err := writeFileAtomic(filepath.Join(r.dir, runfolder.ReportFile), b.Bytes()); err != nil {
 		return err
 	}
-	r.rep.Files = append(r.rep.Files, "report.html")
+	r.rep.Files = append(r.rep.Files, runfolder.ReportFile)
 	return nil
 }
 

@@ -10,10 +10,10 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
-	"strconv"
 	"strings"
 
 	"floodtrace/internal/outdir"
+	"floodtrace/runfolder"
 )
 
 // Options controls Run. The zero value draws 1920x1080 maps and PNG
@@ -24,7 +24,8 @@ type Options struct {
 	// Format of the charts: "png" (default) or "svg". Maps are PNG.
 	Format string
 	// Frames is the number of animation frames, chosen evenly among the
-	// saved ones; 0 means all.
+	// saved ones (runfolder.FramesAuto, the zero value: all of them;
+	// runfolder.FramesNone or any negative value: no animation).
 	Frames int
 	// GIFWidth and GIFHeight size the animation; 0 means half the map
 	// size (960x540 by default).
@@ -34,10 +35,10 @@ type Options struct {
 	// animation frames are not read). No other map, chart, animation or
 	// report is drawn.
 	Minimal bool
-	// Summary, when set, is the content of the run's summary.json, used
-	// instead of reading the file: a run draws its pictures before it
-	// writes summary.json, which marks the folder as finished.
-	Summary []byte
+	// Summary, when set, is the run's summary, used instead of reading
+	// summary.json: a run draws its pictures before it writes
+	// summary.json, which marks the folder as finished.
+	Summary *runfolder.Summary
 }
 
 // Report lists what Run wrote.
@@ -64,9 +65,6 @@ func (o Options) resolve() (Options, error) {
 	if o.Format != "png" && o.Format != "svg" {
 		return o, fmt.Errorf("render: chart format %q, want png or svg", o.Format)
 	}
-	if o.Frames < 0 {
-		return o, fmt.Errorf("render: %d animation frames", o.Frames)
-	}
 	if o.GIFWidth == 0 && o.GIFHeight == 0 {
 		o.GIFWidth, o.GIFHeight = max(MinSide, o.Width/2), max(MinSide, o.Height/2)
 	}
@@ -80,7 +78,7 @@ func (o Options) resolve() (Options, error) {
 type run struct {
 	dir    string
 	opt    Options
-	sum    *Summary
+	sum    *runfolder.Summary
 	scene  Scene
 	rep    *Report
 	field  *Table // field.csv, for PVI at a given day
@@ -109,20 +107,20 @@ func Run(dir string, opt Options) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	var sum *Summary
-	if opt.Summary != nil {
-		sum, err = ParseSummary(filepath.Join(dir, "summary.json"), opt.Summary)
-	} else {
-		sum, err = ReadSummary(dir)
+	sum := opt.Summary
+	if sum == nil {
+		if sum, err = runfolder.ReadSummary(dir); err != nil {
+			return nil, fmt.Errorf("render: %w", err)
+		}
 	}
-	if err != nil {
-		return nil, err
+	if err := sum.Check(filepath.Join(dir, runfolder.SummaryFile)); err != nil {
+		return nil, fmt.Errorf("render: %w", err)
 	}
 	r := &run{dir: dir, opt: opt, sum: sum, rep: &Report{Dir: dir}}
 	if err := r.prepare(); err != nil {
 		return nil, err
 	}
-	for _, sub := range []string{"maps", "charts"} {
+	for _, sub := range []string{runfolder.MapsDir, runfolder.ChartsDir} {
 		if err := os.MkdirAll(filepath.Join(dir, sub), 0o755); err != nil {
 			return nil, fmt.Errorf("render: %w", err)
 		}
@@ -159,20 +157,24 @@ func exists(p string) bool { _, err := os.Stat(p); return err == nil }
 // colour scales.
 func (r *run) prepare() error {
 	s := r.sum
-	g := s.ResGrid()
+	g := s.Grid.Reservoir()
 	title := s.Title
 	if title == "" {
 		title = "floodtrace run"
 	}
 	r.scene = Scene{Title: title, Grid: g, LengthUnit: s.UnitLabels.Length}
 	for _, w := range s.Wells {
-		r.scene.Wells = append(r.scene.Wells, WellMark{Name: w.Name, X: w.X, Y: w.Y, Injector: w.Type == "injector"})
+		r.scene.Wells = append(r.scene.Wells, WellMark{Name: w.Name, X: float64(w.X), Y: float64(w.Y), Injector: w.Type == "injector"})
 	}
 	for _, f := range s.Faults {
-		r.scene.Faults = append(r.scene.Faults, f.Trace)
+		tr := make([][2]float64, len(f.Trace))
+		for i, p := range f.Trace {
+			tr[i] = [2]float64{float64(p[0]), float64(p[1])}
+		}
+		r.scene.Faults = append(r.scene.Faults, tr)
 		r.scene.FaultNames = append(r.scene.FaultNames, f.Name)
 	}
-	if p := filepath.Join(r.dir, "field.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.FieldFile); exists(p) {
 		t, err := ReadTable(p)
 		if err != nil {
 			return err
@@ -190,7 +192,7 @@ func (r *run) prepare() error {
 	if len(sat0) > 0 {
 		candidates = append(candidates, sat0[0].Path)
 	}
-	candidates = append(candidates, filepath.Join(r.dir, "tof.asc"), filepath.Join(r.dir, "pressure.asc"))
+	candidates = append(candidates, filepath.Join(r.dir, runfolder.TOFFile), filepath.Join(r.dir, runfolder.PressureFile))
 	for i, p := range candidates {
 		if !exists(p) {
 			continue
@@ -247,7 +249,7 @@ func (r *run) prepare() error {
 	// Time of flight: stagnant corners reach huge values, so the scale
 	// spans the 1st to 99th percentiles and the bar shows the clipping.
 	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
-	if p := filepath.Join(r.dir, "tof.asc"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.TOFFile); exists(p) {
 		v, err := ReadASC(p, g)
 		if err != nil {
 			return err
@@ -306,37 +308,29 @@ func (r *run) snapshotFiles() []frameFile {
 	for _, s := range r.sum.Snapshots {
 		name := s.File
 		if name == "" {
-			name = "saturation_" + dayString(s.TimeDays) + ".asc"
+			name = runfolder.SnapshotName(float64(s.TimeDays))
 		}
 		p := filepath.Join(r.dir, filepath.Base(name))
 		if exists(p) {
-			out = append(out, frameFile{Day: s.TimeDays, Path: p, Name: strings.TrimSuffix(filepath.Base(name), ".asc")})
+			out = append(out, frameFile{Day: float64(s.TimeDays), Path: p, Name: strings.TrimSuffix(filepath.Base(name), ".asc")})
 		}
 	}
 	if len(r.sum.Snapshots) == 0 {
-		out = listDays(r.dir, "saturation_")
+		out = listDays(r.dir)
 	}
 	return out
 }
 
 func (r *run) frameFiles() []frameFile {
-	return listDays(filepath.Join(r.dir, "frames"), "saturation_")
-}
-
-// dayString writes a day as an integer, or with the decimals it needs.
-func dayString(d float64) string {
-	if d == math.Trunc(d) {
-		return strconv.FormatFloat(d, 'f', 0, 64)
-	}
-	return strconv.FormatFloat(d, 'f', -1, 64)
+	return listDays(filepath.Join(r.dir, runfolder.FramesDir))
 }
 
 // pviAt returns the pore volumes injected at a day: a snapshot's own value
 // when it has one, else interpolated in field.csv; NaN when unknown.
 func (r *run) pviAt(day float64) float64 {
 	for _, s := range r.sum.Snapshots {
-		if s.TimeDays == day && s.PVI > 0 {
-			return s.PVI
+		if float64(s.TimeDays) == day && s.PVI > 0 {
+			return float64(s.PVI)
 		}
 	}
 	t := r.field
@@ -419,7 +413,7 @@ func (r *run) saturationMaps() error {
 		if err != nil {
 			return fmt.Errorf("render: %s: %w", f.Path, err)
 		}
-		rel := filepath.Join("maps", f.Name+".png")
+		rel := filepath.Join(runfolder.MapsDir, f.Name+".png")
 		if err := r.writePNG(rel, img); err != nil {
 			return err
 		}
@@ -429,7 +423,7 @@ func (r *run) saturationMaps() error {
 }
 
 func (r *run) streamlineMap() error {
-	p := filepath.Join(r.dir, "streamlines.geojson")
+	p := filepath.Join(r.dir, runfolder.StreamlinesFile)
 	if !exists(p) {
 		r.rep.note("streamlines.geojson missing: no streamline map")
 		return nil
@@ -449,7 +443,7 @@ func (r *run) streamlineMap() error {
 	if err != nil {
 		return fmt.Errorf("render: %s: %w", p, err)
 	}
-	rel := filepath.Join("maps", "streamlines.png")
+	rel := filepath.Join(runfolder.MapsDir, "streamlines.png")
 	if err := r.writePNG(rel, img); err != nil {
 		return err
 	}
@@ -458,7 +452,7 @@ func (r *run) streamlineMap() error {
 }
 
 func (r *run) tofMap() error {
-	p := filepath.Join(r.dir, "tof.asc")
+	p := filepath.Join(r.dir, runfolder.TOFFile)
 	if !exists(p) {
 		r.rep.note("tof.asc missing: no time-of-flight map")
 		return nil
@@ -477,7 +471,7 @@ func (r *run) tofMap() error {
 	if err != nil {
 		return fmt.Errorf("render: %s: %w", p, err)
 	}
-	rel := filepath.Join("maps", "tof.png")
+	rel := filepath.Join(runfolder.MapsDir, "tof.png")
 	if err := r.writePNG(rel, img); err != nil {
 		return err
 	}
@@ -519,7 +513,7 @@ func (r *run) partitionMaps() error {
 		if err != nil {
 			return fmt.Errorf("render: %s: %w", p, err)
 		}
-		rel := filepath.Join("maps", pm.file+".png")
+		rel := filepath.Join(runfolder.MapsDir, pm.file+".png")
 		if err := r.writePNG(rel, img); err != nil {
 			return err
 		}
@@ -529,7 +523,7 @@ func (r *run) partitionMaps() error {
 }
 
 func (r *run) pressureMap() error {
-	p := filepath.Join(r.dir, "pressure.asc")
+	p := filepath.Join(r.dir, runfolder.PressureFile)
 	if !exists(p) {
 		r.rep.note("pressure.asc missing: no pressure map")
 		return nil
@@ -555,7 +549,7 @@ func (r *run) pressureMap() error {
 	if err != nil {
 		return fmt.Errorf("render: %s: %w", p, err)
 	}
-	rel := filepath.Join("maps", "pressure.png")
+	rel := filepath.Join(runfolder.MapsDir, "pressure.png")
 	if err := r.writePNG(rel, img); err != nil {
 		return err
 	}

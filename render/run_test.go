@@ -15,6 +15,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"floodtrace/runfolder"
 )
 
 // outDir returns a fresh folder for a synthetic run; with
@@ -244,6 +246,26 @@ func TestRunPartialFolder(t *testing.T) {
 	}
 }
 
+// TestRunFramesNone: Frames runfolder.FramesNone (the rule of --frames
+// none) draws every picture but the animation.
+func TestRunFramesNone(t *testing.T) {
+	dir := t.TempDir()
+	newSynthCase().write(t, dir)
+	rep, err := Run(dir, Options{Width: 640, Height: 400, Frames: runfolder.FramesNone})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if slices.Contains(rep.Files, runfolder.AnimationFile) {
+		t.Errorf("frames none drew %s", runfolder.AnimationFile)
+	}
+	if _, err := os.Stat(filepath.Join(dir, runfolder.AnimationFile)); err == nil {
+		t.Errorf("frames none wrote %s", runfolder.AnimationFile)
+	}
+	if !slices.Contains(rep.Files, runfolder.ReportFile) {
+		t.Errorf("frames none: no %s in %v", runfolder.ReportFile, rep.Files)
+	}
+}
+
 func TestRunErrors(t *testing.T) {
 	empty := t.TempDir()
 	if _, err := Run(empty, Options{}); err == nil || !strings.Contains(err.Error(), "summary.json") {
@@ -251,7 +273,7 @@ func TestRunErrors(t *testing.T) {
 	}
 	dir := t.TempDir()
 	newSynthCase().write(t, dir)
-	for _, o := range []Options{{Format: "bmp"}, {Width: 5, Height: 5}, {Frames: -1}, {GIFWidth: 20000, GIFHeight: 10}} {
+	for _, o := range []Options{{Format: "bmp"}, {Width: 5, Height: 5}, {GIFWidth: 20000, GIFHeight: 10}} {
 		if _, err := Run(dir, o); err == nil {
 			t.Errorf("options %+v accepted", o)
 		}

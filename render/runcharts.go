@@ -1,6 +1,8 @@
 package render
 
 import (
+	"floodtrace/runfolder"
+
 	"errors"
 	"fmt"
 	"math"
@@ -90,7 +92,7 @@ func (r *run) perWell(t *Table, x, y string) []Series {
 }
 
 func (r *run) chart(name string, c Chart, caption string) error {
-	rel := filepath.Join("charts", name+"."+r.opt.Format)
+	rel := filepath.Join(runfolder.ChartsDir, name+"."+r.opt.Format)
 	if err := LineChart(filepath.Join(r.dir, rel), c, r.opt.Width, r.opt.Height, r.opt.Format); err != nil {
 		return fmt.Errorf("render: %s: %w", rel, err)
 	}
@@ -102,7 +104,7 @@ func (r *run) chart(name string, c Chart, caption string) error {
 func (r *run) drawCharts() error {
 	title := r.scene.Title
 	u := r.sum.UnitLabels
-	if p := filepath.Join(r.dir, "producers.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.ProducersFile); exists(p) {
 		t, err := ReadTable(p)
 		if err != nil {
 			return err
@@ -131,7 +133,7 @@ func (r *run) drawCharts() error {
 	} else {
 		r.rep.note("producers.csv missing: no producer charts")
 	}
-	if p := filepath.Join(r.dir, "field.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.FieldFile); exists(p) {
 		t := r.field
 		if err := t.need(p, "pvi", "recovery_factor", "water_cut"); err != nil {
 			return err
@@ -151,7 +153,7 @@ func (r *run) drawCharts() error {
 	} else {
 		r.rep.note("field.csv missing: no field chart")
 	}
-	if p := filepath.Join(r.dir, "effective_curves.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.EffectiveCurvesFile); exists(p) {
 		t, err := ReadTable(p)
 		if err != nil {
 			return err
@@ -168,7 +170,7 @@ func (r *run) drawCharts() error {
 	} else {
 		r.rep.note("effective_curves.csv missing: no dynamic-curve chart")
 	}
-	if p := filepath.Join(r.dir, "diagnostics.csv"); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.DiagnosticsFile); exists(p) {
 		t, err := ReadTable(p)
 		if err != nil {
 			return err

@@ -1,6 +1,8 @@
 package render
 
 import (
+	"floodtrace/runfolder"
+
 	"encoding/json"
 	"fmt"
 	"math"
@@ -114,7 +116,7 @@ func (c synthCase) write(t testing.TB, dir string) {
 	for n := range 12 {
 		d := 150 + float64(n)*(1825-150)/11
 		d = math.Round(d*10) / 10
-		c.writeASC(t, filepath.Join(dir, "frames", "saturation_"+dayString(d)+".asc"), func(i, j int) float64 { return c.sw(i, j, d) })
+		c.writeASC(t, filepath.Join(dir, "frames", "saturation_"+runfolder.DayLabel(d)+".asc"), func(i, j int) float64 { return c.sw(i, j, d) })
 	}
 	c.writeASC(t, filepath.Join(dir, "pressure.asc"), func(i, j int) float64 {
 		if c.pocket(i, j) {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"image/png"
 	"io"
+	"os"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -28,6 +29,23 @@ type OutputSettings struct {
 	Missing  []int
 	Pressure pressure.Settings
 	Log      func(format string, args ...any)
+}
+
+// SummaryFile is the name of the screen folder's summary, written last.
+const SummaryFile = "screen.json"
+
+// ReadSummary reads DIR/screen.json, the summary of a finished screen.
+func ReadSummary(dir string) (*Summary, error) {
+	path := filepath.Join(dir, SummaryFile)
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	var s Summary
+	if err := json.Unmarshal(b, &s); err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	return &s, nil
 }
 
 // Summary is the content of screen.json, written last.
@@ -212,7 +230,7 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 	if err != nil {
 		return nil, err
 	}
-	if err := d.Bytes("screen.json", append(b, '\n')); err != nil {
+	if err := d.Bytes(SummaryFile, append(b, '\n')); err != nil {
 		return nil, err
 	}
 	return rk, nil

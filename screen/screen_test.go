@@ -365,12 +365,8 @@ func TestWriteOutputs(t *testing.T) {
 	if err := d.Close(); err != nil {
 		t.Fatal(err)
 	}
-	var sum Summary
-	b, err := os.ReadFile(filepath.Join(dir, "screen.json"))
+	sum, err := ReadSummary(dir)
 	if err != nil {
-		t.Fatal(err)
-	}
-	if err := json.Unmarshal(b, &sum); err != nil {
 		t.Fatal(err)
 	}
 	if !sum.Complete || sum.RankedBy != "p10" || sum.Ranked != len(p.Candidates) || len(sum.Pictures) != 3 {

@@ -17,6 +17,7 @@ import (
 	"floodtrace/flood"
 	"floodtrace/internal/outdir"
 	"floodtrace/render"
+	"floodtrace/runfolder"
 )
 
 var compareFlags struct {
@@ -65,11 +66,11 @@ func runCompare(args []string) error {
 	if format != "png" && format != "svg" {
 		return usageError{fmt.Sprintf("--out must name a .png or .svg file, not %q", compareFlags.out)}
 	}
-	a, err := flood.ReadRunCurves(args[0])
+	a, err := runfolder.ReadRunCurves(args[0])
 	if err != nil {
 		return err
 	}
-	b, err := flood.ReadRunCurves(args[1])
+	b, err := runfolder.ReadRunCurves(args[1])
 	if err != nil {
 		return err
 	}
@@ -147,7 +148,7 @@ func comparisonChart(c *flood.Comparison, k float64) (*plot.Plot, error) {
 	width := 1.6 * k
 	for i, pc := range c.Producers {
 		col, _ := render.SeriesStyle(i)
-		for k, cur := range []flood.ProducerCurve{pc.A, pc.B} {
+		for k, cur := range []runfolder.ProducerCurve{pc.A, pc.B} {
 			xy := make(plotter.XYs, 0, len(cur.Time))
 			for j := range cur.Time {
 				if !math.IsNaN(cur.WaterCut[j]) {
@@ -190,6 +191,6 @@ func (t lineThumb) Thumbnail(c *draw.Canvas) {
 	c.StrokeLine2(draw.LineStyle(t), c.Min.X, y, c.Max.X, y)
 }
 
-func label(rc *flood.RunCurves) string {
+func label(rc *runfolder.RunCurves) string {
 	return fmt.Sprintf("%s [%s]", filepath.Base(filepath.Clean(rc.Dir)), rc.Engine)
 }

@@ -238,13 +238,16 @@ func TestSummaryWrittenLast(t *testing.T) {
 	}
 }
 
+// TestFramesFlag: --frames takes one rule in run and render (auto, none
+// or a count; runfolder.FramesAuto and FramesNone), 0 and negative counts
+// are usage errors, and --no-pictures is an alias of --pictures none.
 func TestFramesFlag(t *testing.T) {
 	dir := t.TempDir()
-	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--no-pictures", "--frames", "0"); code != 0 {
+	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--pictures", "none", "--frames", "none"); code != 0 {
 		t.Fatalf("code %d: %s", code, e)
 	}
 	if _, err := os.Stat(filepath.Join(dir, "frames")); err == nil {
-		t.Error("--frames 0 wrote animation frames")
+		t.Error("--frames none wrote animation frames")
 	}
 	dir = t.TempDir()
 	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--no-pictures", "--frames", "5"); code != 0 {
@@ -253,8 +256,36 @@ func TestFramesFlag(t *testing.T) {
 	if ents, _ := os.ReadDir(filepath.Join(dir, "frames")); len(ents) != 5 {
 		t.Errorf("--frames 5 wrote %d frames", len(ents))
 	}
-	if code, _, _ := run(t, "run", demo, "--out", t.TempDir(), "--frames", "-3"); code != exitUsage {
-		t.Errorf("--frames -3: exit %d, want 2", code)
+	if _, err := os.Stat(filepath.Join(dir, "report.html")); err == nil {
+		t.Error("--no-pictures drew the report")
+	}
+	auto := t.TempDir()
+	if code, _, e := run(t, "run", demo, "--out", auto, "-q", "--pictures", "none", "--frames", "auto"); code != 0 {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	// The demo has 122 report times: auto keeps 40 (the cap, flood/fixed.go).
+	if ents, _ := os.ReadDir(filepath.Join(auto, "frames")); len(ents) != 40 {
+		t.Errorf("--frames auto wrote %d frames, want 40", len(ents))
+	}
+	for _, bad := range [][]string{{"--frames", "-3"}, {"--frames", "0"}, {"--frames", "lots"}, {"--no-pictures", "--pictures", "minimal"}} {
+		args := append([]string{"run", demo, "--out", t.TempDir()}, bad...)
+		if code, _, e := run(t, args...); code != exitUsage {
+			t.Errorf("%v: exit %d, want 2", bad, code)
+		} else if bad[1] == "0" && !strings.Contains(e, "none") {
+			t.Errorf("--frames 0: message %q does not point at none", e)
+		}
+	}
+	if code, _, e := run(t, "render", dir, "--size", "640x400", "--frames", "none"); code != 0 {
+		t.Fatalf("render --frames none: code %d: %s", code, e)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "saturation.gif")); err == nil {
+		t.Error("render --frames none drew the animation")
+	}
+	if _, err := os.Stat(filepath.Join(dir, "report.html")); err != nil {
+		t.Error("render --frames none drew no report")
+	}
+	if code, _, _ := run(t, "render", dir, "--frames", "0"); code != exitUsage {
+		t.Errorf("render --frames 0: exit %d, want 2", code)
 	}
 }
 

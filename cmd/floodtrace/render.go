@@ -2,25 +2,24 @@ package main
 
 import (
 	"fmt"
-	"os"
-	"path/filepath"
 
 	"github.com/spf13/pflag"
 
 	"floodtrace/internal/outdir"
 	"floodtrace/render"
+	"floodtrace/runfolder"
 )
 
 var renderFlags struct {
 	size   string
 	format string
-	frames int
+	frames framesValue
 }
 
 func init() {
 	register(&command{
 		Name:  "render",
-		Usage: "render DIR [--size WxH] [--format png|svg] [--frames N]",
+		Usage: "render DIR [--size WxH] [--format png|svg] [--frames auto|none|N]",
 		Short: "redraw the pictures and the report of a finished run",
 		Long: `Render redraws the maps, charts, animation and report.html of a finished run from
 its output files, without recomputing anything: use it for another picture size
@@ -29,12 +28,14 @@ or chart format. DIR must hold a finished run (with summary.json).
 Examples:
   floodtrace render out/vardel --size 1280x720
   floodtrace render out/vardel --format svg
-  floodtrace render out/vardel --frames 12`,
+  floodtrace render out/vardel --frames 12
+  floodtrace render out/vardel --frames none`,
 		NArgs: exactly(1),
 		Flags: func(fs *pflag.FlagSet) {
 			fs.StringVar(&renderFlags.size, "size", "1920x1080", "picture size WxH")
 			fs.StringVar(&renderFlags.format, "format", "png", "chart format: png or svg")
-			fs.IntVar(&renderFlags.frames, "frames", 0, "animation frames, chosen evenly among the saved maps (0 = all)")
+			renderFlags.frames = framesValue(runfolder.FramesAuto)
+			fs.Var(&renderFlags.frames, "frames", "animation frames: auto (every saved map), none (no animation), or a count from 1 to 1000 chosen evenly among the saved maps")
 		},
 		Run: runRender,
 	})
@@ -49,11 +50,8 @@ func runRender(args []string) error {
 	if renderFlags.format != "png" && renderFlags.format != "svg" {
 		return usageError{fmt.Sprintf("--format must be png or svg, not %q", renderFlags.format)}
 	}
-	if renderFlags.frames < 0 {
-		return usageError{"--frames must be 0 or more"}
-	}
-	if _, err := os.Stat(filepath.Join(dir, "summary.json")); err != nil {
-		return fmt.Errorf("%s: not a finished run (no summary.json)", dir)
+	if err := runfolder.Finished(dir); err != nil {
+		return err
 	}
 	// Reopen the folder so the manifest lists the new pictures and the
 	// run's own files are kept.
@@ -61,7 +59,7 @@ func runRender(args []string) error {
 	if err != nil {
 		return err
 	}
-	rep, err := render.Run(dir, render.Options{Width: w, Height: h, Format: renderFlags.format, Frames: renderFlags.frames})
+	rep, err := render.Run(dir, render.Options{Width: w, Height: h, Format: renderFlags.format, Frames: int(renderFlags.frames)})
 	if err != nil {
 		return err
 	}

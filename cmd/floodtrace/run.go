@@ -3,7 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
-	"os"
+	"strconv"
 	"strings"
 	"time"
 
@@ -13,6 +13,7 @@ import (
 	"floodtrace/internal/outdir"
 	"floodtrace/render"
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 )
 
 var runFlags struct {
@@ -24,7 +25,7 @@ var runFlags struct {
 	format      string
 	noPictures  bool
 	pictures    string
-	frames      int
+	frames      framesValue
 	quiet       bool
 	engine      string
 	updates     int
@@ -48,7 +49,8 @@ last: a folder without it holds an unfinished run.
 Examples:
   floodtrace run examples/vardel/case.yaml --out out/vardel
   floodtrace run case.yaml --out runs/base --streamlines 4000 --size 1280x720
-  floodtrace run case.yaml --out runs/quick --no-pictures
+  floodtrace run case.yaml --out runs/quick --pictures none
+  floodtrace run case.yaml --out runs/nogif --frames none
   floodtrace run case.yaml --out runs/fast --pictures minimal
   floodtrace run case.yaml --out runs/updated --updates 20
   floodtrace run case.yaml --out runs/grid --engine grid`,
@@ -62,15 +64,17 @@ Examples:
 			fs.IntVar(&runFlags.workers, "workers", 0, "goroutines for tracing (default: all cores; results do not depend on it)")
 			fs.StringVar(&runFlags.size, "size", "1920x1080", "picture size WxH")
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
-			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "write data files only")
-			fs.IntVar(&runFlags.frames, "frames", -1, "saturation maps kept for the animation: auto is up to 40, fewer on very large grids; 0 = none")
-			fs.Lookup("frames").DefValue = "auto"
+			runFlags.frames = framesValue(runfolder.FramesAuto)
+			fs.Var(&runFlags.frames, "frames", "saturation maps kept for the animation: auto (up to 40, fewer on very large grids), none, or a count from 1 to 1000")
 
 			// --pictures minimal draws one map: the saturation at the last
 			// snapshot (maps/saturation_<day>.png), without the other maps,
 			// the charts, the animation or report.html. The data files are
 			// the same as with --pictures all.
-			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (same as --no-pictures)")
+			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (data files only; --no-pictures is an alias of none)")
+			// --no-pictures is kept, hidden, as an alias of --pictures none.
+			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "alias of --pictures none")
+			_ = fs.MarkHidden("no-pictures")
 			fs.BoolVarP(&runFlags.quiet, "quiet", "q", false, "print nothing but errors")
 		},
 		Run: runRun,
@@ -88,8 +92,11 @@ func runRun(args []string) error {
 	if runFlags.format != "png" && runFlags.format != "svg" {
 		return usageError{fmt.Sprintf("--format must be png or svg, not %q", runFlags.format)}
 	}
-	if runFlags.frames < -1 || runFlags.frames > 1000 {
-		return usageError{"--frames must be between 0 and 1000"}
+	if runFlags.noPictures {
+		if runFlags.pictures != "all" && runFlags.pictures != "none" {
+			return usageError{fmt.Sprintf("--no-pictures (an alias of --pictures none) contradicts --pictures %s", runFlags.pictures)}
+		}
+		runFlags.pictures = "none"
 	}
 	if runFlags.pictures != "all" && runFlags.pictures != "minimal" && runFlags.pictures != "none" {
 		return usageError{fmt.Sprintf("--pictures must be all, minimal or none, not %q", runFlags.pictures)}
@@ -118,14 +125,7 @@ func runRun(args []string) error {
 	if err != nil {
 		return err
 	}
-	frames := 0 // flood's default
-	switch {
-	case runFlags.frames == 0:
-		frames = -1 // none
-	case runFlags.frames > 0:
-		frames = runFlags.frames
-	}
-	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: runFlags.engine, Frames: frames})
+	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: runFlags.engine, Frames: int(runFlags.frames)})
 	if err != nil {
 		return err
 	}
@@ -135,11 +135,12 @@ func runRun(args []string) error {
 	}
 	// The pictures and the report take the summary in memory: summary.json
 	// is written last, so a folder without it is an unfinished run.
-	summary, err := res.SummaryJSON()
+	summary := res.Summary()
+	summaryJSON, err := summary.Encode()
 	if err != nil {
 		return internalError{err}
 	}
-	if !runFlags.noPictures && runFlags.pictures != "none" {
+	if runFlags.pictures != "none" {
 		if runFlags.pictures == "minimal" {
 			logf("drawing the last saturation map")
 		} else {
@@ -154,7 +155,7 @@ func runRun(args []string) error {
 			logf("note: %s", n)
 		}
 	}
-	if err := d.Bytes("summary.json", summary); err != nil {
+	if err := d.Bytes(runfolder.SummaryFile, summaryJSON); err != nil {
 		return err
 	}
 	if err := d.Close(); err != nil {
@@ -176,7 +177,7 @@ func parseSize(s string) (int, int, error) {
 }
 
 func printRunSummary(r *flood.Result) {
-	_, _, _, rate, pres, vol := r.Model.Units.Labels()
+	_, _, _, rate, _, vol := r.Model.Units.Labels()
 	last := len(r.Times) - 1
 	fmt.Fprintf(stdout, "\n%s: %g days, %.3f pore volumes injected\n", r.Model.Title, r.Times[last], r.PVI[last])
 	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s\n", "producer", "tracer BT", "water BT", "final WC", "cum oil", "cum water")
@@ -194,7 +195,6 @@ func printRunSummary(r *flood.Result) {
 			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and runs at that pressure at %.4g %s; check the limit against local regulations\n", in.Name, in.Rate, rate)
 		}
 	}
-	_ = pres
 	for _, w := range r.Warnings {
 		fmt.Fprintf(stderr, "warning: %s\n", w)
 	}
@@ -207,4 +207,40 @@ func days(v float64) string {
 	return fmt.Sprintf("%.0f", v)
 }
 
-var _ = os.Stdout
+// framesValue is the --frames flag of run and render: auto, none or a
+// count from 1 to 1000, held as the animation-frame count of the settings
+// (runfolder.FramesAuto, runfolder.FramesNone or the count). 0 is refused:
+// it is not a count of frames and read as none or as all in the past.
+type framesValue int
+
+func (f *framesValue) String() string {
+	switch {
+	case *f == runfolder.FramesAuto:
+		return "auto"
+	case *f < 0:
+		return "none"
+	}
+	return strconv.Itoa(int(*f))
+}
+
+func (f *framesValue) Set(s string) error {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "auto":
+		*f = runfolder.FramesAuto
+		return nil
+	case "none":
+		*f = runfolder.FramesNone
+		return nil
+	}
+	n, err := strconv.Atoi(s)
+	if err == nil && n == 0 {
+		return fmt.Errorf("0 is not a count of frames: say none for no frames, auto to let floodtrace choose")
+	}
+	if err != nil || n < 1 || n > 1000 {
+		return fmt.Errorf("want auto, none or a count from 1 to 1000, not %q", s)
+	}
+	*f = framesValue(n)
+	return nil
+}
+
+func (f *framesValue) Type() string { return "auto|none|N" }

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
@@ -262,10 +261,7 @@ func runScreenMerge(dirs []string, by screen.Statistic, w, h int) error {
 	specPath := f.spec
 	if specPath == "" {
 		for _, dir := range dirs {
-			var s struct {
-				SpecFile string `json:"spec_file"`
-			}
-			if b, err := os.ReadFile(filepath.Join(dir, "screen.json")); err == nil && json.Unmarshal(b, &s) == nil && s.SpecFile != "" {
+			if s, err := screen.ReadSummary(dir); err == nil && s.SpecFile != "" {
 				if _, err := os.Stat(s.SpecFile); err == nil {
 					specPath = s.SpecFile
 					break

@@ -1,4 +1,4 @@
-package flood
+package runfolder
 
 import (
 	"math"
@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-// TestAppendFixed compares appendFixed with strconv.AppendFloat ('f') on
+// TestAppendFixed compares AppendFixed with strconv.AppendFloat ('f') on
 // random coordinates, on values made of few binary digits (exact decimal
 // half-way cases such as 0.125) and on special values.
 func TestAppendFixed(t *testing.T) {
@@ -15,8 +15,8 @@ func TestAppendFixed(t *testing.T) {
 	check := func(v float64, dec int) {
 		t.Helper()
 		want := strconv.FormatFloat(v, 'f', dec, 64)
-		if got := string(appendFixed(nil, v, dec)); got != want {
-			t.Fatalf("appendFixed(%v, %d) = %s, want %s", v, dec, got, want)
+		if got := string(AppendFixed(nil, v, dec)); got != want {
+			t.Fatalf("AppendFixed(%v, %d) = %s, want %s", v, dec, got, want)
 		}
 	}
 	n := 300_000
@@ -52,7 +52,7 @@ func BenchmarkAppendFixed(b *testing.B) {
 	buf := make([]byte, 0, 64)
 	for b.Loop() {
 		for _, x := range v {
-			buf = appendFixed(buf[:0], x, 2)
+			buf = AppendFixed(buf[:0], x, 2)
 		}
 	}
 }

@@ -1,4 +1,4 @@
-package flood
+package runfolder
 
 import (
 	"os"
@@ -22,5 +22,18 @@ func FuzzReadRunCurves(f *testing.F) {
 			t.Fatal(err)
 		}
 		ReadRunCurves(dir)
+	})
+}
+
+// FuzzReadSummary feeds damaged summary.json files to the reader and
+// the check render relies on: errors are fine, panics are not.
+func FuzzReadSummary(f *testing.F) {
+	f.Add([]byte(`{"title":"x","units":"field","grid":{"nx":2,"ny":2,"dx":10,"dy":10},"wells":[{"name":"I","type":"injector","x":5,"y":5}],"producers":[],"snapshots":[{"time_days":1,"file":"saturation_1.asc"}]}`))
+	f.Add([]byte(`{"grid":{"nx":-5}}`))
+	f.Add([]byte(`{`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		if s, err := ParseSummary("summary.json", data); err == nil {
+			s.Check("summary.json")
+		}
 	})
 }
