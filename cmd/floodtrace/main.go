@@ -22,8 +22,6 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"floodtrace/flood"
-	"floodtrace/pressure"
 	"floodtrace/reservoir"
 )
 
@@ -55,12 +53,14 @@ type usageError struct{ msg string }
 
 func (e usageError) Error() string { return e.msg }
 
-// Exit codes, as in the design notes.
+// Exit codes, as in the design notes, and 4 for outputs that could not
+// be written; exitFor (exit.go) maps errors to them.
 const (
 	exitOK       = 0
 	exitInput    = 1
 	exitUsage    = 2
 	exitInternal = 3
+	exitWrite    = 4 // the outputs could not be written (disk full, permissions)
 )
 
 func main() {
@@ -141,15 +141,9 @@ func runMain(args []string, out, errw io.Writer) (code int) {
 			fmt.Fprintf(stderr, "floodtrace %s: %v\nusage: floodtrace %s\n", c.Name, err, c.Usage)
 			return exitUsage
 		}
-		var ie internalError
-		var se *pressure.SolverError
-		var fe *flood.UnphysicalError
-		if errors.As(err, &ie) || errors.As(err, &se) || errors.As(err, &fe) {
-			fmt.Fprintf(stderr, "floodtrace %s: internal error: %v\nplease report this with the case file and the command line\n", c.Name, err)
-			return exitInternal
-		}
-		fmt.Fprintf(stderr, "floodtrace %s: %v\n", c.Name, err)
-		return exitInput
+		code, msg := exitFor(err)
+		fmt.Fprintf(stderr, "floodtrace %s: %s\n", c.Name, msg)
+		return code
 	}
 	return exitOK
 }

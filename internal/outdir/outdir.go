@@ -8,6 +8,7 @@ package outdir
 import (
 	"bufio"
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
 	"io/fs"
@@ -88,15 +89,15 @@ func open(dir string, force, keepSummary bool) (*Dir, error) {
 		}
 		if d.old["summary.json"] && !keepSummary {
 			if err := os.Remove(filepath.Join(dir, "summary.json")); err != nil && !os.IsNotExist(err) {
-				return nil, err
+				return nil, &WriteError{Path: filepath.Join(dir, "summary.json"), Err: err}
 			}
 		}
 	case os.IsNotExist(err):
 		if err := os.MkdirAll(dir, 0o755); err != nil {
-			return nil, err
+			return nil, &WriteError{Path: dir, Err: err}
 		}
 	default:
-		return nil, err
+		return nil, &WriteError{Path: dir, Err: err}
 	}
 	return d, nil
 }
@@ -142,7 +143,7 @@ func (d *Dir) Close() error {
 		if !d.written[r] {
 			p := filepath.Join(d.Path, filepath.FromSlash(r))
 			if err := os.Remove(p); err != nil && !os.IsNotExist(err) {
-				return err
+				return &WriteError{Path: p, Err: err}
 			}
 		}
 	}
@@ -162,15 +163,31 @@ func (d *Dir) Close() error {
 	})
 }
 
+// WriteError is a failure to write an output file: the disk is full,
+// the folder is not writable, and so on. It is a problem of the output
+// folder or the machine, not of the input.
+type WriteError struct {
+	Path string
+	Err  error
+}
+
+// Error returns "cannot write PATH: cause".
+func (e *WriteError) Error() string { return "cannot write " + e.Path + ": " + e.Err.Error() }
+
+// Unwrap returns the cause.
+func (e *WriteError) Unwrap() error { return e.Err }
+
 // WriteFile writes path atomically: to a temporary file in the same folder,
-// then renamed over path. The folder is created if needed.
+// then renamed over path. The folder is created if needed. A failure of the
+// file system is a *WriteError; an error of write that is not one is
+// returned with the path in front.
 func WriteFile(path string, write func(w io.Writer) error) (err error) {
 	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-		return err
+		return &WriteError{Path: path, Err: err}
 	}
 	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".floodtrace-tmp*")
 	if err != nil {
-		return err
+		return &WriteError{Path: path, Err: err}
 	}
 	tmp := f.Name()
 	defer func() {
@@ -181,16 +198,23 @@ func WriteFile(path string, write func(w io.Writer) error) (err error) {
 	}()
 	bw := bufio.NewWriterSize(f, 1<<16)
 	if err = write(bw); err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			return &WriteError{Path: path, Err: err}
+		}
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	if err = bw.Flush(); err != nil {
-		return fmt.Errorf("%s: %w", path, err)
+		return &WriteError{Path: path, Err: err}
 	}
 	if err = f.Close(); err != nil {
-		return fmt.Errorf("%s: %w", path, err)
+		return &WriteError{Path: path, Err: err}
 	}
 	if err = os.Chmod(tmp, 0o644); err != nil {
-		return err
+		return &WriteError{Path: path, Err: err}
 	}
-	return os.Rename(tmp, path)
+	if err = os.Rename(tmp, path); err != nil {
+		return &WriteError{Path: path, Err: err}
+	}
+	return nil
 }
