@@ -115,20 +115,31 @@ func (s *section) has(key string) bool {
 // msg describes the problem.
 func scalarNumber(n *yaml.Node) (v float64, msg string) { return yamldoc.Number(n) }
 
+// number reads the number at key: ok is false when the key is absent or
+// its value is not a finite number (what, "a number" or "a whole number",
+// says what a key without a value lacks; the problem is recorded).
+func (d *decoder) number(s *section, key, what string) (v float64, n *yaml.Node, ok bool) {
+	if !s.has(key) {
+		if s != nil && s.vals[key] != nil {
+			d.fail(s, s.keys[key], "%s has no value; expected %s", s.label(key), what)
+		}
+		return 0, nil, false
+	}
+	n = s.vals[key]
+	v, msg := scalarNumber(n)
+	if msg != "" {
+		d.fail(s, n, "%s %s", s.label(key), msg)
+		return 0, n, false
+	}
+	return v, n, true
+}
+
 // num returns the number at key, or def if the key is absent. check, if
 // not nil, returns a phrase such as "is not positive" for a bad value.
 // Problems are recorded and def is returned.
 func (d *decoder) num(s *section, key string, def float64, check func(float64) string) float64 {
-	if !s.has(key) {
-		if s != nil && s.vals[key] != nil {
-			d.fail(s, s.keys[key], "%s has no value; expected a number", s.label(key))
-		}
-		return def
-	}
-	n := s.vals[key]
-	v, msg := scalarNumber(n)
-	if msg != "" {
-		d.fail(s, n, "%s %s", s.label(key), msg)
+	v, n, ok := d.number(s, key, "a number")
+	if !ok {
 		return def
 	}
 	if check != nil {
@@ -142,16 +153,8 @@ func (d *decoder) num(s *section, key string, def float64, check func(float64) s
 
 // integer returns the whole number at key in [lo, hi], or def if absent.
 func (d *decoder) integer(s *section, key string, def, lo, hi int64) int64 {
-	if !s.has(key) {
-		if s != nil && s.vals[key] != nil {
-			d.fail(s, s.keys[key], "%s has no value; expected a whole number", s.label(key))
-		}
-		return def
-	}
-	n := s.vals[key]
-	v, msg := scalarNumber(n)
-	if msg != "" {
-		d.fail(s, n, "%s %s", s.label(key), msg)
+	v, n, ok := d.number(s, key, "a whole number")
+	if !ok {
 		return def
 	}
 	if v != math.Trunc(v) {
