@@ -150,8 +150,18 @@ func snap(x float64) float64 {
 	return math.Round(x*1e6) / 1e6
 }
 
+// wellName names a new well of the pattern: the pattern's name, then INJ-n
+// or PRD-n ("five-600.INJ-3"), so it cannot be taken for a well of the
+// base case (whose schedule events name its own wells).
+func (pt Pattern) wellName(kind string, n int) string {
+	if pt.Name == "" {
+		return fmt.Sprintf("new.%s-%d", kind, n)
+	}
+	return fmt.Sprintf("%s.%s-%d", pt.Name, kind, n)
+}
+
 // Layout lays the pattern over the active cells of m and returns its
-// wells: injectors INJ-n at InjectorRate, producers PRD-n at ProducerBHP,
+// wells: injectors <name>.INJ-n at InjectorRate, producers <name>.PRD-n at ProducerBHP,
 // numbered south to north, west to east. Points in inactive cells, in a
 // cell already taken by an earlier point, or with a bad Peaceman radius
 // are dropped and counted.
@@ -177,10 +187,10 @@ func (pt Pattern) Layout(m *reservoir.Model) (wells []reservoir.Well, dropped in
 		w := reservoir.Well{X: q.X, Y: q.Y, I: i, J: j, Cell: k, Radius: m.Units.DefaultWellRadius()}
 		if q.Injector {
 			nInj++
-			w.Name, w.Type, w.Control, w.Rate, w.MaxBHP = fmt.Sprintf("INJ-%d", nInj), reservoir.Injector, reservoir.RateControl, pt.InjectorRate, pt.InjectorMaxBHP
+			w.Name, w.Type, w.Control, w.Rate, w.MaxBHP = pt.wellName("INJ", nInj), reservoir.Injector, reservoir.RateControl, pt.InjectorRate, pt.InjectorMaxBHP
 		} else {
 			nProd++
-			w.Name, w.Type, w.Control, w.BHP = fmt.Sprintf("PRD-%d", nProd), reservoir.Producer, reservoir.BHPControl, pt.ProducerBHP
+			w.Name, w.Type, w.Control, w.BHP = pt.wellName("PRD", nProd), reservoir.Producer, reservoir.BHPControl, pt.ProducerBHP
 		}
 		if peacemanCheck(m, w) != "" {
 			dropped++

@@ -239,8 +239,15 @@ func TestPatternLayoutOnModel(t *testing.T) {
 	if inj != 6 || prod != 2 || dropped != 5 {
 		t.Errorf("%d injectors, %d producers, %d dropped; want 6, 2, 5", inj, prod, dropped)
 	}
-	if wells[0].Name != "INJ-1" || wells[0].X != 425 || wells[0].Y != 25 {
+	if wells[0].Name != "fs.INJ-1" || wells[0].X != 425 || wells[0].Y != 25 {
 		t.Errorf("first well %s at (%g, %g)", wells[0].Name, wells[0].X, wells[0].Y)
+	}
+	// New wells carry the pattern's name, so they cannot be taken for the
+	// base case's wells (whose schedule events name them).
+	for _, w := range wells {
+		if m.WellIndex(w.Name) >= 0 {
+			t.Errorf("pattern well %s has the name of a base well", w.Name)
+		}
 	}
 	// A spacing larger than the grid leaves no producer.
 	big := Pattern{Kind: FiveSpot, Name: "big", Spacing: 5000, Offset: [2]float64{500, 500}, InjectorRate: 1, ProducerBHP: 1}
