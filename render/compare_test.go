@@ -65,9 +65,9 @@ func TestPairSeriesChart(t *testing.T) {
 	if s, d := strokes(grey, false), strokes(grey, true); s != 1 || d != 1 {
 		t.Errorf("style keys: %d solid and %d dashed grey strokes, want 1 and 1", s, d)
 	}
-	// PairDashes scale with the chart: 8 points at 810 points high, so
+	// pairDashes scale with the chart: 8 points at 810 points high, so
 	// 8 x 525/810 = 5.185 at 700 pixels (525 points).
-	if want := fmt.Sprintf("stroke-dasharray:%.3s", fmt.Sprint(PairDashes[0]*525/810)); !strings.Contains(svg, want) {
-		t.Errorf("no dash pattern scaled from PairDashes: want %q", want)
+	if want := fmt.Sprintf("stroke-dasharray:%.3s", fmt.Sprint(pairDashes[0]*525/810)); !strings.Contains(svg, want) {
+		t.Errorf("no dash pattern scaled from pairDashes: want %q", want)
 	}
 }
