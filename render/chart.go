@@ -26,11 +26,25 @@ import (
 
 // Series is one line of a chart. Points with a NaN coordinate are
 // skipped. A Reference series (a guide such as the 45-degree line) is
-// drawn thin, grey and dashed.
+// drawn thin, grey and dashed. A series without points appears only in
+// the legend (a key for a line style, for instance).
 type Series struct {
 	Name      string
 	X, Y      []float64
 	Reference bool
+	// Style, when set, replaces the automatic colour and dash pattern;
+	// the series then takes no slot of the automatic styles.
+	Style *LineStyle
+	// NoLegend leaves the series out of the legend.
+	NoLegend bool
+}
+
+// LineStyle is the colour and dash pattern of a chart line. Dashes are
+// alternating dash and gap lengths in points at 1920x1080 (they scale with
+// the chart); nil is a solid line.
+type LineStyle struct {
+	Color  color.RGBA
+	Dashes []float64
 }
 
 // Chart is a line chart: a title block, the axes, and a legend to the
@@ -247,9 +261,16 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 	for _, s := range c.Series {
 		xy := cleanXY(s.X, s.Y)
 		line := &plotter.Line{XYs: xy}
-		if s.Reference {
+		switch {
+		case s.Reference:
 			line.LineStyle = draw.LineStyle{Color: color.RGBA{138, 143, 152, 255}, Width: L(1.6), Dashes: []vg.Length{L(6), L(5)}}
-		} else {
+		case s.Style != nil:
+			ds := make([]vg.Length, len(s.Style.Dashes))
+			for i, d := range s.Style.Dashes {
+				ds[i] = L(d)
+			}
+			line.LineStyle = draw.LineStyle{Color: s.Style.Color, Width: L(3), Dashes: ds}
+		default:
 			col, dash := SeriesStyle(idx)
 			idx++
 			ds := make([]vg.Length, len(dash))
@@ -266,7 +287,9 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 				ylo, yhi = math.Min(ylo, q.Y), math.Max(yhi, q.Y)
 			}
 		}
-		entries = append(entries, entry{s.Name, line})
+		if !s.NoLegend {
+			entries = append(entries, entry{s.Name, line})
+		}
 	}
 	// Axis ranges: given, or the data padded to whole tick steps.
 	setRange := func(ax *plot.Axis, gmin, gmax, lo, hi float64) {

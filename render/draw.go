@@ -44,6 +44,12 @@ func cellColours(s Scene, values []float64, sc Scale) []color.RGBA {
 // north arrow and a scale bar. NaN values are drawn hatched as "no
 // value"; inactive cells light grey.
 func DrawField(s Scene, values []float64, sc Scale, w, h int) (*image.RGBA, error) {
+	return drawField(s, values, sc, nil, w, h)
+}
+
+// drawField is DrawField with an optional overlay of markers and its
+// legend (DrawFieldOverlay; ov's scale already resolved).
+func drawField(s Scene, values []float64, sc Scale, ov *Overlay, w, h int) (*image.RGBA, error) {
 	if err := checkScene(s); err != nil {
 		return nil, err
 	}
@@ -61,11 +67,12 @@ func DrawField(s Scene, values []float64, sc Scale, w, h int) (*image.RGBA, erro
 	c.fillCells(cellColours(s, values, sc))
 	c.outline()
 	c.faults(false)
+	if ov != nil {
+		c.markers(ov)
+	}
 	c.wells()
 	c.faultLabels()
 	c.header()
-	c.panelHeading(sc.Label, sc.Unit)
-	c.colourBar(sc)
 	noData := ""
 	for k, v := range values {
 		if c.active(k) && math.IsNaN(v) {
@@ -73,6 +80,13 @@ func DrawField(s Scene, values []float64, sc Scale, w, h int) (*image.RGBA, erro
 			break
 		}
 	}
+	if ov != nil {
+		c.overlayLegend(ov, sc, noData)
+		c.northAndScale()
+		return c.img, nil
+	}
+	c.panelHeading(sc.Label, sc.Unit)
+	c.colourBar(sc)
 	c.symbolLegend(float64(c.l.Bar.Max.Y)+56*c.l.S, c.standardEntries(noData))
 	c.northAndScale()
 	return c.img, nil

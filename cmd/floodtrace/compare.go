@@ -1,18 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
-	"image/color"
 	"io"
 	"math"
 	"path/filepath"
 	"strings"
 
 	"github.com/spf13/pflag"
-	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/plotter"
-	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
 
 	"floodtrace/flood"
 	"floodtrace/internal/outdir"
@@ -79,16 +75,12 @@ func runCompare(args []string) error {
 	if len(c.Producers) == 0 {
 		return fmt.Errorf("the runs have no producer in common")
 	}
-	p, err := comparisonChart(c, float64(w)/1000)
-	if err != nil {
-		return fmt.Errorf("drawing the chart: %w", err)
-	}
-	wt, err := p.WriterTo(vg.Length(w)*vg.Inch/96, vg.Length(h)*vg.Inch/96, format)
-	if err != nil {
+	var chart bytes.Buffer
+	if err := render.WriteChart(&chart, comparisonChart(c), w, h, format); err != nil {
 		return fmt.Errorf("drawing the chart: %w", err)
 	}
 	if err := outdir.WriteFile(compareFlags.out, func(out io.Writer) error {
-		_, err := wt.WriteTo(out)
+		_, err := out.Write(chart.Bytes())
 		return err
 	}); err != nil {
 		return err
@@ -122,73 +114,20 @@ func fmtOpt(v float64, format string) string {
 	return fmt.Sprintf(format, v)
 }
 
-// comparisonChart draws every producer's two curves: one colour per
-// producer (the categorical palette), run A solid and run B dashed.
-func comparisonChart(c *flood.Comparison, k float64) (*plot.Plot, error) {
-	p := plot.New()
-	pt := func(v float64) vg.Length { return vg.Points(v * k) }
-	p.Title.TextStyle.Font.Size = pt(14)
-	p.Title.Padding = pt(8)
-	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
-		ax.Label.TextStyle.Font.Size = pt(12)
-		ax.Tick.Label.Font.Size = pt(10)
-		ax.LineStyle.Width = pt(0.8)
-		ax.Tick.LineStyle.Width = pt(0.8)
-		ax.Tick.Length = pt(5)
-	}
-	p.Legend.TextStyle.Font.Size = pt(10)
-	p.Legend.ThumbnailWidth = pt(30)
-	p.Title.Text = fmt.Sprintf("Water cut: A = %s (solid), B = %s (dashed)", label(c.A), label(c.B))
-	p.X.Label.Text = "time, days"
-	p.Y.Label.Text = "water cut"
-	p.Y.Min, p.Y.Max = 0, 1
-	p.Add(plotter.NewGrid())
-	p.Legend.Top = false
-	p.Legend.Left = true
-	width := 1.6 * k
+// comparisonChart is the chart of every producer's two water-cut
+// curves: one colour per producer, run A solid and run B dashed.
+func comparisonChart(c *flood.Comparison) render.Chart {
+	pairs := make([]render.Pair, len(c.Producers))
 	for i, pc := range c.Producers {
-		col, _ := render.SeriesStyle(i)
-		for k, cur := range []runfolder.ProducerCurve{pc.A, pc.B} {
-			xy := make(plotter.XYs, 0, len(cur.Time))
-			for j := range cur.Time {
-				if !math.IsNaN(cur.WaterCut[j]) {
-					xy = append(xy, plotter.XY{X: cur.Time[j], Y: cur.WaterCut[j]})
-				}
-			}
-			if len(xy) == 0 {
-				continue
-			}
-			l, err := plotter.NewLine(xy)
-			if err != nil {
-				return nil, err
-			}
-			l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(width)}
-			if k == 1 {
-				l.LineStyle.Dashes = []vg.Length{pt(7), pt(4)}
-			}
-			p.Add(l)
-			if k == 0 {
-				p.Legend.Add(pc.Name, l)
-			}
-		}
+		pairs[i] = render.Pair{Name: pc.Name, AX: pc.A.Time, AY: pc.A.WaterCut, BX: pc.B.Time, BY: pc.B.WaterCut}
 	}
-	// Two grey entries explain the line styles.
-	for k, name := range []string{"run A", "run B"} {
-		st := draw.LineStyle{Color: color.Gray{Y: 90}, Width: vg.Points(width)}
-		if k == 1 {
-			st.Dashes = []vg.Length{pt(7), pt(4)}
-		}
-		p.Legend.Add(name, lineThumb(st))
+	return render.Chart{
+		Title:    "Water cut of two runs by producer",
+		Subtitle: fmt.Sprintf("A = %s (solid) · B = %s (dashed)", label(c.A), label(c.B)),
+		XLabel:   "Time (days)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
+		Series: render.PairSeries(pairs, "run A", "run B"),
+		YMin:   0, YMax: 1,
 	}
-	return p, nil
-}
-
-// lineThumb draws a legend entry as a horizontal line of its style.
-type lineThumb draw.LineStyle
-
-func (t lineThumb) Thumbnail(c *draw.Canvas) {
-	y := c.Center().Y
-	c.StrokeLine2(draw.LineStyle(t), c.Min.X, y, c.Max.X, y)
 }
 
 func label(rc *runfolder.RunCurves) string {
