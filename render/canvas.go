@@ -6,7 +6,7 @@ import (
 	"image/color"
 	"math"
 
-	"git.sr.ht/~sbinet/gg"
+	"github.com/fogleman/gg"
 )
 
 // mapCanvas holds one map picture while it is drawn.

@@ -5,7 +5,7 @@
 // draws is read from a finished output folder, so a folder can be redrawn
 // later at another size or format without recomputing the run.
 //
-// The maps are drawn with git.sr.ht/~sbinet/gg on top of a raster filled
+// The maps are drawn with github.com/fogleman/gg on top of a raster filled
 // pixel by pixel; the charts with gonum.org/v1/plot. render is the only
 // package that draws: other packages hand it data and labels (a Scene,
 // values, an Overlay of markers, a Chart of Series with optional line
