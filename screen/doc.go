@@ -20,15 +20,17 @@
 // number, not an investment decision.
 //
 // Percentiles. Over the realizations, the objective of a candidate is
-// summarised by its mean and its P10, P50 and P90, where Pxx is the xx-th
-// percentile of the values (linear interpolation between order
-// statistics, definition 7 of Hyndman and Fan 1996). P10 is thus the low,
-// cautious case: the value exceeded with 90% probability. Ranking by P10
-// ranks by that cautious case.
+// summarised by its mean and its P90, P50 and P10 in the trade's
+// exceedance convention (common practice in reserves and resource
+// reporting): Pxx is the value exceeded with xx% probability, so P90 is
+// the low, cautious case (the 10th percentile of the values) and P10 the
+// high case (the 90th percentile); P90 <= P50 <= P10. Percentiles use
+// linear interpolation between order statistics (definition 7 of Hyndman
+// and Fan 1996). Ranking by P90 ranks by the cautious case.
 //
 // ranking.csv columns: rank; candidate (its name); x,y (the new well of an
 // infill candidate, blank for layouts and patterns); objective (the mean
-// over realizations); objective_p10, objective_p50, objective_p90;
+// over realizations); objective_p90, objective_p50, objective_p10 (low to high);
 // cum_oil and cum_water (field cumulative oil and produced water at the
 // horizon, means over realizations); first_breakthrough_days (the first
 // arrival of injected water at any producer, the median over realizations

@@ -87,7 +87,7 @@ type WarningCount struct {
 }
 
 // PercentileConvention states the meaning of P10/P50/P90 in the outputs.
-const PercentileConvention = "Pxx is the xx-th percentile of the objective over the realizations (linear interpolation between order statistics, Hyndman and Fan 1996 definition 7): P10 is the low, cautious case, exceeded with 90% probability; P90 the high case. --rank p10 ranks by the cautious case."
+const PercentileConvention = "exceedance convention: Pxx is the value of the objective exceeded with xx% probability over the realizations, so P90 is the low, cautious case (10th percentile) and P10 the high case (90th percentile); P90 <= P50 <= P10 (linear interpolation between order statistics, Hyndman and Fan 1996 definition 7). --rank p90 ranks by the cautious case."
 
 // RankingColumns documents the columns of ranking.csv.
 var RankingColumns = map[string]string{
@@ -96,9 +96,9 @@ var RankingColumns = map[string]string{
 	"x":                       "x of the new well of an infill candidate (map units); blank for layouts and patterns",
 	"y":                       "y of the new well of an infill candidate; blank for layouts and patterns",
 	"objective":               "mean of the objective over the realizations: oil = field cumulative oil at the horizon (reservoir volume); value = discounted cash flow",
-	"objective_p10":           "10th percentile over the realizations: the low, cautious case",
+	"objective_p90":           "exceeded by 90% of the realizations (their 10th percentile): the low, cautious case",
 	"objective_p50":           "median over the realizations",
-	"objective_p90":           "90th percentile over the realizations: the high case",
+	"objective_p10":           "exceeded by 10% of the realizations (their 90th percentile): the high case",
 	"cum_oil":                 "field cumulative oil at the horizon, mean over the realizations (reservoir volume)",
 	"cum_water":               "field cumulative produced water at the horizon, mean over the realizations (reservoir volume)",
 	"first_breakthrough_days": "first arrival of injected water at any producer, median over the realizations (none = late); blank if after the horizon",

@@ -210,7 +210,7 @@ func LayoutMap(p *Plan, row Row, realization string, res *flood.Result, w, h int
 	}
 	scene := baseScene(m, c.Wells, sub)
 	label, _ := objectiveLabel(objectiveOf(p.Spec), m)
-	scene.Note = fmt.Sprintf("%s: mean %s, P10 %s, P90 %s", label, render.FormatNumber(row.Mean, 0), render.FormatNumber(row.P10, 0), render.FormatNumber(row.P90, 0))
+	scene.Note = fmt.Sprintf("%s: mean %s, P90 (low) %s, P10 (high) %s", label, render.FormatNumber(row.Mean, 0), render.FormatNumber(row.P90, 0), render.FormatNumber(row.P10, 0))
 	_, sor := m.RelPerm.Endpoints()
 	sc := render.Scale{Label: "Water saturation", Unit: "fraction of pore volume", Min: m.Fluids.InitialSw, Max: 1 - sor}
 	return render.DrawField(scene, sn.Sw, sc, w, h)

@@ -13,7 +13,9 @@ import (
 // Statistic names what the ranking sorts by.
 type Statistic string
 
-// Ranking statistics. P10 is the cautious low case (see Percentile).
+// Ranking statistics, in the trade's exceedance convention: P90 is the
+// cautious low case (exceeded with 90% probability, the 10th percentile),
+// P10 the high case (the 90th percentile); see Percentile.
 const (
 	Mean Statistic = "mean"
 	P10  Statistic = "p10"
@@ -27,7 +29,7 @@ func ParseStatistic(s string) (Statistic, error) {
 	case Mean, P10, P50, P90:
 		return st, nil
 	}
-	return "", fmt.Errorf("rank by %q: use mean, p10 (the cautious low case), p50 or p90", s)
+	return "", fmt.Errorf("rank by %q: use mean, p90 (the cautious low case), p50 or p10 (the high case)", s)
 }
 
 // Percentile returns the p-th percentile (0 <= p <= 100) of the values by
@@ -138,7 +140,9 @@ func Rank(r *Results, by Statistic) *Ranking {
 		row.Mean /= float64(n)
 		row.CumOil /= float64(n)
 		row.CumWater /= float64(n)
-		row.P10, row.P50, row.P90 = Percentile(obs, 10), Percentile(obs, 50), Percentile(obs, 90)
+		// Exceedance convention (common practice in reserves and resource
+		// reporting): Pxx is exceeded with xx% probability.
+		row.P90, row.P50, row.P10 = Percentile(obs, 10), Percentile(obs, 50), Percentile(obs, 90)
 		row.FirstBreakthrough = Percentile(bts, 50)
 		if math.IsInf(row.FirstBreakthrough, 1) || row.FirstBreakthrough > r.Horizon {
 			row.FirstBreakthrough = math.NaN()
@@ -170,7 +174,7 @@ func Rank(r *Results, by Statistic) *Ranking {
 }
 
 // RankingHeader is the header line of ranking.csv.
-const RankingHeader = "rank,candidate,x,y,objective,objective_p10,objective_p50,objective_p90,cum_oil,cum_water,first_breakthrough_days"
+const RankingHeader = "rank,candidate,x,y,objective,objective_p90,objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days"
 
 // WriteCSV writes the ranking as ranking.csv (columns in the package
 // documentation; numbers with 10 significant digits, blank for none).
@@ -179,7 +183,7 @@ func (rk *Ranking) WriteCSV(w io.Writer) error {
 	bw.WriteString(RankingHeader + "\n")
 	for _, r := range rk.Rows {
 		fmt.Fprintf(bw, "%d,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s\n", r.Rank, csvText(r.Candidate), num(r.X), num(r.Y),
-			num(r.Mean), num(r.P10), num(r.P50), num(r.P90), num(r.CumOil), num(r.CumWater), num(r.FirstBreakthrough))
+			num(r.Mean), num(r.P90), num(r.P50), num(r.P10), num(r.CumOil), num(r.CumWater), num(r.FirstBreakthrough))
 	}
 	return bw.Flush()
 }

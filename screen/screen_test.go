@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -358,7 +359,7 @@ func TestWriteOutputs(t *testing.T) {
 	if d, err = outdir.Open(dir, true); err != nil {
 		t.Fatal(err)
 	}
-	rk, err := WriteOutputs(d, p, res, OutputSettings{By: P10, Width: 960, Height: 540})
+	rk, err := WriteOutputs(d, p, res, OutputSettings{By: P90, Width: 960, Height: 540})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -369,7 +370,7 @@ func TestWriteOutputs(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !sum.Complete || sum.RankedBy != "p10" || sum.Ranked != len(p.Candidates) || len(sum.Pictures) != 3 {
+	if !sum.Complete || sum.RankedBy != "p90" || sum.Ranked != len(p.Candidates) || len(sum.Pictures) != 3 {
 		t.Errorf("summary %+v", sum)
 	}
 	csv, _ := os.ReadFile(filepath.Join(dir, "ranking.csv"))
@@ -377,11 +378,29 @@ func TestWriteOutputs(t *testing.T) {
 	if lines[0] != RankingHeader || len(lines) != len(p.Candidates)+1 {
 		t.Errorf("ranking.csv: %d lines, header %q", len(lines), lines[0])
 	}
-	// Ranked by P10, best first.
+	// Ranked by P90 (the cautious case), best first.
 	for i := 1; i < len(rk.Rows); i++ {
-		if rk.Rows[i].P10 > rk.Rows[i-1].P10 {
-			t.Errorf("row %d has a higher P10 than row %d", i+1, i)
+		if rk.Rows[i].P90 > rk.Rows[i-1].P90 {
+			t.Errorf("row %d has a higher P90 than row %d", i+1, i)
 		}
+	}
+	// The trade's exceedance convention (common practice in reserves
+	// reporting): P90 <= P50 <= P10, in the rows and in ranking.csv's
+	// columns (objective_p90, objective_p50, objective_p10), and the two
+	// realizations differ, so the check has something to order.
+	spread := false
+	for i, r := range rk.Rows {
+		if !(r.P90 <= r.P50 && r.P50 <= r.P10) {
+			t.Errorf("row %d: P90 %g, P50 %g, P10 %g", i+1, r.P90, r.P50, r.P10)
+		}
+		spread = spread || r.P90 < r.P10
+		f := strings.Split(lines[i+1], ",")
+		if p90, _ := strconv.ParseFloat(f[5], 64); p90 > r.P50 {
+			t.Errorf("ranking.csv row %d: objective_p90 %s above the median", i+1, f[5])
+		}
+	}
+	if !spread {
+		t.Error("no candidate has a spread over the realizations")
 	}
 	f, err := os.Open(filepath.Join(dir, "maps", "objective.png"))
 	if err != nil {

@@ -44,16 +44,17 @@ discounted cash flow. Candidates are new wells on an infill lattice, whole
 layouts, and regular patterns (five-spot, inverted nine-spot, direct and
 staggered line drive).
 
-Into DIR it writes ranking.csv (rank,candidate,x,y,objective,objective_p10,
-objective_p50,objective_p90,cum_oil,cum_water,first_breakthrough_days), runs.csv
+Into DIR it writes ranking.csv (rank,candidate,x,y,objective,objective_p90,
+objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days), runs.csv
 (every candidate on every realization), maps/objective.png (the objective at
 each infill node: where to drill), maps/layout_N_NAME.png (the best three
 layouts' water saturation at the horizon), results.jsonl and screen.json
 (last).
 
-The objective is the mean over the realizations; P10/P50/P90 are percentiles
-of the realizations' values, so P10 is the low, cautious case (exceeded with
-90% probability). --rank p10 ranks by that cautious case. The value objective
+The objective is the mean over the realizations; P90/P50/P10 follow the
+trade's exceedance convention: P90 is exceeded by 90% of the realizations (the
+low, cautious case), P10 by 10% (the high case). --rank p90 ranks by the
+cautious case. The value objective
 is a screening number, not an investment decision.
 
 Runs go on all cores, one run per core; results do not depend on the number
@@ -68,7 +69,7 @@ the ranking a whole run gives, and draws the pictures when it finds the spec
 
 Examples:
   floodtrace screen examples/vardel/screen.yaml --out out/screen
-  floodtrace screen spec.yaml --out runs/s --rank p10
+  floodtrace screen spec.yaml --out runs/s --rank p90
   floodtrace screen spec.yaml --out parts/3 --shard 3/8
   floodtrace screen merge parts/1 parts/2 parts/3 parts/4 parts/5 parts/6 parts/7 parts/8 --out runs/all`,
 		NArgs: func(n int) bool { return n >= 1 },
@@ -76,7 +77,7 @@ Examples:
 			f := &screenFlags
 			fs.StringVarP(&f.out, "out", "o", "", "output folder (required)")
 			fs.BoolVar(&f.force, "force", false, "write into a folder that holds other files (they are left alone)")
-			fs.StringVar(&f.rank, "rank", "mean", "rank by mean, p10 (the cautious low case), p50 or p90")
+			fs.StringVar(&f.rank, "rank", "mean", "rank by mean, p90 (the cautious low case: exceeded by 90% of the realizations), p50 or p10 (the high case)")
 			fs.StringVar(&f.shard, "shard", "", "run only part K of N of the candidates, as K/N (1-based)")
 			fs.IntVar(&f.workers, "workers", 0, "runs at once (default: all cores; results do not depend on it)")
 			fs.StringVar(&f.spec, "spec", "", "merge: the spec, to draw the pictures (default: the one recorded in the parts)")
