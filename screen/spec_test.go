@@ -89,6 +89,9 @@ func TestSpecErrors(t *testing.T) {
 	}{
 		{"unknown top key", "horizon: 1200", "horizn: 1200", 2, []string{`unknown key "horizn"`, `did you mean "horizon"`}},
 		{"unknown infill key", "spacing: [300, 300]", "spacng: [300, 300]", 6, []string{`"spacng"`, `did you mean "spacing"`}},
+		// The infill block takes well keys too (min_bhp); an abbreviation
+		// of its own key is suggested, not the nearest well key.
+		{"abbreviated infill key", "min_distance: 250", "min_dist: 250", 6, []string{`"min_dist"`, `did you mean "min_distance"`}},
 		{"unknown well key", "{name: A, type: injector", "{nmae: A, type: injector", 10, []string{`"nmae"`, `did you mean "name"`}},
 		{"unknown pattern key", "injector_rate: 200", "injecter_rate: 200", 13, []string{`did you mean "injector_rate"`}},
 		{"unknown value key", "oil_price: 60", "oilprice: 60", 15, []string{`did you mean "oil_price"`}},
