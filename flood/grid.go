@@ -352,7 +352,10 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	g.partition = tr.ProducerPartition
 	// Tracer breakthrough and drained volume with the time of flight
 	// rescaled to the cell pore volumes, as in the streamline modes.
-	ls := newLineSet(m, tr, g.pv)
+	ls, err := newLineSet(tr, g.pv)
+	if err != nil {
+		return fmt.Errorf("streamlines at day %g: %w", t, err)
+	}
 	for p := range r.Producers {
 		P := &r.Producers[p]
 		P.DrainedVolume = 0
@@ -376,10 +379,8 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		r.Trace = tr
 		r.Pressure = sol
 		r.StreamlineCount = len(tr.Lines)
-		r.Phi, r.F = streamline.FPhi(g.pv, totalTravel(tr))
-		r.Lorenz = streamline.Lorenz(r.Phi, r.F)
-		r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
-		r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+		r.PairVolumes = tr.PairVolumes(ls.seg)
+		r.setDiagnostics(tr, g.pv)
 	}
 	return nil
 }

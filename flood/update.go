@@ -401,13 +401,15 @@ func (u *updateRun) interval(idx int, t0, t1 float64) error {
 			u.firstTraceDone = true
 			r.Trace = tr
 			r.StreamlineCount = len(tr.Lines)
-			r.Phi, r.F = streamline.FPhi(u.pv, totalTravel(tr))
-			r.Lorenz = streamline.Lorenz(r.Phi, r.F)
-			r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
-			r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+			r.setDiagnostics(tr, u.pv)
 		}
 		u.partition = tr.ProducerPartition
-		u.ls = newLineSet(m, tr, u.pv)
+		if u.ls, err = newLineSet(tr, u.pv); err != nil {
+			return fmt.Errorf("streamlines at day %g: %w", t0, err)
+		}
+		if r.Trace == tr {
+			r.PairVolumes = tr.PairVolumes(u.ls.seg)
+		}
 		if err := u.setupLines(sol, t0); err != nil {
 			return err
 		}

@@ -131,9 +131,13 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	if r.Trace != nil {
 		if err := csv(runfolder.AllocationFile, func(w *bufio.Writer) {
 			w.WriteString(runfolder.Header(runfolder.AllocationColumns))
-			for _, p := range r.Trace.Pairs {
+			for k, p := range r.Trace.Pairs {
+				pv := p.PoreVolume
+				if k < len(r.PairVolumes) {
+					pv = r.PairVolumes[k]
+				}
 				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s\n", m.Wells[p.Injector].Name, m.Wells[p.Producer].Name, runfolder.Num(p.Rate),
-					runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(p.PoreVolume))
+					runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(pv))
 			}
 		}); err != nil {
 			return err
