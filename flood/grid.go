@@ -14,8 +14,9 @@ import (
 	"floodtrace/transport"
 )
 
-// GridOptions tunes the grid engine (RunGrid). The zero value is the
-// default used by Run with Settings.Engine = "grid".
+// GridOptions tunes the grid engine (RunGrid). Run takes them from
+// Settings.Grid when Settings.Engine is EngineGrid; the zero value is the
+// default.
 type GridOptions struct {
 	// CFL is the Courant number of the explicit saturation step; 0 = 0.9.
 	// It must not exceed 1.
@@ -149,7 +150,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 		return nil, err
 	}
 	_, sor := ff.Endpoints()
-	g := &gridRun{book: newBook(m, sched, "grid"), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
+	g := &gridRun{book: newBook(m, sched, EngineGrid), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
 	if g.logf == nil {
 		g.logf = func(string, ...any) {}
 	}

@@ -28,9 +28,15 @@ type Settings struct {
 	Pressure pressure.Settings
 	// Log, when set, receives one line per stage.
 	Log func(format string, args ...any)
-	// Engine selects the engine: "streamline" (the default, also for "")
-	// or "grid" (the IMPES reference engine, RunGrid).
-	Engine string
+	// Engine selects the engine; the zero value is EngineStreamline.
+	Engine Engine
+	// Updates tunes the pressure-update mode of the streamline engine
+	// (used when the case needs updates; see RunUpdates). The zero value
+	// is the default.
+	Updates UpdateOptions
+	// Grid tunes the grid engine (EngineGrid). The zero value is the
+	// default.
+	Grid GridOptions
 }
 
 // Snapshot is a saturation map at one time.
@@ -84,7 +90,7 @@ type WellRecord struct {
 // Result is a finished run.
 type Result struct {
 	Model  *reservoir.Model
-	Engine string
+	Engine Engine
 	// Pressure is the first pressure solution and Trace its streamlines.
 	// In a fixed-streamline run the lines' Cells and Tau are released once
 	// mapped (the run keeps them in its own flat arrays); Path, fluxes,
@@ -152,22 +158,22 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		return nil, errors.New("run.end must be positive")
 	}
 	switch s.Engine {
-	case "", "streamline":
-	case "grid":
-		return RunGrid(m, s, GridOptions{})
+	case EngineStreamline:
+	case EngineGrid:
+		return RunGrid(m, s, s.Grid)
 	default:
-		return nil, fmt.Errorf("unknown engine %q (want streamline or grid)", s.Engine)
+		return nil, fmt.Errorf("unknown engine %v (want EngineStreamline or EngineGrid)", s.Engine)
 	}
 	// Events and openings after the end change nothing, not even the mode.
 	// RunUpdates drops them again and warns.
 	mm, late := withinRun(m)
 	if needsUpdates(mm) {
-		return RunUpdates(m, s, UpdateOptions{})
+		return RunUpdates(m, s, s.Updates)
 	}
 	m = mm
 	// From here the case has no schedule event and no late well (they send
 	// it to pressure updates above).
-	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
+	r := &Result{Model: m, Engine: EngineStreamline, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
 		Warnings: append([]string(nil), m.Warnings...)}
 	r.Warnings = append(r.Warnings, late...)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)

@@ -14,8 +14,8 @@ import (
 	"floodtrace/transport"
 )
 
-// UpdateOptions tunes the pressure-update mode (RunUpdates). The zero
-// value is the default used by Run.
+// UpdateOptions tunes the pressure-update mode (RunUpdates). Run takes
+// them from Settings.Updates; the zero value is the default.
 type UpdateOptions struct {
 	// Scheme is the 1D transport scheme along the streamlines; the zero
 	// value is first-order upwind (see transport.Advance).
@@ -216,7 +216,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		return nil, err
 	}
 	_, sor := ff.Endpoints()
-	u := &updateRun{book: newBook(m, sched, "streamline"), s: s, o: o, ff: ff, fl: fl,
+	u := &updateRun{book: newBook(m, sched, EngineStreamline), s: s, o: o, ff: ff, fl: fl,
 		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
 		sInj: 1 - sor,
 		logf: s.Log,

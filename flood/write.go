@@ -17,7 +17,7 @@ func (r *Result) Summary() *runfolder.Summary {
 	m := r.Model
 	length, _, _, rate, pres, vol := m.Units.Labels()
 	F := func(v float64) runfolder.Float { return runfolder.Float(v) }
-	s := &runfolder.Summary{Title: m.Title, Units: string(m.Units), Engine: r.Engine, EndDays: F(m.Run.End),
+	s := &runfolder.Summary{Title: m.Title, Units: string(m.Units), Engine: r.Engine.String(), EndDays: F(m.Run.End),
 		UnitLabels: runfolder.UnitLabels{Length: length, Rate: rate, Volume: vol, Pressure: pres},
 		Grid:       runfolder.Grid{NX: m.Grid.NX, NY: m.Grid.NY, DX: F(m.Grid.DX), DY: F(m.Grid.DY), X0: F(m.Grid.X0), Y0: F(m.Grid.Y0)},
 		PoreVolume: F(r.PoreVolume), OOIP: F(r.OOIP), LorenzCoefficient: runfolder.Opt(r.Lorenz), MassBalanceError: F(r.MassBalanceError),
