@@ -169,7 +169,9 @@ func forRanges(bounds []int32, fn func(lo, hi int32)) {
 
 func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *blTable, s Settings) {
 	swi := m.Fluids.InitialSw
-	times := ReportTimes(m.Run.End, m.Run.ReportEvery)
+	// One pressure solve at day 0; the stops are those of every engine.
+	tl := newTimeline(m, frameCount(s.Frames, len(ls.cell), len(ls.pv)), nil)
+	times := tl.reports
 	r.Times = times
 	nt := len(times)
 
@@ -279,12 +281,12 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 		maps[t] = sw
 		return sw
 	}
-	for _, t := range snapshotTimes(m) {
+	// The solution is exact at any time: no stepping between the stops.
+	for _, t := range tl.snaps {
 		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: satAt(t)})
 	}
-	for _, k := range frameIndices(nt, frameCount(s.Frames, len(ls.cell), len(ls.pv))) {
-		t := times[k]
-		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: r.PVI[k], Sw: satAt(t)})
+	for _, t := range tl.frames {
+		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: satAt(t)})
 	}
 
 	// Mass balance at the end of the run, with the water in place taken

@@ -120,6 +120,9 @@ type gridRun struct {
 
 	prevFw []float64 // producer water fraction at the previous step start
 	prevT  float64
+
+	needSolve, retrace bool // a pressure solve (and a new trace) is due
+	steps, stepsSince  int  // saturation steps in all and since the last solve
 }
 
 func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error) {
@@ -192,69 +195,66 @@ func (g *gridRun) run() error {
 	g.rowDt = make([]float64, m.Grid.NY)
 	g.rowSum = make([]float64, m.Grid.NY)
 
-	reports := ReportTimes(end, m.Run.ReportEvery)
-	r.Times = reports
-	nt := len(reports)
+	changes := g.sched.Changes(end)
+	tl := newTimeline(m, g.s.Frames, changes)
+	r.Times = tl.reports
+	nt := len(tl.reports)
 	r.PVI = make([]float64, nt)
 	g.setupWells(nt)
-	snaps := snapshotTimes(m)
-	var frames []float64
-	for _, k := range frameIndices(nt, g.s.Frames) {
-		frames = append(frames, reports[k])
-	}
-	changes := g.sched.Changes(end)
-	stops := append(append(append(slices.Clone(reports), snaps...), frames...), changes...)
-	slices.Sort(stops)
-	stops = slices.Compact(stops)
 	if g.sched.HasChanges(end) {
 		g.warn(fmt.Sprintf("the case has %d schedule event(s) and well opening(s): the grid engine re-solves the pressure at each", len(changes)))
 	}
 
-	t := 0.0
-	next := 0 // next stop
-	needSolve, retrace := true, true
-	steps, stepsSince := 0, 0
-	for t < end {
-		if needSolve {
-			if err := g.solve(t, retrace); err != nil {
+	if err := drive(g, tl); err != nil {
+		return err
+	}
+	g.logf("grid engine: %d saturation steps, %d pressure solves", g.steps, r.Solves)
+	g.finish()
+	return nil
+}
+
+// ledger returns the run's book (stepper).
+func (g *gridRun) ledger() *book { return &g.book }
+
+// solveAt asks for a pressure solve and a new trace at t, with the wells
+// in force then (stepper); the solve runs at the start of the next
+// advance, as do the re-solves the saturation changes call for.
+func (g *gridRun) solveAt(float64) error {
+	g.needSolve, g.retrace = true, true
+	return nil
+}
+
+// advance moves the saturations from t to t1 in explicit steps of the
+// largest stable size, re-solving the pressure every ResolveEvery steps
+// or when the saturations have changed by MaxChange (stepper).
+func (g *gridRun) advance(t, t1 float64) error {
+	end := g.m.Run.End
+	for t < t1 {
+		if g.needSolve {
+			if err := g.solve(t, g.retrace); err != nil {
 				return err
 			}
-			needSolve, retrace, stepsSince = false, false, 0
-		}
-		for next < len(stops) && stops[next] <= t {
-			next++
-		}
-		tStop := end
-		if next < len(stops) {
-			tStop = stops[next]
+			g.needSolve, g.retrace, g.stepsSince = false, false, 0
 		}
 		dt := g.stableStep()
-		if !(dt < tStop-t) {
-			dt = tStop - t
+		if !(dt < t1-t) {
+			dt = t1 - t
 		}
 		g.step(t, dt)
-		steps++
-		stepsSince++
-		if steps > g.o.MaxSteps {
+		g.steps++
+		g.stepsSince++
+		if g.steps > g.o.MaxSteps {
 			return fmt.Errorf("grid engine: more than %d saturation steps by day %g (the CFL step is %g days); use the streamline engine or a coarser grid", g.o.MaxSteps, t, dt)
 		}
-		if tStop-(t+dt) <= 1e-12*end {
-			t = tStop
+		if t1-(t+dt) <= 1e-12*end {
+			t = t1
 		} else {
 			t += dt
 		}
-		if next < len(stops) && t == stops[next] {
-			g.atStop(t, reports, snaps, frames)
-			if slices.Contains(changes, t) {
-				needSolve, retrace = true, true
-			}
-		}
-		if g.o.ResolveEvery > 0 && stepsSince >= g.o.ResolveEvery || g.meanChange() > g.o.MaxChange {
-			needSolve = true
+		if g.o.ResolveEvery > 0 && g.stepsSince >= g.o.ResolveEvery || g.meanChange() > g.o.MaxChange {
+			g.needSolve = true
 		}
 	}
-	g.logf("grid engine: %d saturation steps, %d pressure solves", steps, r.Solves)
-	g.finish()
 	return nil
 }
 
