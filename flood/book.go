@@ -32,7 +32,7 @@ type book struct {
 	nextReport    int
 }
 
-func newBook(m *reservoir.Model, sched *WellSchedule, engine string) book {
+func newBook(m *reservoir.Model, sched *WellSchedule, engine Engine) book {
 	return book{m: m, sched: sched, seen: map[string]bool{}, swi: m.Fluids.InitialSw,
 		r: &Result{Model: m, Engine: engine, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
 			Warnings: append([]string(nil), m.Warnings...)}}

@@ -55,7 +55,7 @@ func checkSolve(engine string, sol *pressure.Solution, t float64) error {
 func checkResult(r *Result) error {
 	tol := 1e-9 * r.PoreVolume
 	bad := func(format string, a ...any) error {
-		return &UnphysicalError{Engine: r.Engine, Msg: fmt.Sprintf(format, a...)}
+		return &UnphysicalError{Engine: r.Engine.String(), Msg: fmt.Sprintf(format, a...)}
 	}
 	for k, v := range r.PVI {
 		if v*r.PoreVolume < -tol || math.IsNaN(v) {

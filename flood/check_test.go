@@ -48,7 +48,7 @@ func TestCheckSolve(t *testing.T) {
 // cumulative production fail the run's final check.
 func TestCheckResult(t *testing.T) {
 	base := func() *Result {
-		return &Result{Engine: "streamline", PoreVolume: 1e6, Times: []float64{10, 20}, PVI: []float64{0.1, 0.2},
+		return &Result{Engine: EngineStreamline, PoreVolume: 1e6, Times: []float64{10, 20}, PVI: []float64{0.1, 0.2},
 			Injectors: []Injector{{Name: "I", Rate: 100, CumWater: 2000}},
 			Producers: []Producer{{Name: "P", Rate: 100, CumOil: []float64{500, 900}, CumWater: []float64{0, 100}}}}
 	}
@@ -83,9 +83,9 @@ func TestCheckResult(t *testing.T) {
 // is flagged at its limit and the warnings name it and the 5000 psi it
 // would need (uniform pressure without flow, Darcy 1856).
 func TestRunLimitBelowProducer(t *testing.T) {
-	for _, s := range []Settings{{}, {Engine: "grid"}} {
+	for _, s := range []Settings{{}, {Engine: EngineGrid}} {
 		for _, updates := range []int{1, 3} {
-			if s.Engine == "grid" && updates > 1 {
+			if s.Engine == EngineGrid && updates > 1 {
 				continue
 			}
 			m := reservoir.NewUniform(21, 3, 100, 100, 100, 0.2, 20)

@@ -79,12 +79,12 @@ func TestCompareRunFolders(t *testing.T) {
 	m := heteroCase(t, 16, 2, 0.4, 0.5, 0.9, 5)
 	dir := t.TempDir()
 	var dirs []string
-	for _, engine := range []string{"streamline", "grid"} {
+	for _, engine := range []Engine{EngineStreamline, EngineGrid} {
 		r, err := Run(m, Settings{Engine: engine, Frames: -1})
 		if err != nil {
 			t.Fatal(err)
 		}
-		p := filepath.Join(dir, engine)
+		p := filepath.Join(dir, engine.String())
 		d, err := outdir.Open(p, false)
 		if err != nil {
 			t.Fatal(err)

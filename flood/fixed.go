@@ -12,11 +12,13 @@ import (
 	"floodtrace/streamline"
 )
 
-// lineSet is the streamline-to-cell bookkeeping in flat arrays. Time of
-// flight is rescaled cell by cell so that the streamlines crossing a cell
-// hold exactly its pore volume (sum of flux*tau = pore volume); volumes
-// mapped between streamlines and cells are then conserved to round-off.
+// lineSet is the streamline-to-cell bookkeeping in flat arrays, on the
+// tracer's segments with the time of flight rescaled cell by cell so that
+// the streamlines crossing a cell hold exactly its pore volume
+// (streamline.Result.Rescale); volumes mapped between streamlines and
+// cells are then conserved to round-off.
 type lineSet struct {
+	seg       *streamline.Segments
 	start     []int     // segment offsets, one per line plus one
 	cell      []int32   // cell of each segment
 	a, b      []float64 // rescaled time of flight at entry and exit of each segment (days)
@@ -29,56 +31,19 @@ type lineSet struct {
 	bounds    []int32   // cell ranges of cellSaturation (see cellBounds)
 }
 
-func newLineSet(m *reservoir.Model, tr *streamline.Result, pv []float64) *lineSet {
+func newLineSet(tr *streamline.Result, pv []float64) (*lineSet, error) {
+	sg, err := tr.Rescale(pv)
+	if err != nil {
+		return nil, err
+	}
 	n := len(tr.Lines)
-	ls := &lineSet{start: make([]int, n+1), q: make([]float64, n), total: make([]float64, n),
-		inj: make([]int, n), prod: make([]int, n), pv: pv}
+	ls := &lineSet{seg: sg, start: sg.Start, cell: sg.Cell, a: sg.Entry, b: sg.Exit, total: sg.Total,
+		uncovered: sg.Uncovered, q: make([]float64, n), inj: make([]int, n), prod: make([]int, n), pv: pv}
 	for i := range tr.Lines {
-		ls.start[i+1] = ls.start[i] + len(tr.Lines[i].Cells)
+		l := &tr.Lines[i]
+		ls.q[i], ls.inj[i], ls.prod[i] = l.Flux, l.Injector, l.Producer
 	}
-	nseg := ls.start[n]
-	// scale[c]: first the traced volume of cell c, then pv/volume.
-	scale := make([]float64, len(pv))
-	forCellRanges(len(pv), 0, func(lo, hi int32) {
-		for i := range tr.Lines {
-			l := &tr.Lines[i]
-			tau := l.Tau[:len(l.Cells)]
-			for s, c := range l.Cells {
-				if c >= lo && c < hi {
-					scale[c] += l.Flux * tau[s]
-				}
-			}
-		}
-	})
-	for c, raw := range scale {
-		if raw > 0 {
-			scale[c] = pv[c] / raw
-		} else if pv[c] > 0 && tr.TOF != nil && !tr.Stagnant[c] {
-			ls.uncovered++
-		}
-	}
-	ls.cell = make([]int32, nseg)
-	ls.a = make([]float64, nseg)
-	ls.b = make([]float64, nseg)
-	forBlocks(n, 0, func(lo, hi int) {
-		for i := lo; i < hi; i++ {
-			l := &tr.Lines[i]
-			ls.q[i], ls.inj[i], ls.prod[i] = l.Flux, l.Injector, l.Producer
-			off := ls.start[i]
-			cell := ls.cell[off : off+len(l.Cells)]
-			a, b := ls.a[off:off+len(cell)], ls.b[off:off+len(cell)]
-			tau := l.Tau[:len(cell)]
-			copy(cell, l.Cells)
-			t := 0.0
-			for s, c := range cell {
-				a[s] = t
-				t += tau[s] * scale[c]
-				b[s] = t
-			}
-			ls.total[i] = t
-		}
-	})
-	return ls
+	return ls, nil
 }
 
 // cellSaturation maps the streamline solution at time t to cells by the
@@ -202,28 +167,11 @@ func forRanges(bounds []int32, fn func(lo, hi int32)) {
 	parallel.Each(len(bounds)-1, len(bounds)-1, 1, func(_, r int) { fn(bounds[r], bounds[r+1]) })
 }
 
-// forCellRanges calls fn on contiguous ranges of the cells [0, n), one per
-// worker (0 = GOMAXPROCS), in parallel. A function that adds segment
-// values to the cells of its range, taking the segments in line order,
-// makes every cell's sum in the same order whatever the number of ranges.
-func forCellRanges(n, workers int, fn func(lo, hi int32)) {
-	pieces := max(1, min(parallel.Workers(workers), n/4096))
-	parallel.Pieces(n, pieces, pieces, func(_, lo, hi int) { fn(int32(lo), int32(hi)) })
-}
-
-// lineBlocks is the fixed number of blocks the lines are cut into for
-// parallel work; it does not depend on the number of cores.
-const lineBlocks = 64
-
-// forBlocks calls fn on lineBlocks contiguous ranges of [0, n) using up to
-// workers goroutines (0 = GOMAXPROCS). fn must write disjoint data.
-func forBlocks(n, workers int, fn func(lo, hi int)) {
-	parallel.Pieces(n, lineBlocks, workers, func(_, lo, hi int) { fn(lo, hi) })
-}
-
 func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *lineSet, rs *blTable, s Settings) {
 	swi := m.Fluids.InitialSw
-	times := ReportTimes(m.Run.End, m.Run.ReportEvery)
+	// One pressure solve at day 0; the stops are those of every engine.
+	tl := newTimeline(m, frameCount(s.Frames, len(ls.cell), len(ls.pv)), nil)
+	times := tl.reports
 	r.Times = times
 	nt := len(times)
 
@@ -333,12 +281,12 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 		maps[t] = sw
 		return sw
 	}
-	for _, t := range snapshotTimes(m) {
+	// The solution is exact at any time: no stepping between the stops.
+	for _, t := range tl.snaps {
 		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: satAt(t)})
 	}
-	for _, k := range frameIndices(nt, frameCount(s.Frames, len(ls.cell), len(ls.pv))) {
-		t := times[k]
-		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: r.PVI[k], Sw: satAt(t)})
+	for _, t := range tl.frames {
+		r.Frames = append(r.Frames, Snapshot{Time: t, PVI: injRate * t / r.PoreVolume, Sw: satAt(t)})
 	}
 
 	// Mass balance at the end of the run, with the water in place taken

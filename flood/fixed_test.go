@@ -248,7 +248,7 @@ func TestSameSaturationDifferentOutflow(t *testing.T) {
 	m.Run.End = 1500
 	pv := m.PoreVolumes()
 	sol, tr := solveTrace(t, m)
-	ls := newLineSet(m, tr, pv)
+	ls := mustLineSet(t, tr, pv)
 	_ = sol
 	rs := blForModel(t, m)
 	tm := 250.0
@@ -296,4 +296,14 @@ func blForModel(t *testing.T, m *reservoir.Model) *blTable {
 		t.Fatal(err)
 	}
 	return newBLTable(rs, ff)
+}
+
+// mustLineSet builds the line set of a trace or fails the test.
+func mustLineSet(tb testing.TB, tr *streamline.Result, pv []float64) *lineSet {
+	tb.Helper()
+	ls, err := newLineSet(tr, pv)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return ls
 }

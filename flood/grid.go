@@ -14,8 +14,9 @@ import (
 	"floodtrace/transport"
 )
 
-// GridOptions tunes the grid engine (RunGrid). The zero value is the
-// default used by Run with Settings.Engine = "grid".
+// GridOptions tunes the grid engine (RunGrid). Run takes them from
+// Settings.Grid when Settings.Engine is EngineGrid; the zero value is the
+// default.
 type GridOptions struct {
 	// CFL is the Courant number of the explicit saturation step; 0 = 0.9.
 	// It must not exceed 1.
@@ -119,6 +120,9 @@ type gridRun struct {
 
 	prevFw []float64 // producer water fraction at the previous step start
 	prevT  float64
+
+	needSolve, retrace bool // a pressure solve (and a new trace) is due
+	steps, stepsSince  int  // saturation steps in all and since the last solve
 }
 
 func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error) {
@@ -149,7 +153,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 		return nil, err
 	}
 	_, sor := ff.Endpoints()
-	g := &gridRun{book: newBook(m, sched, "grid"), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
+	g := &gridRun{book: newBook(m, sched, EngineGrid), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
 	if g.logf == nil {
 		g.logf = func(string, ...any) {}
 	}
@@ -191,69 +195,66 @@ func (g *gridRun) run() error {
 	g.rowDt = make([]float64, m.Grid.NY)
 	g.rowSum = make([]float64, m.Grid.NY)
 
-	reports := ReportTimes(end, m.Run.ReportEvery)
-	r.Times = reports
-	nt := len(reports)
+	changes := g.sched.Changes(end)
+	tl := newTimeline(m, g.s.Frames, changes)
+	r.Times = tl.reports
+	nt := len(tl.reports)
 	r.PVI = make([]float64, nt)
 	g.setupWells(nt)
-	snaps := snapshotTimes(m)
-	var frames []float64
-	for _, k := range frameIndices(nt, g.s.Frames) {
-		frames = append(frames, reports[k])
-	}
-	changes := g.sched.Changes(end)
-	stops := append(append(append(slices.Clone(reports), snaps...), frames...), changes...)
-	slices.Sort(stops)
-	stops = slices.Compact(stops)
 	if g.sched.HasChanges(end) {
 		g.warn(fmt.Sprintf("the case has %d schedule event(s) and well opening(s): the grid engine re-solves the pressure at each", len(changes)))
 	}
 
-	t := 0.0
-	next := 0 // next stop
-	needSolve, retrace := true, true
-	steps, stepsSince := 0, 0
-	for t < end {
-		if needSolve {
-			if err := g.solve(t, retrace); err != nil {
+	if err := drive(g, tl); err != nil {
+		return err
+	}
+	g.logf("grid engine: %d saturation steps, %d pressure solves", g.steps, r.Solves)
+	g.finish()
+	return nil
+}
+
+// ledger returns the run's book (stepper).
+func (g *gridRun) ledger() *book { return &g.book }
+
+// solveAt asks for a pressure solve and a new trace at t, with the wells
+// in force then (stepper); the solve runs at the start of the next
+// advance, as do the re-solves the saturation changes call for.
+func (g *gridRun) solveAt(float64) error {
+	g.needSolve, g.retrace = true, true
+	return nil
+}
+
+// advance moves the saturations from t to t1 in explicit steps of the
+// largest stable size, re-solving the pressure every ResolveEvery steps
+// or when the saturations have changed by MaxChange (stepper).
+func (g *gridRun) advance(t, t1 float64) error {
+	end := g.m.Run.End
+	for t < t1 {
+		if g.needSolve {
+			if err := g.solve(t, g.retrace); err != nil {
 				return err
 			}
-			needSolve, retrace, stepsSince = false, false, 0
-		}
-		for next < len(stops) && stops[next] <= t {
-			next++
-		}
-		tStop := end
-		if next < len(stops) {
-			tStop = stops[next]
+			g.needSolve, g.retrace, g.stepsSince = false, false, 0
 		}
 		dt := g.stableStep()
-		if !(dt < tStop-t) {
-			dt = tStop - t
+		if !(dt < t1-t) {
+			dt = t1 - t
 		}
 		g.step(t, dt)
-		steps++
-		stepsSince++
-		if steps > g.o.MaxSteps {
+		g.steps++
+		g.stepsSince++
+		if g.steps > g.o.MaxSteps {
 			return fmt.Errorf("grid engine: more than %d saturation steps by day %g (the CFL step is %g days); use the streamline engine or a coarser grid", g.o.MaxSteps, t, dt)
 		}
-		if tStop-(t+dt) <= 1e-12*end {
-			t = tStop
+		if t1-(t+dt) <= 1e-12*end {
+			t = t1
 		} else {
 			t += dt
 		}
-		if next < len(stops) && t == stops[next] {
-			g.atStop(t, reports, snaps, frames)
-			if slices.Contains(changes, t) {
-				needSolve, retrace = true, true
-			}
-		}
-		if g.o.ResolveEvery > 0 && stepsSince >= g.o.ResolveEvery || g.meanChange() > g.o.MaxChange {
-			needSolve = true
+		if g.o.ResolveEvery > 0 && g.stepsSince >= g.o.ResolveEvery || g.meanChange() > g.o.MaxChange {
+			g.needSolve = true
 		}
 	}
-	g.logf("grid engine: %d saturation steps, %d pressure solves", steps, r.Solves)
-	g.finish()
 	return nil
 }
 
@@ -352,7 +353,10 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	g.partition = tr.ProducerPartition
 	// Tracer breakthrough and drained volume with the time of flight
 	// rescaled to the cell pore volumes, as in the streamline modes.
-	ls := newLineSet(m, tr, g.pv)
+	ls, err := newLineSet(tr, g.pv)
+	if err != nil {
+		return fmt.Errorf("streamlines at day %g: %w", t, err)
+	}
 	for p := range r.Producers {
 		P := &r.Producers[p]
 		P.DrainedVolume = 0
@@ -376,10 +380,8 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		r.Trace = tr
 		r.Pressure = sol
 		r.StreamlineCount = len(tr.Lines)
-		r.Phi, r.F = streamline.FPhi(g.pv, totalTravel(tr))
-		r.Lorenz = streamline.Lorenz(r.Phi, r.F)
-		r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
-		r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+		r.PairVolumes = tr.PairVolumes(ls.seg)
+		r.setDiagnostics(tr, g.pv)
 	}
 	return nil
 }

@@ -14,11 +14,11 @@ func TestGridBuckleyLeverett(t *testing.T) {
 	pvDays := m.TotalPoreVolume() / 10
 	m.Run.End = 2.6 * pvDays
 	m.Run.ReportEvery = 0.01 * pvDays
-	r, err := Run(m, Settings{Engine: "grid", Frames: -1})
+	r, err := Run(m, Settings{Engine: EngineGrid, Frames: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.Engine != "grid" {
+	if r.Engine != EngineGrid {
 		t.Fatalf("engine %q", r.Engine)
 	}
 	checkBuckleyLeverett(t, r, 0.02, 0.04)
@@ -141,11 +141,53 @@ func TestGridBadOptions(t *testing.T) {
 			t.Errorf("options %+v accepted", o)
 		}
 	}
-	if _, err := Run(m, Settings{Engine: "lattice"}); err == nil {
+	// The same options reach the engine through the run settings.
+	for _, o := range []GridOptions{{CFL: 1.5}, {ResolveEvery: -1}} {
+		if _, err := Run(m, Settings{Engine: EngineGrid, Grid: o}); err == nil {
+			t.Errorf("Settings.Grid %+v accepted", o)
+		}
+	}
+	if _, err := Run(m, Settings{Engine: Engine(7)}); err == nil {
 		t.Error("unknown engine accepted")
 	}
 	m.Run.End = 1e6
 	if _, err := RunGrid(m, Settings{}, GridOptions{MaxSteps: 10}); err == nil {
 		t.Error("step limit not enforced")
+	}
+}
+
+// TestEngineNames checks the engine names summary.json reports.
+func TestEngineNames(t *testing.T) {
+	for _, c := range []struct {
+		e    Engine
+		want string
+	}{{EngineStreamline, "streamline"}, {EngineGrid, "grid"}, {Engine(7), "Engine(7)"}} {
+		if got := c.e.String(); got != c.want {
+			t.Errorf("Engine(%d).String() = %q, want %q", int(c.e), got, c.want)
+		}
+	}
+}
+
+// TestUpdateOptionsThroughSettings checks that Settings.Updates reaches
+// the pressure-update engine: a smaller Courant number of the 1D
+// sub-steps changes the numerical diffusion, so the result changes (if
+// the options were dropped, both runs would be the same).
+func TestUpdateOptionsThroughSettings(t *testing.T) {
+	m := blChannel(t, 40)
+	m.Run.PressureUpdates = 3
+	a, err := Run(m, Settings{Frames: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := Run(m, Settings{Frames: -1, Updates: UpdateOptions{CFL: 0.2}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.Solves != 3 || b.Solves != 3 {
+		t.Fatalf("%d and %d solves, want 3 pressure updates", a.Solves, b.Solves)
+	}
+	last := len(a.FieldWaterCut) - 1
+	if a.FieldWaterCut[last] == b.FieldWaterCut[last] {
+		t.Errorf("Settings.Updates ignored: final water cut %g both times", a.FieldWaterCut[last])
 	}
 }

@@ -25,7 +25,7 @@ func TestCellRangesAnyCores(t *testing.T) {
 	var refMaps [][]float64
 	for _, procs := range []int{1, 2, 3, 8} {
 		runtime.GOMAXPROCS(procs)
-		ls := newLineSet(m, tr, m.PoreVolumes())
+		ls := mustLineSet(t, tr, m.PoreVolumes())
 		if refB == nil {
 			refB = ls.b
 		} else if !same(refB, ls.b) {
@@ -40,7 +40,7 @@ func TestCellRangesAnyCores(t *testing.T) {
 			}
 		}
 	}
-	if n := len(newLineSet(m, tr, m.PoreVolumes()).cellBounds(8)) - 1; n < 2 {
+	if n := len(mustLineSet(t, tr, m.PoreVolumes()).cellBounds(8)) - 1; n < 2 {
 		t.Fatalf("only %d cell range: the test does not reach the parallel sums", n)
 	}
 }

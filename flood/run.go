@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"runtime"
-	"sort"
 
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
@@ -29,9 +28,15 @@ type Settings struct {
 	Pressure pressure.Settings
 	// Log, when set, receives one line per stage.
 	Log func(format string, args ...any)
-	// Engine selects the engine: "streamline" (the default, also for "")
-	// or "grid" (the IMPES reference engine, RunGrid).
-	Engine string
+	// Engine selects the engine; the zero value is EngineStreamline.
+	Engine Engine
+	// Updates tunes the pressure-update mode of the streamline engine
+	// (used when the case needs updates; see RunUpdates). The zero value
+	// is the default.
+	Updates UpdateOptions
+	// Grid tunes the grid engine (EngineGrid). The zero value is the
+	// default.
+	Grid GridOptions
 }
 
 // Snapshot is a saturation map at one time.
@@ -85,13 +90,16 @@ type WellRecord struct {
 // Result is a finished run.
 type Result struct {
 	Model  *reservoir.Model
-	Engine string
+	Engine Engine
 	// Pressure is the first pressure solution and Trace its streamlines.
 	// In a fixed-streamline run the lines' Cells and Tau are released once
 	// mapped (the run keeps them in its own flat arrays); Path, fluxes,
 	// wells, the cell maps and the allocation remain.
 	Pressure *pressure.Solution
 	Trace    *streamline.Result
+	// PairVolumes are the pore volumes of Trace.Pairs (same order) from the
+	// rescaled time of flight (streamline.Result.PairVolumes).
+	PairVolumes []float64
 	// Times are the report times in days and PVI the pore volumes
 	// injected at each.
 	Times, PVI []float64
@@ -150,22 +158,22 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		return nil, errors.New("run.end must be positive")
 	}
 	switch s.Engine {
-	case "", "streamline":
-	case "grid":
-		return RunGrid(m, s, GridOptions{})
+	case EngineStreamline:
+	case EngineGrid:
+		return RunGrid(m, s, s.Grid)
 	default:
-		return nil, fmt.Errorf("unknown engine %q (want streamline or grid)", s.Engine)
+		return nil, fmt.Errorf("unknown engine %v (want EngineStreamline or EngineGrid)", s.Engine)
 	}
 	// Events and openings after the end change nothing, not even the mode.
 	// RunUpdates drops them again and warns.
 	mm, late := withinRun(m)
 	if needsUpdates(mm) {
-		return RunUpdates(m, s, UpdateOptions{})
+		return RunUpdates(m, s, s.Updates)
 	}
 	m = mm
 	// From here the case has no schedule event and no late well (they send
 	// it to pressure updates above).
-	r := &Result{Model: m, Engine: "streamline", PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
+	r := &Result{Model: m, Engine: EngineStreamline, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
 		Warnings: append([]string(nil), m.Warnings...)}
 	r.Warnings = append(r.Warnings, late...)
 	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
@@ -210,13 +218,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	r.Warnings = append(r.Warnings, tr.Warnings...)
 
 	pv := m.PoreVolumes()
-	r.Phi, r.F = streamline.FPhi(pv, totalTravel(tr))
-	r.Lorenz = streamline.Lorenz(r.Phi, r.F)
-	if len(tr.Lines) == 0 && math.IsNaN(r.Lorenz) {
-		r.Lorenz = 0 // nothing flows (every well shut or held at zero rate)
-	}
-	r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
-	r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+	r.setDiagnostics(tr, pv)
 
 	logf("transport: Buckley-Leverett along %d streamlines", len(tr.Lines))
 	swi := m.Fluids.InitialSw
@@ -225,13 +227,13 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
-	lines := newLineSet(m, tr, pv)
-	pairVolumes(tr, lines)
-	// The cell lists now live in lines; drop the tracer's copies (a
-	// million-cell case holds hundreds of megabytes of them).
-	for i := range tr.Lines {
-		tr.Lines[i].Cells, tr.Lines[i].Tau = nil, nil
+	lines, err := newLineSet(tr, pv)
+	if err != nil {
+		return nil, err
 	}
+	r.PairVolumes = tr.PairVolumes(lines.seg)
+	// The cell lists now live in lines; drop the tracer's copies.
+	tr.ReleaseCells()
 	if lines.uncovered > 0 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}
@@ -269,61 +271,13 @@ func Field(m *reservoir.Model, sol *pressure.Solution) *streamline.Field {
 	return f
 }
 
-func totalTravel(tr *streamline.Result) []float64 {
-	tt := make([]float64, len(tr.TOF))
-	for k := range tt {
-		tt[k] = tr.TOF[k] + tr.BackTOF[k]
-	}
-	return tt
-}
+// diagnosticSamples is the number of points of the F-Phi curve in
+// diagnostics.csv.
+const diagnosticSamples = 101
 
-// resampleFPhi samples a monotone F-Phi curve at n evenly spaced storage
-// capacities by linear interpolation.
-func resampleFPhi(phi, f []float64, n int) ([]float64, []float64) {
-	if len(phi) == 0 {
-		return nil, nil
-	}
-	ph := make([]float64, n)
-	fo := make([]float64, n)
-	for i := range ph {
-		x := float64(i) / float64(n-1)
-		ph[i] = x
-		k := sort.SearchFloat64s(phi, x)
-		switch {
-		case k == 0:
-			if phi[0] > 0 {
-				fo[i] = f[0] * x / phi[0]
-			} else {
-				fo[i] = f[0]
-			}
-		case k >= len(phi):
-			fo[i] = f[len(f)-1]
-		default:
-			x0, x1 := phi[k-1], phi[k]
-			if x1 > x0 {
-				fo[i] = f[k-1] + (f[k]-f[k-1])*(x-x0)/(x1-x0)
-			} else {
-				fo[i] = f[k]
-			}
-		}
-	}
-	return ph, fo
-}
-
-// pairVolumes sets the pore volume of each injector-producer pair from the
-// rescaled time of flight of its streamlines (flux times time of flight),
-// so the pair volumes add up to the pore volume the streamlines hold. The
-// tracer's own figure uses the raw time of flight, which near stagnation
-// points can exceed the cells' pore volume many times over.
-func pairVolumes(tr *streamline.Result, ls *lineSet) {
-	idx := map[[2]int]int{}
-	for k, p := range tr.Pairs {
-		idx[[2]int{p.Injector, p.Producer}] = k
-		tr.Pairs[k].PoreVolume = 0
-	}
-	for i := range ls.q {
-		if k, ok := idx[[2]int{ls.inj[i], ls.prod[i]}]; ok {
-			tr.Pairs[k].PoreVolume += ls.q[i] * ls.total[i]
-		}
-	}
+// setDiagnostics records the F-Phi curve, Lorenz coefficient and sweep
+// efficiency of the run's first streamlines.
+func (r *Result) setDiagnostics(tr *streamline.Result, pv []float64) {
+	d := tr.Diagnostics(pv, diagnosticSamples)
+	r.Phi, r.F, r.TD, r.Sweep, r.Lorenz = d.Phi, d.F, d.TD, d.Ev, d.Lorenz
 }

@@ -44,8 +44,8 @@ func producer(t *testing.T, r *Result, name string) *Producer {
 }
 
 func bothEngines(t *testing.T, m *reservoir.Model, check func(t *testing.T, r *Result)) {
-	for _, engine := range []string{"streamline", "grid"} {
-		t.Run(engine, func(t *testing.T) {
+	for _, engine := range []Engine{EngineStreamline, EngineGrid} {
+		t.Run(engine.String(), func(t *testing.T) {
 			r, err := Run(m, Settings{Engine: engine, Frames: -1})
 			if err != nil {
 				t.Fatal(err)
@@ -94,7 +94,7 @@ func TestScheduleShutIn(t *testing.T) {
 			t.Errorf("producers take %g after the shut-in, the injector gives 100", total)
 		}
 		// Measured 1.1e-10 (streamline), 7.9e-16 (grid).
-		checkMassBalance(t, r.Engine, r.MassBalanceError, map[string]float64{"streamline": 5e-10, "grid": 1e-14}[r.Engine])
+		checkMassBalance(t, r.Engine.String(), r.MassBalanceError, map[Engine]float64{EngineStreamline: 5e-10, EngineGrid: 1e-14}[r.Engine])
 	})
 }
 
@@ -141,7 +141,7 @@ func TestScheduleConvert(t *testing.T) {
 			t.Errorf("producers take %g, the injectors give 160", got)
 		}
 		// Measured 4e-11 (streamline), 1.4e-15 (grid).
-		checkMassBalance(t, r.Engine, r.MassBalanceError, map[string]float64{"streamline": 2e-10, "grid": 1e-14}[r.Engine])
+		checkMassBalance(t, r.Engine.String(), r.MassBalanceError, map[Engine]float64{EngineStreamline: 2e-10, EngineGrid: 1e-14}[r.Engine])
 	})
 }
 
@@ -167,7 +167,7 @@ func TestScheduleLateWell(t *testing.T) {
 				t.Errorf("well log day %g: P-3 rate %g", x.Time, x.Rate)
 			}
 		}
-		if r.Engine == "streamline" {
+		if r.Engine == EngineStreamline {
 			if r.Solves != 2 {
 				t.Errorf("%d solves, want 2 (day 0 and the opening)", r.Solves)
 			}
@@ -278,9 +278,9 @@ func TestScheduleAfterTheEnd(t *testing.T) {
 	} {
 		for _, mode := range []struct {
 			name    string
-			engine  string
+			engine  Engine
 			updates int
-		}{{"fixed", "streamline", 1}, {"updates", "streamline", 4}, {"grid", "grid", 1}} {
+		}{{"fixed", EngineStreamline, 1}, {"updates", EngineStreamline, 4}, {"grid", EngineGrid, 1}} {
 			t.Run(c.name+"/"+mode.name, func(t *testing.T) {
 				run := func(m *reservoir.Model) *Result {
 					m.Run.PressureUpdates = mode.updates

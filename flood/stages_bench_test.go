@@ -83,7 +83,7 @@ func BenchmarkStageMapping(b *testing.B) {
 			pv := st.m.PoreVolumes()
 			var ls *lineSet
 			for b.Loop() {
-				ls = newLineSet(st.m, st.tr, pv)
+				ls = mustLineSet(b, st.tr, pv)
 				ls.cellSaturation(st.m, st.rs, st.m.Run.End, st.m.Fluids.InitialSw, 0)
 			}
 			b.ReportMetric(float64(len(ls.cell)), "segments")
@@ -99,7 +99,7 @@ func BenchmarkStageTransport(b *testing.B) {
 	for _, n := range stageSizes {
 		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
 			st := stageTrace(b, n)
-			ls := newLineSet(st.m, st.tr, st.m.PoreVolumes())
+			ls := mustLineSet(b, st.tr, st.m.PoreVolumes())
 			var r *Result
 			for b.Loop() {
 				r = &Result{Model: st.m, PoreVolume: st.m.TotalPoreVolume(), OOIP: st.m.OOIP()}

@@ -14,8 +14,8 @@ import (
 	"floodtrace/transport"
 )
 
-// UpdateOptions tunes the pressure-update mode (RunUpdates). The zero
-// value is the default used by Run.
+// UpdateOptions tunes the pressure-update mode (RunUpdates). Run takes
+// them from Settings.Updates; the zero value is the default.
 type UpdateOptions struct {
 	// Scheme is the 1D transport scheme along the streamlines; the zero
 	// value is first-order upwind (see transport.Advance).
@@ -149,15 +149,12 @@ type updateRun struct {
 	workers int
 	logf    func(string, ...any)
 
-	sInj       float64
-	sLine      float64 // inlet state of lines from injectors (fw exactly 1)
-	threshold  float64
-	wells      []reservoir.Well // state in force
-	mob        []float64
-	reports    []float64
-	stops      []float64 // report, snapshot and frame times, sorted
-	snapTimes  []float64
-	frameTimes []float64
+	sInj      float64
+	sLine     float64 // inlet state of lines from injectors (fw exactly 1)
+	threshold float64
+	wells     []reservoir.Well // state in force
+	mob       []float64
+	sol       *pressure.Solution // the solve in force
 
 	// Well bookkeeping beyond the book's.
 	unsourced      float64 // water entering lines that start at no injector
@@ -216,7 +213,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		return nil, err
 	}
 	_, sor := ff.Endpoints()
-	u := &updateRun{book: newBook(m, sched, "streamline"), s: s, o: o, ff: ff, fl: fl,
+	u := &updateRun{book: newBook(m, sched, EngineStreamline), s: s, o: o, ff: ff, fl: fl,
 		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
 		sInj: 1 - sor,
 		logf: s.Log,
@@ -269,20 +266,13 @@ func (u *updateRun) run() error {
 	u.acc, u.vol = make([]float64, n), make([]float64, n)
 	u.wells = make([]reservoir.Well, len(m.Wells))
 
-	u.reports = ReportTimes(end, m.Run.ReportEvery)
-	r.Times = u.reports
-	nt := len(u.reports)
+	updates := UpdateTimes(m, u.sched)
+	tl := newTimeline(m, u.s.Frames, updates)
+	r.Times = tl.reports
+	nt := len(tl.reports)
 	r.PVI = make([]float64, nt)
 	u.setupWells(nt)
-	u.snapTimes = snapshotTimes(m)
-	for _, k := range frameIndices(nt, u.s.Frames) {
-		u.frameTimes = append(u.frameTimes, u.reports[k])
-	}
-	u.stops = append(append(slices.Clone(u.reports), u.snapTimes...), u.frameTimes...)
-	slices.Sort(u.stops)
-	u.stops = slices.Compact(u.stops)
 
-	updates := UpdateTimes(m, u.sched)
 	if u.sched.HasChanges(end) {
 		opening := 0
 		for _, w := range m.Wells {
@@ -297,18 +287,15 @@ func (u *updateRun) run() error {
 		u.warn(fmt.Sprintf("end-point mobility ratio is %.2g (above 2) and the run has only %d pressure solve(s): use more pressure updates (run.pressure_updates) for a better estimate", mr, len(updates)))
 	}
 	u.logf("pressure updates: %d solves over %g days", len(updates), end)
-	for i, t0 := range updates {
-		t1 := end
-		if i+1 < len(updates) {
-			t1 = updates[i+1]
-		}
-		if err := u.interval(i, t0, t1); err != nil {
-			return err
-		}
+	if err := drive(u, tl); err != nil {
+		return err
 	}
 	u.finish()
 	return nil
 }
+
+// ledger returns the run's book (stepper).
+func (u *updateRun) ledger() *book { return &u.book }
 
 // solve computes the total mobility from the cell saturations and solves
 // the pressure with the wells in force at t.
@@ -346,14 +333,16 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 	return sol, nil
 }
 
-// interval runs one pressure solve and the transport up to t1.
-func (u *updateRun) interval(idx int, t0, t1 float64) error {
+// solveAt solves the pressure with the wells in force at t0, traces the
+// streamlines and sets up their transport (stepper).
+func (u *updateRun) solveAt(t0 float64) error {
 	m, r := u.m, u.r
-	u.logf("update %d at day %g: pressure", idx+1, t0)
+	u.logf("update %d at day %g: pressure", r.Solves+1, t0)
 	sol, err := u.solve(t0)
 	if err != nil {
 		return err
 	}
+	u.sol = sol
 	if r.Pressure == nil {
 		r.Pressure = sol
 	}
@@ -401,13 +390,15 @@ func (u *updateRun) interval(idx int, t0, t1 float64) error {
 			u.firstTraceDone = true
 			r.Trace = tr
 			r.StreamlineCount = len(tr.Lines)
-			r.Phi, r.F = streamline.FPhi(u.pv, totalTravel(tr))
-			r.Lorenz = streamline.Lorenz(r.Phi, r.F)
-			r.TD, r.Sweep = streamline.Sweep(r.Phi, r.F)
-			r.Phi, r.F = resampleFPhi(r.Phi, r.F, 101)
+			r.setDiagnostics(tr, u.pv)
 		}
 		u.partition = tr.ProducerPartition
-		u.ls = newLineSet(m, tr, u.pv)
+		if u.ls, err = newLineSet(tr, u.pv); err != nil {
+			return fmt.Errorf("streamlines at day %g: %w", t0, err)
+		}
+		if r.Trace == tr {
+			r.PairVolumes = tr.PairVolumes(u.ls.seg)
+		}
 		if err := u.setupLines(sol, t0); err != nil {
 			return err
 		}
@@ -416,24 +407,16 @@ func (u *updateRun) interval(idx int, t0, t1 float64) error {
 		u.ls = nil
 	}
 
-	// Advance from stop to stop.
-	t := t0
-	for t < t1 {
-		next := t1
-		k, found := slices.BinarySearch(u.stops, t)
-		if found {
-			k++
-		}
-		if k < len(u.stops) && u.stops[k] < t1 {
-			next = u.stops[k]
-		}
-		if err := u.chunk(sol, t, next); err != nil {
-			return err
-		}
-		t = next
-		u.mapToCells()
-		u.atStop(t)
+	return nil
+}
+
+// advance moves the water along the streamlines from t to t1 and maps the
+// saturations to the cells (stepper).
+func (u *updateRun) advance(t, t1 float64) error {
+	if err := u.chunk(u.sol, t, t1); err != nil {
+		return err
 	}
+	u.mapToCells()
 	return nil
 }
 
@@ -846,9 +829,6 @@ func (u *updateRun) mapToCells() {
 		}
 	}
 }
-
-// atStop records what is due at time t (book.atStop).
-func (u *updateRun) atStop(t float64) { u.book.atStop(t, u.reports, u.snapTimes, u.frameTimes) }
 
 // finish fills the field series and the mass balance.
 func (u *updateRun) finish() {

@@ -111,7 +111,7 @@ func TestUpdatesBuckleyLeverett(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.Solves != 6 || r.Engine != "streamline" {
+	if r.Solves != 6 || r.Engine != EngineStreamline {
 		t.Fatalf("%d solves with engine %q, want 6 streamline solves", r.Solves, r.Engine)
 	}
 	checkBuckleyLeverett(t, r, 0.02, 0.04)

@@ -17,7 +17,7 @@ func (r *Result) Summary() *runfolder.Summary {
 	m := r.Model
 	length, _, _, rate, pres, vol := m.Units.Labels()
 	F := func(v float64) runfolder.Float { return runfolder.Float(v) }
-	s := &runfolder.Summary{Title: m.Title, Units: string(m.Units), Engine: r.Engine, EndDays: F(m.Run.End),
+	s := &runfolder.Summary{Title: m.Title, Units: string(m.Units), Engine: r.Engine.String(), EndDays: F(m.Run.End),
 		UnitLabels: runfolder.UnitLabels{Length: length, Rate: rate, Volume: vol, Pressure: pres},
 		Grid:       runfolder.Grid{NX: m.Grid.NX, NY: m.Grid.NY, DX: F(m.Grid.DX), DY: F(m.Grid.DY), X0: F(m.Grid.X0), Y0: F(m.Grid.Y0)},
 		PoreVolume: F(r.PoreVolume), OOIP: F(r.OOIP), LorenzCoefficient: runfolder.Opt(r.Lorenz), MassBalanceError: F(r.MassBalanceError),
@@ -131,9 +131,13 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	if r.Trace != nil {
 		if err := csv(runfolder.AllocationFile, func(w *bufio.Writer) {
 			w.WriteString(runfolder.Header(runfolder.AllocationColumns))
-			for _, p := range r.Trace.Pairs {
+			for k, p := range r.Trace.Pairs {
+				pv := p.PoreVolume
+				if k < len(r.PairVolumes) {
+					pv = r.PairVolumes[k]
+				}
 				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s\n", m.Wells[p.Injector].Name, m.Wells[p.Producer].Name, runfolder.Num(p.Rate),
-					runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(p.PoreVolume))
+					runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(pv))
 			}
 		}); err != nil {
 			return err

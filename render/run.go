@@ -325,8 +325,10 @@ func (r *run) frameFiles() []frameFile {
 	return listDays(filepath.Join(r.dir, runfolder.FramesDir))
 }
 
-// pviAt returns the pore volumes injected at a day: a snapshot's own value
-// when it has one, else interpolated in field.csv; NaN when unknown.
+// pviAt returns the pore volumes injected at a day as the run folder
+// records it: a snapshot's own value in the summary, else the field.csv
+// row of that day (animation frames are taken at report times); NaN when
+// neither has it. Nothing is interpolated.
 func (r *run) pviAt(day float64) float64 {
 	for _, s := range r.sum.Snapshots {
 		if float64(s.TimeDays) == day && s.PVI > 0 {
@@ -337,22 +339,11 @@ func (r *run) pviAt(day float64) float64 {
 	if t == nil || !t.Has("time_days") || !t.Has("pvi") {
 		return math.NaN()
 	}
-	prevT, prevP := 0.0, 0.0
+	label := runfolder.DayLabel(day)
 	for i := range t.Rows {
-		d, p := t.Num(i, "time_days"), t.Num(i, "pvi")
-		if math.IsNaN(d) || math.IsNaN(p) {
-			continue
+		if d := t.Num(i, "time_days"); d == day || runfolder.DayLabel(d) == label {
+			return t.Num(i, "pvi")
 		}
-		if d >= day {
-			if d == prevT {
-				return p
-			}
-			return prevP + (p-prevP)*(day-prevT)/(d-prevT)
-		}
-		prevT, prevP = d, p
-	}
-	if day <= prevT {
-		return prevP
 	}
 	return math.NaN()
 }

@@ -3,47 +3,10 @@ package render
 import (
 	"floodtrace/runfolder"
 
-	"errors"
 	"fmt"
 	"math"
 	"path/filepath"
 )
-
-// LorenzCoefficient returns the Lorenz coefficient of an F-Phi curve given
-// as storage capacity phi (increasing from 0 to 1) against flow capacity
-// F: twice the area between the curve and the 45-degree line, by the
-// trapezoid rule (Lake 1989, "Enhanced Oil Recovery"; Shook and Mitchell
-// 2009; both from memory). Points with NaN are skipped; the curve is closed at
-// (0,0) and (1,1) when it does not reach them.
-func LorenzCoefficient(phi, F []float64) (float64, error) {
-	if len(phi) != len(F) {
-		return 0, fmt.Errorf("render: F-Phi curve has %d phi and %d F values", len(phi), len(F))
-	}
-	xs := []float64{0}
-	ys := []float64{0}
-	for i := range phi {
-		if math.IsNaN(phi[i]) || math.IsNaN(F[i]) {
-			continue
-		}
-		if phi[i] < xs[len(xs)-1]-1e-9 {
-			return 0, fmt.Errorf("render: F-Phi curve: phi decreases at point %d (%v)", i, phi[i])
-		}
-		xs = append(xs, phi[i])
-		ys = append(ys, F[i])
-	}
-	if len(xs) < 2 {
-		return 0, errors.New("render: F-Phi curve has no point")
-	}
-	if xs[len(xs)-1] < 1 {
-		xs = append(xs, 1)
-		ys = append(ys, 1)
-	}
-	area := 0.0
-	for i := 1; i < len(xs); i++ {
-		area += 0.5 * (ys[i] + ys[i-1]) * (xs[i] - xs[i-1])
-	}
-	return 2 * (area - 0.5), nil
-}
 
 // producerOrder returns the producer names of the summary, then any other
 // name met in the table, so that every producer appears in the legend.
@@ -185,12 +148,7 @@ func (r *run) drawCharts() error {
 			tD = append(tD, t.Num(i, "td"))
 			sw = append(sw, t.Num(i, "sweep"))
 		}
-		lc := math.NaN()
-		if r.sum.LorenzCoefficient != nil {
-			lc = *r.sum.LorenzCoefficient
-		} else if v, err := LorenzCoefficient(phi, F); err == nil {
-			lc = v
-		}
+		lc := runfolder.Value(r.sum.LorenzCoefficient)
 		name := "F–Φ curve"
 		if !math.IsNaN(lc) {
 			name = "F–Φ curve (Lc = " + FormatNumber(lc, 3) + ")"

@@ -3,7 +3,81 @@ package streamline
 import (
 	"math"
 	"slices"
+	"sort"
 )
+
+// Diagnostics is the time-of-flight summary of a set of streamlines: the
+// F-Phi curve, its Lorenz coefficient and the sweep efficiency.
+type Diagnostics struct {
+	// Phi and F sample the F-Phi curve (FPhi) at evenly spaced storage
+	// capacities; nil when no cell has a positive, finite pore volume and
+	// travel time.
+	Phi, F []float64
+	// TD and Ev are the sweep efficiency against dimensionless time
+	// (Sweep), from the full curve.
+	TD, Ev []float64
+	// Lorenz is the dynamic Lorenz coefficient of the full curve (Lorenz):
+	// 0 when the result has no line (nothing flows), NaN for a curve that
+	// is not valid.
+	Lorenz float64
+}
+
+// Diagnostics returns the F-Phi curve, Lorenz coefficient and sweep
+// efficiency of the traced field for the cell pore volumes pv, with each
+// cell's total travel time the sum of its TOF and BackTOF. The curve is
+// resampled at samples evenly spaced storage capacities (0 keeps every
+// point); the Lorenz coefficient and the sweep use the full curve.
+func (r *Result) Diagnostics(pv []float64, samples int) Diagnostics {
+	travel := make([]float64, len(r.TOF))
+	for k := range travel {
+		travel[k] = r.TOF[k] + r.BackTOF[k]
+	}
+	var d Diagnostics
+	phi, F := FPhi(pv, travel)
+	d.Lorenz = Lorenz(phi, F)
+	if len(r.Lines) == 0 && math.IsNaN(d.Lorenz) {
+		d.Lorenz = 0 // nothing flows (every well shut or held at zero rate)
+	}
+	d.TD, d.Ev = Sweep(phi, F)
+	d.Phi, d.F = phi, F
+	if samples > 1 {
+		d.Phi, d.F = resample(phi, F, samples)
+	}
+	return d
+}
+
+// resample samples a monotone F-Phi curve at n evenly spaced storage
+// capacities by linear interpolation.
+func resample(phi, f []float64, n int) ([]float64, []float64) {
+	if len(phi) == 0 {
+		return nil, nil
+	}
+	ph := make([]float64, n)
+	fo := make([]float64, n)
+	for i := range ph {
+		x := float64(i) / float64(n-1)
+		ph[i] = x
+		k := sort.SearchFloat64s(phi, x)
+		switch {
+		case k == 0:
+			if phi[0] > 0 {
+				fo[i] = f[0] * x / phi[0]
+			} else {
+				fo[i] = f[0]
+			}
+		case k >= len(phi):
+			fo[i] = f[len(f)-1]
+		default:
+			x0, x1 := phi[k-1], phi[k]
+			if x1 > x0 {
+				fo[i] = f[k-1] + (f[k]-f[k-1])*(x-x0)/(x1-x0)
+			} else {
+				fo[i] = f[k]
+			}
+		}
+	}
+	return ph, fo
+}
 
 // FPhi returns the flow-capacity / storage-capacity curve of a set of
 // cells (Shook and Mitchell 2009, from memory): the cells are sorted by

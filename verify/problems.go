@@ -374,7 +374,7 @@ func (EngineAgreement) Run() ([]Check, error) {
 	if err != nil {
 		return nil, err
 	}
-	gr, err := flood.Run(m, flood.Settings{Frames: -1, Engine: "grid"})
+	gr, err := flood.Run(m, flood.Settings{Frames: -1, Engine: flood.EngineGrid})
 	if err != nil {
 		return nil, err
 	}

@@ -101,7 +101,8 @@ func runRun(args []string) error {
 	if runFlags.pictures != "all" && runFlags.pictures != "minimal" && runFlags.pictures != "none" {
 		return usageError{fmt.Sprintf("--pictures must be all, minimal or none, not %q", runFlags.pictures)}
 	}
-	if runFlags.engine != "streamline" && runFlags.engine != "grid" {
+	engine, ok := engineFlags[runFlags.engine]
+	if !ok {
 		return usageError{fmt.Sprintf("--engine must be streamline or grid, not %q", runFlags.engine)}
 	}
 	if runFlags.updates < 0 {
@@ -125,7 +126,7 @@ func runRun(args []string) error {
 	if err != nil {
 		return err
 	}
-	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: runFlags.engine, Frames: int(runFlags.frames)})
+	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: engine, Frames: int(runFlags.frames)})
 	if err != nil {
 		return err
 	}
@@ -244,3 +245,6 @@ func (f *framesValue) Set(s string) error {
 }
 
 func (f *framesValue) Type() string { return "auto|none|N" }
+
+// engineFlags maps the values of --engine to the engines.
+var engineFlags = map[string]flood.Engine{"streamline": flood.EngineStreamline, "grid": flood.EngineGrid}

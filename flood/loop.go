@@ -1,0 +1,97 @@
+package flood
+
+import (
+	"slices"
+
+	"floodtrace/reservoir"
+)
+
+// timeline holds the stop times of a run, the one place they are made:
+// the report times, the snapshot and frame times, and the pressure-solve
+// times (the first at day 0; pressure updates, schedule events and well
+// openings after it).
+type timeline struct {
+	end     float64
+	reports []float64 // ReportTimes
+	snaps   []float64 // snapshotTimes
+	frames  []float64 // report times kept as animation frames
+	solves  []float64 // pressure-solve times, increasing, in [0, end)
+	stops   []float64 // reports, snaps and frames, sorted, without duplicates
+}
+
+// newTimeline returns the stop times of the case for a frame count
+// (frameIndices) and the pressure-solve times solves (0 is added; times at
+// or after the end are dropped).
+func newTimeline(m *reservoir.Model, frames int, solves []float64) *timeline {
+	end := m.Run.End
+	tl := &timeline{end: end, reports: ReportTimes(end, m.Run.ReportEvery), snaps: snapshotTimes(m)}
+	for _, k := range frameIndices(len(tl.reports), frames) {
+		tl.frames = append(tl.frames, tl.reports[k])
+	}
+	tl.stops = append(append(slices.Clone(tl.reports), tl.snaps...), tl.frames...)
+	slices.Sort(tl.stops)
+	tl.stops = slices.Compact(tl.stops)
+	tl.solves = []float64{0}
+	for _, t := range solves {
+		if t > 0 && t < end {
+			tl.solves = append(tl.solves, t)
+		}
+	}
+	slices.Sort(tl.solves)
+	tl.solves = slices.Compact(tl.solves)
+	return tl
+}
+
+// nextStop returns the first stop after t, or t1 when there is none
+// before t1.
+func (tl *timeline) nextStop(t, t1 float64) float64 {
+	k, found := slices.BinarySearch(tl.stops, t)
+	if found {
+		k++
+	}
+	if k < len(tl.stops) && tl.stops[k] < t1 {
+		return tl.stops[k]
+	}
+	return t1
+}
+
+// stepper is an engine that moves the saturations in time: the pressure
+// updates and grid engines. It holds its state in memory and writes no
+// files, so a caller can build and run it many times.
+type stepper interface {
+	// solveAt puts the wells in force at day t and solves the pressure
+	// (and traces streamlines, for an engine that has them) on the
+	// current saturations. An engine may defer the solve to its next
+	// advance.
+	solveAt(t float64) error
+	// advance moves the saturations from day t to day t1, between which
+	// there is no stop, adding the volumes it moves to the book.
+	advance(t, t1 float64) error
+	// ledger returns the engine's book, which records at every stop.
+	ledger() *book
+}
+
+// drive runs an engine through the timeline: a solve at each solve time,
+// and between solves an advance from stop to stop, recording in the book
+// at the end of each.
+func drive(e stepper, tl *timeline) error {
+	b := e.ledger()
+	for i, t0 := range tl.solves {
+		t1 := tl.end
+		if i+1 < len(tl.solves) {
+			t1 = tl.solves[i+1]
+		}
+		if err := e.solveAt(t0); err != nil {
+			return err
+		}
+		for t := t0; t < t1; {
+			next := tl.nextStop(t, t1)
+			if err := e.advance(t, next); err != nil {
+				return err
+			}
+			t = next
+			b.atStop(t, tl.reports, tl.snaps, tl.frames)
+		}
+	}
+	return nil
+}
