@@ -35,9 +35,6 @@ func (r *Result) Diagnostics(pv []float64, samples int) Diagnostics {
 	var d Diagnostics
 	phi, F := FPhi(pv, travel)
 	d.Lorenz = Lorenz(phi, F)
-	if len(r.Lines) == 0 && math.IsNaN(d.Lorenz) {
-		d.Lorenz = 0 // nothing flows (every well shut or held at zero rate)
-	}
 	d.TD, d.Ev = Sweep(phi, F)
 	d.Phi, d.F = phi, F
 	if samples > 1 {

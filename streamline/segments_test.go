@@ -102,9 +102,10 @@ func TestDiagnosticsTwoLayers(t *testing.T) {
 			t.Errorf("r=%g: sweep curve %v, %v", r, d.TD, d.Ev)
 		}
 	}
-	// Nothing traced: nothing flows, the coefficient is 0.
+	// Nothing traced: nothing flows, the coefficient is undefined (NaN,
+	// null in summary.json), not 0, which would claim a uniform sweep.
 	empty := &Result{TOF: []float64{math.NaN()}, BackTOF: []float64{math.NaN()}}
-	if d := empty.Diagnostics([]float64{1}, 101); d.Lorenz != 0 || d.Phi != nil {
+	if d := empty.Diagnostics([]float64{1}, 101); !math.IsNaN(d.Lorenz) || d.Phi != nil {
 		t.Errorf("no line: %+v", d)
 	}
 }

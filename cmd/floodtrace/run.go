@@ -187,8 +187,12 @@ func printRunSummary(r *flood.Result) {
 		fmt.Fprintf(stdout, "%-10s %12s %12s %10.3f %14.4g %14.4g\n", p.Name, days(p.TracerBreakthrough), days(p.Breakthrough),
 			p.WaterCut[last], p.CumOil[last], p.CumWater[last])
 	}
-	fmt.Fprintf(stdout, "field recovery %.1f%% of OOIP, water cut %.3f, Lorenz coefficient %.3f, mass balance error %.1e\n",
-		100*r.RecoveryFactor[last], r.FieldWaterCut[last], r.Lorenz, r.MassBalanceError)
+	lorenz := "n/a (no flow)"
+	if !math.IsNaN(r.Lorenz) {
+		lorenz = fmt.Sprintf("%.3f", r.Lorenz)
+	}
+	fmt.Fprintf(stdout, "field recovery %.1f%% of OOIP, water cut %.3f, Lorenz coefficient %s, mass balance error %.1e\n",
+		100*r.RecoveryFactor[last], r.FieldWaterCut[last], lorenz, r.MassBalanceError)
 	for _, in := range r.Injectors {
 		if in.MaxBHPReached && in.Rate == 0 && in.CumWater == 0 {
 			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and injects nothing: the limit is below the pressure it must overcome (see the warnings)\n", in.Name)
