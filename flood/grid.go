@@ -148,7 +148,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	if err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
-	sched, err := NewWellSchedule(m)
+	sched, err := newWellSchedule(m)
 	if err != nil {
 		return nil, err
 	}

@@ -24,7 +24,7 @@ type timeline struct {
 // or after the end are dropped).
 func newTimeline(m *reservoir.Model, frames int, solves []float64) *timeline {
 	end := m.Run.End
-	tl := &timeline{end: end, reports: ReportTimes(end, m.Run.ReportEvery), snaps: snapshotTimes(m)}
+	tl := &timeline{end: end, reports: reportTimes(end, m.Run.ReportEvery), snaps: snapshotTimes(m)}
 	for _, k := range frameIndices(len(tl.reports), frames) {
 		tl.frames = append(tl.frames, tl.reports[k])
 	}

@@ -28,7 +28,7 @@ func TestDriveStops(t *testing.T) {
 	m := blChannel(t, 10)
 	m.Run.End, m.Run.ReportEvery = 100, 25
 	m.Run.Snapshots = []float64{10, 50}
-	sched, err := NewWellSchedule(m)
+	sched, err := newWellSchedule(m)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -128,9 +128,9 @@ type Result struct {
 	Warnings []string
 }
 
-// ReportTimes returns the report times of a run: every reportEvery days
+// reportTimes returns the report times of a run: every reportEvery days
 // up to end, with end itself always included.
-func ReportTimes(end, reportEvery float64) []float64 {
+func reportTimes(end, reportEvery float64) []float64 {
 	if reportEvery <= 0 || reportEvery > end {
 		reportEvery = end
 	}

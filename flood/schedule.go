@@ -26,10 +26,10 @@ type WellSchedule struct {
 	changes []float64         // times in (0, inf) where some state changes
 }
 
-// NewWellSchedule checks the schedule of m against its wells and returns
+// newWellSchedule checks the schedule of m against its wells and returns
 // the schedule. Events naming unknown wells, or with times that are not
 // finite and non-negative, are errors.
-func NewWellSchedule(m *reservoir.Model) (*WellSchedule, error) {
+func newWellSchedule(m *reservoir.Model) (*WellSchedule, error) {
 	if m == nil {
 		return nil, fmt.Errorf("flood: schedule of a nil model")
 	}
@@ -171,7 +171,7 @@ func (s *WellSchedule) EverType(i int, typ reservoir.WellType, end float64) bool
 // returns one warning for each, naming the well, the day and the case
 // line. m is not changed; when nothing is dropped it is returned itself.
 // Events naming unknown wells and non-finite days are kept, for
-// NewWellSchedule to refuse.
+// newWellSchedule to refuse.
 func withinRun(m *reservoir.Model) (*reservoir.Model, []string) {
 	end := m.Run.End
 	late := func(t float64) bool { return t >= end && !math.IsInf(t, 0) }

@@ -192,7 +192,7 @@ func TestWellScheduleAt(t *testing.T) {
 		{Time: 120, Well: "P-1", BHP: 900, Rate: nan()},
 		{Time: 300, Well: "P-3", Convert: reservoir.Injector, Rate: 30, BHP: nan()},
 	}
-	s, err := NewWellSchedule(m)
+	s, err := newWellSchedule(m)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -236,7 +236,7 @@ func TestWellScheduleAt(t *testing.T) {
 		t.Error("EverType does not see the conversion at day 300")
 	}
 	m.Schedule = append(m.Schedule, reservoir.Event{Time: 10, Well: "X", Shut: true})
-	if _, err := NewWellSchedule(m); err == nil {
+	if _, err := newWellSchedule(m); err == nil {
 		t.Error("unknown well accepted")
 	}
 }
@@ -365,7 +365,7 @@ func TestWithinRun(t *testing.T) {
 	if len(m.Wells) != 4 || !slices.EqualFunc(m.Schedule, before, func(a, b reservoir.Event) bool { return a.Line == b.Line }) {
 		t.Error("withinRun changed the model it was given")
 	}
-	if _, err := NewWellSchedule(got); err == nil || !strings.Contains(err.Error(), "NOPE") {
+	if _, err := newWellSchedule(got); err == nil || !strings.Contains(err.Error(), "NOPE") {
 		t.Errorf("unknown well after the end: error %v", err)
 	}
 	// Nothing late: the model itself, no warning.

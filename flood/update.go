@@ -208,7 +208,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	if err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
-	sched, err := NewWellSchedule(m)
+	sched, err := newWellSchedule(m)
 	if err != nil {
 		return nil, err
 	}

@@ -343,7 +343,7 @@ func TestUpdateTimes(t *testing.T) {
 	}
 	m.Wells[0].Open = 30
 	m.Schedule = []reservoir.Event{{Time: 55, Well: "P", Rate: math.NaN(), BHP: 200}, {Time: 150, Well: "P", Shut: true, Rate: math.NaN(), BHP: math.NaN()}}
-	sched, err := NewWellSchedule(m)
+	sched, err := newWellSchedule(m)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -12,11 +12,11 @@ import (
 	"path/filepath"
 )
 
-// AnimationPalette returns the fixed 256-colour palette of the saturation
+// animationPalette returns the fixed 256-colour palette of the saturation
 // animation: the layout colours, a grey ramp, tints of the well colours,
 // and the rest sampled evenly from the colour map. It depends only on the
 // colour map, so every animation's bytes are reproducible.
-func AnimationPalette(cm Colormap) color.Palette {
+func animationPalette(cm Colormap) color.Palette {
 	var p color.Palette
 	add := func(c color.RGBA) { p = append(p, c) }
 	for _, c := range []color.RGBA{colPage, colInk, colInkSoft, colRule, colInactive, colNoData, colNoDataHat,
@@ -128,13 +128,13 @@ func (r *run) animation() error {
 		r.rep.note("no saturation frame: no animation")
 		return nil
 	}
-	pal := AnimationPalette(SaturationColors)
+	pal := animationPalette(SaturationColors)
 	q := newQuantizer(pal)
 	anim := &gif.GIF{LoopCount: 0}
 	idx := pickFrames(len(files), r.opt.Frames)
 	for n, i := range idx {
 		f := files[i]
-		v, err := ReadASC(f.Path, r.scene.Grid)
+		v, err := readASC(f.Path, r.scene.Grid)
 		if err != nil {
 			return err
 		}

@@ -114,7 +114,7 @@ type niceTicker struct{ n int }
 
 // Ticks implements plot.Ticker.
 func (t niceTicker) Ticks(lo, hi float64) []plot.Tick {
-	vs, step := LinearTicks(lo, hi, t.n)
+	vs, step := linearTicks(lo, hi, t.n)
 	dec := decimalsFor(step)
 	out := make([]plot.Tick, 0, len(vs))
 	for _, v := range vs {
@@ -135,9 +135,9 @@ func cleanXY(x, y []float64) plotter.XYs {
 	return out
 }
 
-// LineChart draws c into a w x h pixel file at path, "png" (default) or
+// lineChart draws c into a w x h pixel file at path, "png" (default) or
 // "svg"; the file is written atomically.
-func LineChart(path string, c Chart, w, h int, format string) error {
+func lineChart(path string, c Chart, w, h int, format string) error {
 	var buf bytes.Buffer
 	if err := WriteChart(&buf, c, w, h, format); err != nil {
 		return err
@@ -305,7 +305,7 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 			d := math.Max(math.Abs(lo)*0.1, 1)
 			lo, hi = lo-d, hi+d
 		}
-		_, step := LinearTicks(lo, hi, 7)
+		_, step := linearTicks(lo, hi, 7)
 		ax.Min = math.Floor(lo/step+1e-9) * step
 		ax.Max = math.Ceil(hi/step-1e-9) * step
 	}

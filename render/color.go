@@ -32,9 +32,9 @@ func linearRGB(c color.RGBA) (r, g, b float64) {
 	return srgbToLinear(float64(c.R) / 255), srgbToLinear(float64(c.G) / 255), srgbToLinear(float64(c.B) / 255)
 }
 
-// ToOklab converts an opaque sRGB colour to Oklab, with L in [0,1]
+// toOklab converts an opaque sRGB colour to Oklab, with L in [0,1]
 // (Ottosson 2020, "A perceptual color space for image processing").
-func ToOklab(c color.RGBA) Lab {
+func toOklab(c color.RGBA) Lab {
 	r, g, b := linearRGB(c)
 	l := math.Cbrt(0.4122214708*r + 0.5363325363*g + 0.0514459929*b)
 	m := math.Cbrt(0.2119034982*r + 0.6806995451*g + 0.1073969566*b)
@@ -46,9 +46,9 @@ func ToOklab(c color.RGBA) Lab {
 	}
 }
 
-// FromOklab converts an Oklab colour to sRGB, clipping each channel to the
+// fromOklab converts an Oklab colour to sRGB, clipping each channel to the
 // sRGB gamut (Ottosson 2020).
-func FromOklab(p Lab) color.RGBA {
+func fromOklab(p Lab) color.RGBA {
 	l := p.L + 0.3963377774*p.A + 0.2158037573*p.B
 	m := p.L - 0.1055613458*p.A - 0.0638541728*p.B
 	s := p.L - 0.0894841775*p.A - 1.2914855480*p.B
@@ -69,10 +69,10 @@ func to8(v float64) uint8 {
 	return uint8(math.Round(v * 255))
 }
 
-// ToCIELab converts an opaque sRGB colour to CIE 1976 L*a*b* under the D65
+// toCIELab converts an opaque sRGB colour to CIE 1976 L*a*b* under the D65
 // white point, L* in [0,100] (CIE 15:2004; sRGB primaries of
 // IEC 61966-2-1).
-func ToCIELab(c color.RGBA) Lab {
+func toCIELab(c color.RGBA) Lab {
 	r, g, b := linearRGB(c)
 	x := (0.4124564*r + 0.3575761*g + 0.1804375*b) / 0.95047
 	y := 0.2126729*r + 0.7151522*g + 0.0721750*b
@@ -90,8 +90,8 @@ func ToCIELab(c color.RGBA) Lab {
 
 // mixOklab blends two colours in Oklab: t = 0 gives a, t = 1 gives b.
 func mixOklab(a, b color.RGBA, t float64) color.RGBA {
-	p, q := ToOklab(a), ToOklab(b)
-	return FromOklab(Lab{p.L + t*(q.L-p.L), p.A + t*(q.A-p.A), p.B + t*(q.B-p.B)})
+	p, q := toOklab(a), toOklab(b)
+	return fromOklab(Lab{p.L + t*(q.L-p.L), p.A + t*(q.A-p.A), p.B + t*(q.B-p.B)})
 }
 
 // hex parses "#rrggbb"; it panics on a malformed constant, so use it only
@@ -133,8 +133,8 @@ func ParseHex(s string) (color.RGBA, error) {
 	return color.RGBA{R: v[0], G: v[1], B: v[2], A: 255}, nil
 }
 
-// HexString writes a colour as "#rrggbb".
-func HexString(c color.RGBA) string { return fmt.Sprintf("#%02x%02x%02x", c.R, c.G, c.B) }
+// hexString writes a colour as "#rrggbb".
+func hexString(c color.RGBA) string { return fmt.Sprintf("#%02x%02x%02x", c.R, c.G, c.B) }
 
 // Colormap is a sequential colour map: a table of colours at equal steps of
 // perceptual distance, from the colour of the smallest value (At(0)) to the
@@ -161,7 +161,7 @@ func NewColormap(name string, anchors []color.RGBA, n int) (Colormap, error) {
 	pts := make([]Lab, len(anchors))
 	cum := make([]float64, len(anchors))
 	for i, a := range anchors {
-		pts[i] = ToOklab(a)
+		pts[i] = toOklab(a)
 		if i > 0 {
 			d := pts[i]
 			p := pts[i-1]
@@ -185,7 +185,7 @@ func NewColormap(name string, anchors []color.RGBA, n int) (Colormap, error) {
 			t = (s - cum[seg-1]) / w
 		}
 		t = math.Max(0, math.Min(1, t))
-		lut[e] = FromOklab(Lab{a.L + t*(b.L-a.L), a.A + t*(b.A-a.A), a.B + t*(b.B-a.B)})
+		lut[e] = fromOklab(Lab{a.L + t*(b.L-a.L), a.A + t*(b.A-a.A), a.B + t*(b.B-a.B)})
 	}
 	return Colormap{name: name, lut: lut}, nil
 }
@@ -267,10 +267,10 @@ var Categorical = []color.RGBA{
 	hex("#f0e442"), // yellow
 }
 
-// CategoricalFill returns a lighter version of palette colour i (cycling),
+// categoricalFill returns a lighter version of palette colour i (cycling),
 // blended towards white in Oklab so that symbols and lines drawn on top of
 // an area fill stay readable.
-func CategoricalFill(i int) color.RGBA {
+func categoricalFill(i int) color.RGBA {
 	c := Categorical[i%len(Categorical)]
 	return mixOklab(c, color.RGBA{255, 255, 255, 255}, 0.45)
 }

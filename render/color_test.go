@@ -29,7 +29,7 @@ func TestOklabReference(t *testing.T) {
 		{"blue", color.RGBA{0, 0, 255, 255}, Lab{0.45201, -0.03246, -0.31153}, 1e-3},
 	}
 	for _, c := range cases {
-		got := ToOklab(c.c)
+		got := toOklab(c.c)
 		if !near(got.L, c.want.L, c.tol) || !near(got.A, c.want.A, c.tol) || !near(got.B, c.want.B, c.tol) {
 			t.Errorf("%s: Oklab %+v, want %+v", c.name, got, c.want)
 		}
@@ -49,7 +49,7 @@ func TestCIELabReference(t *testing.T) {
 		{color.RGBA{0x77, 0x77, 0x77, 255}, Lab{50.03, 0, 0}},
 	}
 	for _, c := range cases {
-		got := ToCIELab(c.c)
+		got := toCIELab(c.c)
 		if !near(got.L, c.want.L, 0.06) || !near(got.A, c.want.A, 0.06) || !near(got.B, c.want.B, 0.06) {
 			t.Errorf("%v: L*a*b* %+v, want %+v", c.c, got, c.want)
 		}
@@ -61,7 +61,7 @@ func TestOklabRoundTrip(t *testing.T) {
 		for g := 0; g < 256; g += 15 {
 			for b := 0; b < 256; b += 15 {
 				c := color.RGBA{uint8(r), uint8(g), uint8(b), 255}
-				back := FromOklab(ToOklab(c))
+				back := fromOklab(toOklab(c))
 				if back != c {
 					t.Fatalf("round trip %v -> %v", c, back)
 				}
@@ -85,8 +85,8 @@ func TestParseHex(t *testing.T) {
 		if (err == nil) != c.ok || got != c.want {
 			t.Errorf("ParseHex(%q) = %v, %v", c.in, got, err)
 		}
-		if c.ok && HexString(got) != "#"+lower(c.in) {
-			t.Errorf("HexString(%v) = %s", got, HexString(got))
+		if c.ok && hexString(got) != "#"+lower(c.in) {
+			t.Errorf("HexString(%v) = %s", got, hexString(got))
 		}
 	}
 }
@@ -143,7 +143,7 @@ func TestColormapPerceptualSteps(t *testing.T) {
 	for _, c := range allMaps {
 		var ds []float64
 		for i := 0; i+15 < c.m.Len(); i += 15 {
-			a, b := ToOklab(c.m.Entry(i)), ToOklab(c.m.Entry(i+15))
+			a, b := toOklab(c.m.Entry(i)), toOklab(c.m.Entry(i+15))
 			ds = append(ds, math.Sqrt((a.L-b.L)*(a.L-b.L)+(a.A-b.A)*(a.A-b.A)+(a.B-b.B)*(a.B-b.B)))
 		}
 		lo, hi := math.Inf(1), 0.0
@@ -162,13 +162,13 @@ func TestColormapLightnessMonotone(t *testing.T) {
 	for _, c := range allMaps {
 		prev := math.Inf(1)
 		for i := range c.m.Len() {
-			l := ToCIELab(c.m.Entry(i)).L
+			l := toCIELab(c.m.Entry(i)).L
 			if l > prev+0.3 {
 				t.Fatalf("%s: L* rises from %.2f to %.2f at entry %d", c.name, prev, l, i)
 			}
 			prev = math.Min(prev, l)
 		}
-		if l0, l1 := ToCIELab(c.m.At(0)).L, ToCIELab(c.m.At(1)).L; l0-l1 < 60 {
+		if l0, l1 := toCIELab(c.m.At(0)).L, toCIELab(c.m.At(1)).L; l0-l1 < 60 {
 			t.Errorf("%s: lightness range %.1f..%.1f too small", c.name, l1, l0)
 		}
 	}
@@ -195,8 +195,8 @@ func TestNewColormapErrors(t *testing.T) {
 func TestCategoricalFill(t *testing.T) {
 	seen := map[color.RGBA]bool{}
 	for i := range Categorical {
-		f := CategoricalFill(i)
-		if ToCIELab(f).L <= ToCIELab(Categorical[i]).L {
+		f := categoricalFill(i)
+		if toCIELab(f).L <= toCIELab(Categorical[i]).L {
 			t.Errorf("fill %d %v not lighter than %v", i, f, Categorical[i])
 		}
 		if seen[f] {

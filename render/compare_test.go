@@ -55,13 +55,13 @@ func TestPairSeriesChart(t *testing.T) {
 	}
 	for i := range pairs {
 		col, _ := SeriesStyle(i)
-		hx := strings.ToUpper(HexString(col))
+		hx := strings.ToUpper(hexString(col))
 		// Solid: the A line and its legend key; dashed: the B line only.
 		if s, d := strokes(hx, false), strokes(hx, true); s != 2 || d != 1 {
 			t.Errorf("pair %d (%s): %d solid and %d dashed strokes, want 2 and 1", i, hx, s, d)
 		}
 	}
-	grey := strings.ToUpper(HexString(pairKeyColor))
+	grey := strings.ToUpper(hexString(pairKeyColor))
 	if s, d := strokes(grey, false), strokes(grey, true); s != 1 || d != 1 {
 		t.Errorf("style keys: %d solid and %d dashed grey strokes, want 1 and 1", s, d)
 	}

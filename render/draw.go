@@ -92,11 +92,11 @@ func drawField(s Scene, values []float64, sc Scale, ov *Overlay, w, h int) (*ima
 	return c.img, nil
 }
 
-// DrawPartition draws which well floods (or drains) each cell: part holds
+// drawPartition draws which well floods (or drains) each cell: part holds
 // 1-based indices into names, 0 for none. Each well present gets a colour
 // of the categorical palette (in the order of names), boundaries between
 // partitions are outlined, and the legend lists the wells.
-func DrawPartition(s Scene, part []int, names []string, legendTitle string, w, h int) (*image.RGBA, error) {
+func drawPartition(s Scene, part []int, names []string, legendTitle string, w, h int) (*image.RGBA, error) {
 	if err := checkScene(s); err != nil {
 		return nil, err
 	}
@@ -132,7 +132,7 @@ func DrawPartition(s Scene, part []int, names []string, legendTitle string, w, h
 		case v == 0:
 			col[k] = color.RGBA{}
 		default:
-			col[k] = CategoricalFill(slot[v])
+			col[k] = categoricalFill(slot[v])
 		}
 	}
 	c.fillCells(col)
@@ -148,7 +148,7 @@ func DrawPartition(s Scene, part []int, names []string, legendTitle string, w, h
 	var entries []legendEntry
 	for v := 1; v <= len(names); v++ {
 		if present[v] {
-			fill := CategoricalFill(slot[v])
+			fill := categoricalFill(slot[v])
 			entries = append(entries, legendEntry{names[v-1], func(x, y float64) { c.swatch(x, y, fill, false) }})
 		}
 	}
@@ -161,11 +161,11 @@ func DrawPartition(s Scene, part []int, names []string, legendTitle string, w, h
 	return c.img, nil
 }
 
-// DrawStreamlines draws the streamlines over a dark reservoir, coloured by
+// drawStreamlines draws the streamlines over a dark reservoir, coloured by
 // time of flight on sc (a zero Scale means a log scale of the lines' own
 // times with TimeOfFlightColors). Long lines are drawn first so the fast
 // paths stay on top; wells and faults are drawn above the lines.
-func DrawStreamlines(s Scene, lines []Polyline, sc Scale, w, h int) (*image.RGBA, error) {
+func drawStreamlines(s Scene, lines []Polyline, sc Scale, w, h int) (*image.RGBA, error) {
 	var tofs []float64
 	for n, ln := range lines {
 		if len(ln.X) != len(ln.Y) {

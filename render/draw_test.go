@@ -62,7 +62,7 @@ func TestSweptPixel(t *testing.T) {
 		}
 		wet := SaturationColors.At(1)
 		check(si, sj, wet, "swept")
-		if l := ToCIELab(wet).L; l > 25 {
+		if l := toCIELab(wet).L; l > 25 {
 			t.Errorf("high-saturation colour %v has L* %.1f, want dark", wet, l)
 		}
 		check(c.inj[0]+2, c.inj[1]-1, wet, "swept")
@@ -89,7 +89,7 @@ func TestColourBarOrder(t *testing.T) {
 		x := (b.Min.X + b.Max.X) / 2
 		prev := math.Inf(1)
 		for y := b.Max.Y - 1; y >= b.Min.Y; y-- {
-			L := ToCIELab(rgbaAt(img, x, y)).L
+			L := toCIELab(rgbaAt(img, x, y)).L
 			if L > prev+0.3 {
 				t.Fatalf("%s: bar lightness rises at row %d (%.2f after %.2f)", m.name, y, L, prev)
 			}
@@ -116,7 +116,7 @@ func TestWellsAboveStreamlines(t *testing.T) {
 		d := float64(n-25) * 4
 		lines = append(lines, Polyline{X: []float64{ix - 400 + d, ix, px, px + 300}, Y: []float64{iy + d, iy, py, py - d}, TotalTOF: 100 + float64(n)})
 	}
-	img, err := DrawStreamlines(s, lines, Scale{}, 1600, 900)
+	img, err := drawStreamlines(s, lines, Scale{}, 1600, 900)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -155,7 +155,7 @@ func TestPartitionColours(t *testing.T) {
 		}
 	}
 	part[g.Index(10, 10)] = 0
-	img, err := DrawPartition(s, part, []string{"I-1", "P-1", "P-2"}, "Producer partition", 1200, 800)
+	img, err := drawPartition(s, part, []string{"I-1", "P-1", "P-2"}, "Producer partition", 1200, 800)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -163,7 +163,7 @@ func TestPartitionColours(t *testing.T) {
 	for _, cs := range []struct {
 		i, j int
 		want color.RGBA
-	}{{20, 30, CategoricalFill(0)}, {40, 20, CategoricalFill(1)}} {
+	}{{20, 30, categoricalFill(0)}, {40, 20, categoricalFill(1)}} {
 		x, y := l.CellPixel(cs.i, cs.j)
 		if got := rgbaAt(img, x, y); got != cs.want {
 			t.Errorf("cell (%d,%d) = %v, want %v", cs.i, cs.j, got, cs.want)
@@ -200,10 +200,10 @@ func TestDrawErrors(t *testing.T) {
 	}
 	part := make([]int, s.Grid.N())
 	part[3] = 9
-	if _, err := DrawPartition(s, part, []string{"A"}, "x", 800, 600); err == nil {
+	if _, err := drawPartition(s, part, []string{"A"}, "x", 800, 600); err == nil {
 		t.Error("partition index out of range: no error")
 	}
-	if _, err := DrawStreamlines(s, []Polyline{{X: []float64{1, 2}, Y: []float64{1}}}, Scale{}, 800, 600); err == nil {
+	if _, err := drawStreamlines(s, []Polyline{{X: []float64{1, 2}, Y: []float64{1}}}, Scale{}, 800, 600); err == nil {
 		t.Error("ragged streamline: no error")
 	}
 }
@@ -220,8 +220,8 @@ func TestMapSizes(t *testing.T) {
 	for _, sz := range [][2]int{{640, 480}, {1366, 768}, {900, 1200}} {
 		imgs := map[string]func() (*image.RGBA, error){
 			"field":       func() (*image.RGBA, error) { return DrawField(s, c.satValues(1825), Scale{}, sz[0], sz[1]) },
-			"partition":   func() (*image.RGBA, error) { return DrawPartition(s, part, []string{"A", "B"}, "x", sz[0], sz[1]) },
-			"streamlines": func() (*image.RGBA, error) { return DrawStreamlines(s, nil, Scale{}, sz[0], sz[1]) },
+			"partition":   func() (*image.RGBA, error) { return drawPartition(s, part, []string{"A", "B"}, "x", sz[0], sz[1]) },
+			"streamlines": func() (*image.RGBA, error) { return drawStreamlines(s, nil, Scale{}, sz[0], sz[1]) },
 		}
 		for name, f := range imgs {
 			img, err := f()

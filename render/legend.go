@@ -55,10 +55,10 @@ func (c *mapCanvas) colourBar(sc Scale) {
 	var ticks []float64
 	dec := 0
 	if sc.Log {
-		ticks = LogTicks(sc.Min, sc.Max)
+		ticks = logTicks(sc.Min, sc.Max)
 	} else {
 		var step float64
-		ticks, step = LinearTicks(sc.Min, sc.Max, max(3, min(9, int(float64(n)/(38*s)))))
+		ticks, step = linearTicks(sc.Min, sc.Max, max(3, min(9, int(float64(n)/(38*s)))))
 		dec = decimalsFor(step)
 	}
 	size := math.Max(8, 19*s)
@@ -221,7 +221,7 @@ func (c *mapCanvas) northAndScale() {
 	// Scale bar.
 	x0 := ax + 48*s
 	avail := float64(p.Max.X) - x0 - 40*s
-	length, seg := ScaleBarLength(avail / c.l.PixelsPerUnit)
+	length, seg := scaleBarLength(avail / c.l.PixelsPerUnit)
 	if seg == 0 {
 		return
 	}

@@ -246,10 +246,10 @@ func (c *mapCanvas) colourBarH(sc Scale, r image.Rectangle) {
 	var ticks []float64
 	dec := 0
 	if sc.Log {
-		ticks = LogTicks(sc.Min, sc.Max)
+		ticks = logTicks(sc.Min, sc.Max)
 	} else {
 		var step float64
-		ticks, step = LinearTicks(sc.Min, sc.Max, 4)
+		ticks, step = linearTicks(sc.Min, sc.Max, 4)
 		dec = decimalsFor(step)
 	}
 	size := math.Max(8, 19*s)

@@ -16,10 +16,10 @@ import (
 	"floodtrace/runfolder"
 )
 
-// ReadASC reads a GIS ASCII raster into cell order of the grid g (k =
+// readASC reads a GIS ASCII raster into cell order of the grid g (k =
 // j*NX+i, j counting north) with the reader of the case maps
 // (reservoir.ReadMap); NODATA becomes NaN. The header must agree with g.
-func ReadASC(path string, g reservoir.Grid) ([]float64, error) {
+func readASC(path string, g reservoir.Grid) ([]float64, error) {
 	v, _, err := reservoir.ReadMap(path, &g)
 	if err != nil {
 		return nil, fmt.Errorf("render: %w", err)
@@ -27,7 +27,7 @@ func ReadASC(path string, g reservoir.Grid) ([]float64, error) {
 	return v, nil
 }
 
-// parseASC is ReadASC on a reader (reservoir.ReadASCIIRaster), with the
+// parseASC is readASC on a reader (reservoir.ReadASCIIRaster), with the
 // raster's size and cell size checked against g.
 func parseASC(r io.Reader, g reservoir.Grid) ([]float64, error) {
 	ras, err := reservoir.ReadASCIIRaster(r, "raster")
@@ -51,8 +51,8 @@ type Table struct {
 	col    map[string]int
 }
 
-// ReadTable reads a CSV file with a header line.
-func ReadTable(path string) (*Table, error) {
+// readTable reads a CSV file with a header line.
+func readTable(path string) (*Table, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, fmt.Errorf("render: %w", err)
@@ -136,9 +136,9 @@ func (t *Table) seriesBy(key, x, y string) (names []string, xs, ys [][]float64) 
 	return names, xs, ys
 }
 
-// ReadStreamlines reads streamlines.geojson: a FeatureCollection of
+// readStreamlines reads streamlines.geojson: a FeatureCollection of
 // LineStrings with properties injector, producer, flux and tof_days.
-func ReadStreamlines(path string) ([]Polyline, error) {
+func readStreamlines(path string) ([]Polyline, error) {
 	b, err := os.ReadFile(path)
 	if err != nil {
 		return nil, fmt.Errorf("render: %w", err)

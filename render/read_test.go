@@ -45,7 +45,7 @@ func TestReadASCErrors(t *testing.T) {
 			t.Errorf("%s: no error", name)
 		}
 	}
-	if _, err := ReadASC(filepath.Join(t.TempDir(), "absent.asc"), g); err == nil {
+	if _, err := readASC(filepath.Join(t.TempDir(), "absent.asc"), g); err == nil {
 		t.Error("absent file: no error")
 	}
 }
@@ -55,7 +55,7 @@ func TestReadStreamlines(t *testing.T) {
 	p := filepath.Join(dir, "s.geojson")
 	must(t, os.WriteFile(p, []byte(`{"type":"FeatureCollection","features":[
 {"type":"Feature","geometry":{"type":"LineString","coordinates":[[0,0],[10,5,1]]},"properties":{"injector":"I","producer":"P","flux":2.5,"tof_days":120}}]}`), 0o644))
-	ls, err := ReadStreamlines(p)
+	ls, err := readStreamlines(p)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -69,7 +69,7 @@ func TestReadStreamlines(t *testing.T) {
 		"short pos": `{"type":"FeatureCollection","features":[{"type":"Feature","geometry":{"type":"LineString","coordinates":[[1]]}}]}`,
 	} {
 		must(t, os.WriteFile(p, []byte(src), 0o644))
-		if _, err := ReadStreamlines(p); err == nil {
+		if _, err := readStreamlines(p); err == nil {
 			t.Errorf("%s: no error", name)
 		}
 	}

@@ -141,7 +141,7 @@ func (r *run) report() error {
 	last := map[string]int{}
 	var wt *Table
 	if p := filepath.Join(r.dir, runfolder.WellsFile); exists(p) {
-		t, err := ReadTable(p)
+		t, err := readTable(p)
 		if err != nil {
 			return err
 		}
@@ -186,7 +186,7 @@ func (r *run) report() error {
 	}
 	d.HasBreakthough = len(d.Breakthrough) > 0
 	if p := filepath.Join(r.dir, runfolder.AllocationFile); exists(p) {
-		t, err := ReadTable(p)
+		t, err := readTable(p)
 		if err != nil {
 			return err
 		}

@@ -143,7 +143,7 @@ func (r *run) readASC(path string) ([]float64, error) {
 	if path == r.lastPath && r.lastVals != nil {
 		return r.lastVals, nil
 	}
-	v, err := ReadASC(path, r.scene.Grid)
+	v, err := readASC(path, r.scene.Grid)
 	if err != nil {
 		return nil, err
 	}
@@ -175,7 +175,7 @@ func (r *run) prepare() error {
 		r.scene.FaultNames = append(r.scene.FaultNames, f.Name)
 	}
 	if p := filepath.Join(r.dir, runfolder.FieldFile); exists(p) {
-		t, err := ReadTable(p)
+		t, err := readTable(p)
 		if err != nil {
 			return err
 		}
@@ -250,7 +250,7 @@ func (r *run) prepare() error {
 	// spans the 1st to 99th percentiles and the bar shows the clipping.
 	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
 	if p := filepath.Join(r.dir, runfolder.TOFFile); exists(p) {
-		v, err := ReadASC(p, g)
+		v, err := readASC(p, g)
 		if err != nil {
 			return err
 		}
@@ -262,7 +262,7 @@ func (r *run) prepare() error {
 // logScale sets a log scale from the 1st to the 99th percentile of the
 // positive values, rounded outwards to 1, 2 or 5 times a power of ten.
 func logScale(sc Scale, v []float64, active []bool) Scale {
-	lo, hi, _, _, ok := RobustRange(v, active, 0.01, 0.99, true)
+	lo, hi, _, _, ok := robustRange(v, active, 0.01, 0.99, true)
 	if !ok {
 		return sc
 	}
@@ -419,7 +419,7 @@ func (r *run) streamlineMap() error {
 		r.rep.note("streamlines.geojson missing: no streamline map")
 		return nil
 	}
-	lines, err := ReadStreamlines(p)
+	lines, err := readStreamlines(p)
 	if err != nil {
 		return err
 	}
@@ -430,7 +430,7 @@ func (r *run) streamlineMap() error {
 	sc := logScale(Scale{Label: "Total time of flight", Unit: "days, injector to producer, log scale", Log: true, Map: &TimeOfFlightColors}, tot, nil)
 	s := r.scene
 	s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
-	img, err := DrawStreamlines(s, lines, sc, r.opt.Width, r.opt.Height)
+	img, err := drawStreamlines(s, lines, sc, r.opt.Width, r.opt.Height)
 	if err != nil {
 		return fmt.Errorf("render: %s: %w", p, err)
 	}
@@ -448,11 +448,11 @@ func (r *run) tofMap() error {
 		r.rep.note("tof.asc missing: no time-of-flight map")
 		return nil
 	}
-	v, err := ReadASC(p, r.scene.Grid)
+	v, err := readASC(p, r.scene.Grid)
 	if err != nil {
 		return err
 	}
-	if _, _, _, _, ok := RobustRange(v, r.scene.Active, 0, 1, true); !ok {
+	if _, _, _, _, ok := robustRange(v, r.scene.Active, 0, 1, true); !ok {
 		r.rep.note("tof.asc holds no finite time of flight (nothing flows): no time-of-flight map")
 		return nil
 	}
@@ -484,7 +484,7 @@ func (r *run) partitionMaps() error {
 			r.rep.note("%s.asc missing: no %s map", pm.file, strings.ToLower(pm.title))
 			continue
 		}
-		v, err := ReadASC(p, r.scene.Grid)
+		v, err := readASC(p, r.scene.Grid)
 		if err != nil {
 			return err
 		}
@@ -500,7 +500,7 @@ func (r *run) partitionMaps() error {
 		}
 		s := r.scene
 		s.Subtitle = pm.sub
-		img, err := DrawPartition(s, part, names, pm.title, r.opt.Width, r.opt.Height)
+		img, err := drawPartition(s, part, names, pm.title, r.opt.Width, r.opt.Height)
 		if err != nil {
 			return fmt.Errorf("render: %s: %w", p, err)
 		}
@@ -519,7 +519,7 @@ func (r *run) pressureMap() error {
 		r.rep.note("pressure.asc missing: no pressure map")
 		return nil
 	}
-	v, err := ReadASC(p, r.scene.Grid)
+	v, err := readASC(p, r.scene.Grid)
 	if err != nil {
 		return err
 	}
@@ -529,7 +529,7 @@ func (r *run) pressureMap() error {
 		r.rep.note("pressure.asc has no value: no pressure map")
 		return nil
 	}
-	_, step := LinearTicks(sc.Min, sc.Max, 6)
+	_, step := linearTicks(sc.Min, sc.Max, 6)
 	if step > 0 {
 		sc.Min = math.Floor(sc.Min/step+1e-9) * step
 		sc.Max = math.Ceil(sc.Max/step-1e-9) * step

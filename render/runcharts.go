@@ -56,7 +56,7 @@ func (r *run) perWell(t *Table, x, y string) []Series {
 
 func (r *run) chart(name string, c Chart, caption string) error {
 	rel := filepath.Join(runfolder.ChartsDir, name+"."+r.opt.Format)
-	if err := LineChart(filepath.Join(r.dir, rel), c, r.opt.Width, r.opt.Height, r.opt.Format); err != nil {
+	if err := lineChart(filepath.Join(r.dir, rel), c, r.opt.Width, r.opt.Height, r.opt.Format); err != nil {
 		return fmt.Errorf("render: %s: %w", rel, err)
 	}
 	r.rep.Files = append(r.rep.Files, rel)
@@ -68,7 +68,7 @@ func (r *run) drawCharts() error {
 	title := r.scene.Title
 	u := r.sum.UnitLabels
 	if p := filepath.Join(r.dir, runfolder.ProducersFile); exists(p) {
-		t, err := ReadTable(p)
+		t, err := readTable(p)
 		if err != nil {
 			return err
 		}
@@ -117,7 +117,7 @@ func (r *run) drawCharts() error {
 		r.rep.note("field.csv missing: no field chart")
 	}
 	if p := filepath.Join(r.dir, runfolder.EffectiveCurvesFile); exists(p) {
-		t, err := ReadTable(p)
+		t, err := readTable(p)
 		if err != nil {
 			return err
 		}
@@ -134,7 +134,7 @@ func (r *run) drawCharts() error {
 		r.rep.note("effective_curves.csv missing: no dynamic-curve chart")
 	}
 	if p := filepath.Join(r.dir, runfolder.DiagnosticsFile); exists(p) {
-		t, err := ReadTable(p)
+		t, err := readTable(p)
 		if err != nil {
 			return err
 		}

@@ -135,11 +135,11 @@ func (sc Scale) Resolve(values []float64, active []bool) (Scale, error) {
 	return sc, nil
 }
 
-// RobustRange returns the lo and hi quantiles (in [0,1], nearest rank) of
+// robustRange returns the lo and hi quantiles (in [0,1], nearest rank) of
 // the finite values of the active cells, positive ones only when positive
 // is set, and whether any value lies outside that range. ok is false when
 // there is no value.
-func RobustRange(values []float64, active []bool, lo, hi float64, positive bool) (qlo, qhi float64, below, above, ok bool) {
+func robustRange(values []float64, active []bool, lo, hi float64, positive bool) (qlo, qhi float64, below, above, ok bool) {
 	var v []float64
 	for k, x := range values {
 		if active != nil && !active[k] || math.IsNaN(x) || math.IsInf(x, 0) || positive && x <= 0 {
@@ -295,9 +295,9 @@ func niceNumber(x float64, round bool) float64 {
 	return n * p
 }
 
-// LinearTicks returns about n nice tick values inside [lo, hi] and the
+// linearTicks returns about n nice tick values inside [lo, hi] and the
 // tick step (Heckbert 1990, "Nice numbers for graph labels").
-func LinearTicks(lo, hi float64, n int) (ticks []float64, step float64) {
+func linearTicks(lo, hi float64, n int) (ticks []float64, step float64) {
 	if !(hi > lo) || n < 2 {
 		return []float64{lo}, 0
 	}
@@ -312,9 +312,9 @@ func LinearTicks(lo, hi float64, n int) (ticks []float64, step float64) {
 	return ticks, step
 }
 
-// LogTicks returns tick values inside [lo, hi] (lo > 0): the powers of ten,
+// logTicks returns tick values inside [lo, hi] (lo > 0): the powers of ten,
 // with 2 and 5 times them added when fewer than three decades are spanned.
-func LogTicks(lo, hi float64) []float64 {
+func logTicks(lo, hi float64) []float64 {
 	if !(lo > 0) || !(hi > lo) {
 		return []float64{lo}
 	}
@@ -345,7 +345,7 @@ func LogTicks(lo, hi float64) []float64 {
 		}
 	}
 	if len(out) < 2 {
-		lin, _ := LinearTicks(lo, hi, 4)
+		lin, _ := linearTicks(lo, hi, 4)
 		return lin
 	}
 	return out
@@ -418,9 +418,9 @@ func formatLogTick(v float64) string {
 	return strconv.FormatFloat(v, 'g', 3, 64)
 }
 
-// ScaleBarLength returns the longest nice length (1, 2 or 5 times a power
+// scaleBarLength returns the longest nice length (1, 2 or 5 times a power
 // of ten) not above maxLen map units, and the number of segments to draw.
-func ScaleBarLength(maxLen float64) (length float64, segments int) {
+func scaleBarLength(maxLen float64) (length float64, segments int) {
 	if !(maxLen > 0) {
 		return 0, 0
 	}

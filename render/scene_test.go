@@ -27,7 +27,7 @@ func TestLinearTicks(t *testing.T) {
 		{0, 1825, 7, []float64{0, 500, 1000, 1500}, 500},
 	}
 	for _, c := range cases {
-		got, step := LinearTicks(c.lo, c.hi, c.n)
+		got, step := linearTicks(c.lo, c.hi, c.n)
 		if step != c.step || len(got) != len(c.want) {
 			t.Errorf("LinearTicks(%v, %v, %d) = %v step %v, want %v step %v", c.lo, c.hi, c.n, got, step, c.want, c.step)
 			continue
@@ -51,7 +51,7 @@ func TestLogTicks(t *testing.T) {
 		{1, 1e12, []float64{1, 100, 1e4, 1e6, 1e8, 1e10, 1e12}},
 	}
 	for _, c := range cases {
-		got := LogTicks(c.lo, c.hi)
+		got := logTicks(c.lo, c.hi)
 		if len(got) != len(c.want) {
 			t.Errorf("LogTicks(%v, %v) = %v, want %v", c.lo, c.hi, got, c.want)
 			continue
@@ -96,12 +96,12 @@ func TestScaleBarLength(t *testing.T) {
 		{730, 500, 5}, {1999, 1000, 4}, {2000, 2000, 4}, {0.37, 0.2, 4}, {5, 5, 5},
 	}
 	for _, c := range cases {
-		got, seg := ScaleBarLength(c.max)
+		got, seg := scaleBarLength(c.max)
 		if !near(got, c.want, 1e-12) || seg != c.seg {
 			t.Errorf("ScaleBarLength(%v) = %v, %d; want %v, %d", c.max, got, seg, c.want, c.seg)
 		}
 	}
-	if l, s := ScaleBarLength(0); l != 0 || s != 0 {
+	if l, s := scaleBarLength(0); l != 0 || s != 0 {
 		t.Errorf("ScaleBarLength(0) = %v, %d", l, s)
 	}
 }
@@ -186,11 +186,11 @@ func TestRobustRange(t *testing.T) {
 		v[i] = float64(i)
 	}
 	v[100] = 1e9
-	lo, hi, below, above, ok := RobustRange(v, nil, 0.01, 0.99, false)
+	lo, hi, below, above, ok := robustRange(v, nil, 0.01, 0.99, false)
 	if !ok || lo != 1 || hi != 99 || !below || !above {
 		t.Errorf("RobustRange = %v %v %v %v %v", lo, hi, below, above, ok)
 	}
-	if _, _, _, _, ok := RobustRange([]float64{-1, 0}, nil, 0, 1, true); ok {
+	if _, _, _, _, ok := robustRange([]float64{-1, 0}, nil, 0, 1, true); ok {
 		t.Error("no positive value: ok")
 	}
 }

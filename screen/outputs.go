@@ -125,7 +125,7 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 	if err := d.Create("ranking.csv", rk.WriteCSV); err != nil {
 		return nil, err
 	}
-	if err := d.Create("runs.csv", func(w io.Writer) error { return WriteRunsCSV(w, res) }); err != nil {
+	if err := d.Create("runs.csv", func(w io.Writer) error { return writeRunsCSV(w, res) }); err != nil {
 		return nil, err
 	}
 	sum := &Summary{SpecHash: res.Hash, Objective: string(rk.Objective), RankedBy: string(rk.By), Percentile: PercentileConvention,
@@ -249,7 +249,7 @@ func writePictures(d *outdir.Dir, p *Plan, res *Results, rk *Ranking, s OutputSe
 		}
 		if hasNode {
 			logf("pictures: objective map")
-			img, err := ObjectiveMap(p, rk, w, h)
+			img, err := objectiveMap(p, rk, w, h)
 			if err != nil {
 				return nil, err
 			}
@@ -287,7 +287,7 @@ func writePictures(d *outdir.Dir, p *Plan, res *Results, rk *Ranking, s OutputSe
 		if err != nil {
 			return nil, fmt.Errorf("layout %s: %w", row.Candidate, err)
 		}
-		img, err := LayoutMap(p, row, realName, fr, w, h)
+		img, err := layoutMap(p, row, realName, fr, w, h)
 		if err != nil {
 			return nil, err
 		}

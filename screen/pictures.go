@@ -60,14 +60,14 @@ func objectiveLabel(o Objective, m *reservoir.Model) (label, unit string) {
 	return "Cumulative oil", vol + " at the horizon"
 }
 
-// ObjectiveMap draws the objective of each infill node over the base
+// objectiveMap draws the objective of each infill node over the base
 // permeability (grey, log scale): a square per node coloured by the
 // ranking statistic, the three best outlined and numbered, skipped nodes
 // as small hollow squares and failed ones as crosses, with the objective's
 // colour bar, a key of the markers and a small permeability bar in the
 // legend panel. screen hands render the markers and labels
 // (render.DrawFieldOverlay); render draws every pixel.
-func ObjectiveMap(p *Plan, rk *Ranking, w, h int) (*image.RGBA, error) {
+func objectiveMap(p *Plan, rk *Ranking, w, h int) (*image.RGBA, error) {
 	if p.Spec.Infill == nil {
 		return nil, errors.New("screen: the plan has no infill lattice")
 	}
@@ -195,9 +195,9 @@ func medianRun(rec Record, obj Objective, p50 float64) int {
 	return best
 }
 
-// LayoutMap draws a layout or pattern candidate's water saturation at the
+// layoutMap draws a layout or pattern candidate's water saturation at the
 // horizon from a finished run, with its wells.
-func LayoutMap(p *Plan, row Row, realization string, res *flood.Result, w, h int) (*image.RGBA, error) {
+func layoutMap(p *Plan, row Row, realization string, res *flood.Result, w, h int) (*image.RGBA, error) {
 	if len(res.Snapshots) == 0 {
 		return nil, errors.New("screen: the run kept no saturation map")
 	}

@@ -201,10 +201,10 @@ func (p *Plan) add(c Candidate) {
 	p.Candidates = append(p.Candidates, c)
 }
 
-// InfillNodes returns the lattice nodes of spacing (sx, sy) over grid g:
+// infillNodes returns the lattice nodes of spacing (sx, sy) over grid g:
 // the first node half a spacing from the south-west corner, then every
 // spacing while inside the grid; south to north, west to east.
-func InfillNodes(g reservoir.Grid, sx, sy float64) (xs, ys []float64) {
+func infillNodes(g reservoir.Grid, sx, sy float64) (xs, ys []float64) {
 	for y := g.Y0 + sy/2; y < g.Y0+g.Height(); y += sy {
 		ys = append(ys, y)
 	}
@@ -223,7 +223,7 @@ func (p *Plan) addInfill(in Infill) error {
 	if in.Type != reservoir.Injector && in.Type != reservoir.Producer {
 		return fmt.Errorf("screen: infill type %q must be injector or producer", in.Type)
 	}
-	xs, ys := InfillNodes(g, in.Spacing[0], in.Spacing[1])
+	xs, ys := infillNodes(g, in.Spacing[0], in.Spacing[1])
 	if float64(len(xs))*float64(len(ys)) > MaxCandidates {
 		return fmt.Errorf("screen: the infill lattice has %d x %d nodes; at most %d", len(xs), len(ys), MaxCandidates)
 	}

@@ -15,7 +15,7 @@ type Statistic string
 
 // Ranking statistics, in the trade's exceedance convention: P90 is the
 // cautious low case (exceeded with 90% probability, the 10th percentile),
-// P10 the high case (the 90th percentile); see Percentile.
+// P10 the high case (the 90th percentile); see percentile.
 const (
 	Mean Statistic = "mean"
 	P10  Statistic = "p10"
@@ -32,7 +32,7 @@ func ParseStatistic(s string) (Statistic, error) {
 	return "", fmt.Errorf("rank by %q: use mean, p90 (the cautious low case), p50 or p10 (the high case)", s)
 }
 
-// Percentile returns the p-th percentile (0 <= p <= 100) of the values by
+// percentile returns the p-th percentile (0 <= p <= 100) of the values by
 // linear interpolation between order statistics: with the values sorted
 // ascending as x[0..n-1] and h = (n-1)p/100, the result is
 // x[floor h] + (h - floor h)(x[floor h + 1] - x[floor h]) (definition 7 of
@@ -40,7 +40,7 @@ func ParseStatistic(s string) (Statistic, error) {
 // American Statistician 50(4)). So Percentile(v, 10) is the low value
 // exceeded by about 90% of the realizations. +Inf values are allowed; NaN
 // is returned for no values.
-func Percentile(values []float64, p float64) float64 {
+func percentile(values []float64, p float64) float64 {
 	n := len(values)
 	if n == 0 {
 		return math.NaN()
@@ -142,8 +142,8 @@ func Rank(r *Results, by Statistic) *Ranking {
 		row.CumWater /= float64(n)
 		// Exceedance convention (common practice in reserves and resource
 		// reporting): Pxx is exceeded with xx% probability.
-		row.P90, row.P50, row.P10 = Percentile(obs, 10), Percentile(obs, 50), Percentile(obs, 90)
-		row.FirstBreakthrough = Percentile(bts, 50)
+		row.P90, row.P50, row.P10 = percentile(obs, 10), percentile(obs, 50), percentile(obs, 90)
+		row.FirstBreakthrough = percentile(bts, 50)
 		if math.IsInf(row.FirstBreakthrough, 1) || row.FirstBreakthrough > r.Horizon {
 			row.FirstBreakthrough = math.NaN()
 		}
@@ -188,9 +188,9 @@ func (rk *Ranking) WriteCSV(w io.Writer) error {
 	return bw.Flush()
 }
 
-// WriteRunsCSV writes every run of every candidate (runs.csv):
+// writeRunsCSV writes every run of every candidate (runs.csv):
 // candidate,kind,realization,objective,cum_oil,cum_water,cum_injected,value,first_breakthrough_days,error.
-func WriteRunsCSV(w io.Writer, r *Results) error {
+func writeRunsCSV(w io.Writer, r *Results) error {
 	obj := r.Objective
 	if obj == "" {
 		obj = Oil

@@ -155,7 +155,7 @@ func (p *Plan) runOne(ci, ri int, ps pressure.Settings) (out RunOutcome) {
 	if err != nil {
 		return RunOutcome{Realization: name, Error: err.Error()}
 	}
-	out, err = Summarize(res, p.Spec.Economics, p.Candidates[ci].NewWells)
+	out, err = summarize(res, p.Spec.Economics, p.Candidates[ci].NewWells)
 	if err != nil {
 		return RunOutcome{Realization: name, Error: err.Error()}
 	}

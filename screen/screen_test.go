@@ -104,7 +104,7 @@ func fingerprint(t *testing.T, r *Results, by Statistic) string {
 	if err := Rank(r, by).WriteCSV(&b); err != nil {
 		t.Fatal(err)
 	}
-	if err := WriteRunsCSV(&b, r); err != nil {
+	if err := writeRunsCSV(&b, r); err != nil {
 		t.Fatal(err)
 	}
 	return b.String()

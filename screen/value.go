@@ -33,24 +33,24 @@ func (r RunOutcome) Objective(o Objective) float64 {
 	return r.CumOil
 }
 
-// DiscountFactor is (1+rate)^(-t/365.25): the present worth of one unit
+// discountFactor is (1+rate)^(-t/365.25): the present worth of one unit
 // received t days from now at an annual discount rate (end-of-period
 // discounting with a year of 365.25 days; common practice).
-func DiscountFactor(rate, t float64) float64 {
+func discountFactor(rate, t float64) float64 {
 	return math.Pow(1+rate, -t/365.25)
 }
 
-// CashFlow returns the discounted cash flow of a run from its cumulative
+// cashFlow returns the discounted cash flow of a run from its cumulative
 // curves at the report times (days): for each report interval the oil,
 // produced water and injected water of the interval are priced
 //
 //	e.OilPrice*oil - e.WaterCost*water - e.InjectionCost*injected
 //
-// and discounted by DiscountFactor at the end of the interval, and
+// and discounted by discountFactor at the end of the interval, and
 // e.WellCost is subtracted per new well at time 0. A simple discounted
 // cash flow (common practice): no taxes, royalties, operating costs per
 // well or price changes. The slices must have equal lengths.
-func CashFlow(times, cumOil, cumWater, cumInjected []float64, e Economics, newWells int) (float64, error) {
+func cashFlow(times, cumOil, cumWater, cumInjected []float64, e Economics, newWells int) (float64, error) {
 	n := len(times)
 	if len(cumOil) != n || len(cumWater) != n || len(cumInjected) != n {
 		return 0, fmt.Errorf("cash flow: %d times but %d, %d and %d cumulative values", n, len(cumOil), len(cumWater), len(cumInjected))
@@ -62,14 +62,14 @@ func CashFlow(times, cumOil, cumWater, cumInjected []float64, e Economics, newWe
 			return 0, fmt.Errorf("cash flow: report times decrease at %g days", times[k])
 		}
 		net := e.OilPrice*(cumOil[k]-o0) - e.WaterCost*(cumWater[k]-w0) - e.InjectionCost*(cumInjected[k]-i0)
-		v += net * DiscountFactor(e.DiscountRate, times[k])
+		v += net * discountFactor(e.DiscountRate, times[k])
 		t0, o0, w0, i0 = times[k], cumOil[k], cumWater[k], cumInjected[k]
 	}
 	return v, nil
 }
 
-// Summarize reduces a finished run to its outcome.
-func Summarize(r *flood.Result, e Economics, newWells int) (RunOutcome, error) {
+// summarize reduces a finished run to its outcome.
+func summarize(r *flood.Result, e Economics, newWells int) (RunOutcome, error) {
 	n := len(r.Times)
 	if n == 0 || len(r.FieldCumOil) != n || len(r.FieldCumWater) != n || len(r.PVI) != n {
 		return RunOutcome{}, fmt.Errorf("run has %d report times and curves of other lengths", n)
@@ -78,7 +78,7 @@ func Summarize(r *flood.Result, e Economics, newWells int) (RunOutcome, error) {
 	for k := range inj {
 		inj[k] = r.PVI[k] * r.PoreVolume
 	}
-	v, err := CashFlow(r.Times, r.FieldCumOil, r.FieldCumWater, inj, e, newWells)
+	v, err := cashFlow(r.Times, r.FieldCumOil, r.FieldCumWater, inj, e, newWells)
 	if err != nil {
 		return RunOutcome{}, err
 	}

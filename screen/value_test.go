@@ -24,7 +24,7 @@ func TestCashFlowAnnuity(t *testing.T) {
 	}
 	c := 70*oilPerYear - 2*waterPerYear - 1*injPerYear
 	want := c*(1-math.Pow(1+r, -n))/r - 2*3.5e6
-	got, err := CashFlow(times, oil, water, inj, e, 2)
+	got, err := cashFlow(times, oil, water, inj, e, 2)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -33,17 +33,17 @@ func TestCashFlowAnnuity(t *testing.T) {
 	}
 	// Without discounting the cash flow is the plain sum.
 	e.DiscountRate = 0
-	got, _ = CashFlow(times, oil, water, inj, e, 0)
+	got, _ = cashFlow(times, oil, water, inj, e, 0)
 	if want := c * n; math.Abs(got-want) > 1e-9*want {
 		t.Errorf("undiscounted %g, want %g", got, want)
 	}
 	// The report interval does not matter without discounting: one
 	// interval gives the same.
-	got1, _ := CashFlow(times[n-1:], oil[n-1:], water[n-1:], inj[n-1:], e, 0)
+	got1, _ := cashFlow(times[n-1:], oil[n-1:], water[n-1:], inj[n-1:], e, 0)
 	if math.Abs(got1-got) > 1e-9*got {
 		t.Errorf("one interval %g, ten intervals %g", got1, got)
 	}
-	if _, err := CashFlow(times, oil[:3], water, inj, e, 0); err == nil {
+	if _, err := cashFlow(times, oil[:3], water, inj, e, 0); err == nil {
 		t.Error("mismatched lengths accepted")
 	}
 }
@@ -51,7 +51,7 @@ func TestCashFlowAnnuity(t *testing.T) {
 func TestDiscountFactor(t *testing.T) {
 	// One year at 10%: 1/1.1; two years: 1/1.21 (definition).
 	for _, c := range []struct{ r, t, want float64 }{{0.1, 365.25, 1 / 1.1}, {0.1, 730.5, 1 / 1.21}, {0.25, 0, 1}, {0, 1000, 1}} {
-		if got := DiscountFactor(c.r, c.t); math.Abs(got-c.want) > 1e-14 {
+		if got := discountFactor(c.r, c.t); math.Abs(got-c.want) > 1e-14 {
 			t.Errorf("DiscountFactor(%g, %g) = %.15g, want %.15g", c.r, c.t, got, c.want)
 		}
 	}
@@ -76,11 +76,11 @@ func TestPercentile(t *testing.T) {
 		{[]float64{1, math.Inf(1)}, 0, 1},
 		{[]float64{math.Inf(1), math.Inf(1), 3}, 50, math.Inf(1)},
 	} {
-		if got := Percentile(c.v, c.p); math.Abs(got-c.want) > 1e-12 && got != c.want {
+		if got := percentile(c.v, c.p); math.Abs(got-c.want) > 1e-12 && got != c.want {
 			t.Errorf("Percentile(%v, %g) = %g, want %g", c.v, c.p, got, c.want)
 		}
 	}
-	if !math.IsNaN(Percentile(nil, 50)) {
+	if !math.IsNaN(percentile(nil, 50)) {
 		t.Error("percentile of nothing is not NaN")
 	}
 }
@@ -92,7 +92,7 @@ func TestSummarize(t *testing.T) {
 		Producers: []flood.Producer{{Breakthrough: math.NaN()}, {Breakthrough: 400}, {Breakthrough: 250}},
 	}
 	e := Economics{OilPrice: 50, WaterCost: 1, InjectionCost: 0.5, WellCost: 1e5, DiscountRate: 0.1}
-	out, err := Summarize(r, e, 1)
+	out, err := summarize(r, e, 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -109,7 +109,7 @@ func TestSummarize(t *testing.T) {
 		t.Errorf("first breakthrough %v, want 250", out.FirstBreakthrough)
 	}
 	r.FieldCumOil[1] = math.NaN()
-	if _, err := Summarize(r, e, 1); err == nil {
+	if _, err := summarize(r, e, 1); err == nil {
 		t.Error("a NaN result was accepted")
 	}
 }
