@@ -139,20 +139,10 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	if err != nil {
 		return nil, err
 	}
-	m, late := withinRun(m)
-	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
-	if err := ff.Validate(); err != nil {
-		return nil, fmt.Errorf("fractional flow: %w", err)
-	}
-	fl, err := transport.NewFlux(ff)
-	if err != nil {
-		return nil, fmt.Errorf("fractional flow: %w", err)
-	}
-	sched, err := newWellSchedule(m)
+	m, late, ff, fl, sched, sor, err := stepperInputs(m)
 	if err != nil {
 		return nil, err
 	}
-	_, sor := ff.Endpoints()
 	g := &gridRun{book: newBook(m, sched, EngineGrid), s: s, o: o, ff: ff, fl: fl, logf: s.Log, sInj: 1 - sor}
 	if g.logf == nil {
 		g.logf = func(string, ...any) {}

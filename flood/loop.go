@@ -1,9 +1,11 @@
 package flood
 
 import (
+	"fmt"
 	"slices"
 
 	"floodtrace/reservoir"
+	"floodtrace/transport"
 )
 
 // timeline holds the stop times of a run, the one place they are made:
@@ -94,4 +96,24 @@ func drive(e stepper, tl *timeline) error {
 		}
 	}
 	return nil
+}
+
+// stepperInputs sets up what both stepping engines (pressure updates and
+// the grid) take from a case: the case without the events and wells after
+// its end (and the warnings saying so), the fractional flow and its flux
+// table, the well schedule and the residual oil saturation.
+func stepperInputs(m *reservoir.Model) (_ *reservoir.Model, late []string, ff *transport.FracFlow, fl *transport.Flux, sched *WellSchedule, sor float64, err error) {
+	m, late = withinRun(m)
+	ff = transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
+	if err := ff.Validate(); err != nil {
+		return nil, nil, nil, nil, nil, 0, fmt.Errorf("fractional flow: %w", err)
+	}
+	if fl, err = transport.NewFlux(ff); err != nil {
+		return nil, nil, nil, nil, nil, 0, fmt.Errorf("fractional flow: %w", err)
+	}
+	if sched, err = newWellSchedule(m); err != nil {
+		return nil, nil, nil, nil, nil, 0, err
+	}
+	_, sor = ff.Endpoints()
+	return m, late, ff, fl, sched, sor, nil
 }

@@ -199,20 +199,10 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	if s.Workers < 0 {
 		return nil, fmt.Errorf("flood: negative worker count %d", s.Workers)
 	}
-	m, late := withinRun(m)
-	ff := transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
-	if err := ff.Validate(); err != nil {
-		return nil, fmt.Errorf("fractional flow: %w", err)
-	}
-	fl, err := transport.NewFlux(ff)
-	if err != nil {
-		return nil, fmt.Errorf("fractional flow: %w", err)
-	}
-	sched, err := newWellSchedule(m)
+	m, late, ff, fl, sched, sor, err := stepperInputs(m)
 	if err != nil {
 		return nil, err
 	}
-	_, sor := ff.Endpoints()
 	u := &updateRun{book: newBook(m, sched, EngineStreamline), s: s, o: o, ff: ff, fl: fl,
 		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
 		sInj: 1 - sor,
