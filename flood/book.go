@@ -1,7 +1,9 @@
 package flood
 
 import (
+	"fmt"
 	"math"
+	"regexp"
 	"slices"
 
 	"floodtrace/pressure"
@@ -17,6 +19,7 @@ type book struct {
 	r     *Result
 	sched *WellSchedule
 	seen  map[string]bool // warnings already given
+	rep   map[string]*repeatedWarning
 
 	pv, sw    []float64
 	swi       float64
@@ -33,7 +36,7 @@ type book struct {
 }
 
 func newBook(m *reservoir.Model, sched *WellSchedule, engine Engine) book {
-	return book{m: m, sched: sched, seen: map[string]bool{}, swi: m.Fluids.InitialSw,
+	return book{m: m, sched: sched, seen: map[string]bool{}, rep: map[string]*repeatedWarning{}, swi: m.Fluids.InitialSw,
 		r: &Result{Model: m, Engine: engine, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
 			Warnings: append([]string(nil), m.Warnings...)}}
 }
@@ -44,6 +47,34 @@ func (b *book) warn(msg string) {
 		b.seen[msg] = true
 		b.r.Warnings = append(b.r.Warnings, msg)
 	}
+}
+
+// repeatedWarning counts a warning raised at several pressure solves.
+type repeatedWarning struct {
+	idx         int // in Result.Warnings
+	n           int
+	first, last float64
+}
+
+// numberRE matches the numbers of a message that stand alone (after a
+// space, '(', '=', ',' or ':'; not the digits of a well name such as
+// PRD-1), so that messages that differ only in them (a rate, a pressure,
+// a day) count as one warning.
+var numberRE = regexp.MustCompile(`(^|[\s(=,:])-?[0-9][0-9.]*(e[-+]?[0-9]+)?`)
+
+// warnAt adds a warning raised by the pressure solve or the trace at day
+// t. One raised again at later solves (the same words, perhaps other
+// numbers) is given once, the first time's text, and finish adds how many
+// solves raised it and the first and last day.
+func (b *book) warnAt(t float64, msg string) {
+	key := numberRE.ReplaceAllString(msg, "${1}#")
+	if w, ok := b.rep[key]; ok {
+		w.n++
+		w.last = t
+		return
+	}
+	b.rep[key] = &repeatedWarning{idx: len(b.r.Warnings), n: 1, first: t, last: t}
+	b.r.Warnings = append(b.r.Warnings, msg)
 }
 
 // limitFlag marks the injector of model well wi as having reached its
@@ -116,6 +147,11 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 
 // finish fills the field series and the mass balance.
 func (b *book) finish() {
+	for _, w := range b.rep {
+		if w.n > 1 {
+			b.r.Warnings[w.idx] += fmt.Sprintf(" (at %d pressure solves, from day %g to day %g; the first is shown)", w.n, w.first, w.last)
+		}
+	}
 	r := b.r
 	fillField(r)
 	produced := b.otherProduced

@@ -277,7 +277,7 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	r.Iterations += sol.Iterations
 	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
 	for _, w := range sol.Warnings {
-		g.warn(w)
+		g.warnAt(t, w)
 	}
 	if err := checkSolve("grid", sol, t); err != nil {
 		return err

@@ -308,7 +308,7 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 	r.Iterations += sol.Iterations
 	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
 	for _, w := range sol.Warnings {
-		u.warn(w)
+		u.warnAt(t, w)
 	}
 	if err := checkSolve("streamline", sol, t); err != nil {
 		return nil, err
@@ -374,7 +374,7 @@ func (u *updateRun) solveAt(t0 float64) error {
 			return fmt.Errorf("streamlines at day %g: %w", t0, err)
 		}
 		for _, w := range tr.Warnings {
-			u.warn(w)
+			u.warnAt(t0, w)
 		}
 		if !u.firstTraceDone {
 			u.firstTraceDone = true
@@ -393,7 +393,7 @@ func (u *updateRun) solveAt(t0 float64) error {
 			return err
 		}
 	} else {
-		u.warn(fmt.Sprintf("no well flows from day %g: saturations stay as they are", t0))
+		u.warnAt(t0, fmt.Sprintf("no well flows from day %g: saturations stay as they are", t0))
 		u.ls = nil
 	}
 
@@ -480,7 +480,7 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 			P.TracerBreakthrough = t0 + minTau[p]
 		}
 		if u.rate[p] > 0 && lineFlux[p] == 0 {
-			u.warn(fmt.Sprintf("producer %s: no streamline reaches it from day %g; it produces at the water fraction of its cell", P.Name, t0))
+			u.warnAt(t0, fmt.Sprintf("producer %s: no streamline reaches it from day %g; it produces at the water fraction of its cell", P.Name, t0))
 		}
 		P.DrainedVolume = 0
 	}

@@ -1,0 +1,60 @@
+package flood
+
+import (
+	"strings"
+	"testing"
+
+	"floodtrace/reservoir"
+)
+
+// TestWarnAtOnce: a warning raised at several pressure solves, with other
+// numbers each time, is given once with its count and first and last day;
+// warnings of different wells (PRD-1, PRD-2) stay apart.
+func TestWarnAtOnce(t *testing.T) {
+	b := book{r: &Result{}, seen: map[string]bool{}, rep: map[string]*repeatedWarning{}, m: &reservoir.Model{}}
+	b.warnAt(0, "well PRD-1: floor reached, rate now 154.4")
+	b.warnAt(0, "well PRD-2: floor reached, rate now 90")
+	b.warnAt(73, "well PRD-1: floor reached, rate now 150.1")
+	b.warnAt(146, "well PRD-1: floor reached, rate now 149")
+	b.warnAt(146, "no well flows from day 146")
+	b.finish()
+	want := []string{
+		"well PRD-1: floor reached, rate now 154.4 (at 3 pressure solves, from day 0 to day 146; the first is shown)",
+		"well PRD-2: floor reached, rate now 90",
+		"no well flows from day 146",
+	}
+	if len(b.r.Warnings) != len(want) {
+		t.Fatalf("warnings %q", b.r.Warnings)
+	}
+	for i, w := range want {
+		if b.r.Warnings[i] != w {
+			t.Errorf("warning %d: %q, want %q", i, b.r.Warnings[i], w)
+		}
+	}
+}
+
+// TestRepeatedWarningPrintedOnce: a rate producer held at its floor in
+// every one of 5 pressure solves is reported once, with the count.
+func TestRepeatedWarningPrintedOnce(t *testing.T) {
+	m, err := reservoir.Load("../testdata/odd/rate_producer_no_floor/case.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	m.Run.PressureUpdates = 5
+	r, err := Run(m, Settings{Frames: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "default BHP floor") {
+			n++
+			if !strings.Contains(w, "at 5 pressure solves") {
+				t.Errorf("warning without its count: %q", w)
+			}
+		}
+	}
+	if n != 1 {
+		t.Errorf("the floor warning is given %d times: %q", n, r.Warnings)
+	}
+}
