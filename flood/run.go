@@ -272,7 +272,7 @@ func Field(m *reservoir.Model, sol *pressure.Solution) *streamline.Field {
 }
 
 // diagnosticSamples is the number of points of the F-Phi curve in
-// diagnostics.csv.
+// f_phi.csv.
 const diagnosticSamples = 101
 
 // setDiagnostics records the F-Phi curve, Lorenz coefficient and sweep

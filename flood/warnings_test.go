@@ -1,10 +1,14 @@
 package flood
 
 import (
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
+	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 )
 
 // TestWarnAtOnce: a warning raised at several pressure solves, with other
@@ -56,5 +60,42 @@ func TestRepeatedWarningPrintedOnce(t *testing.T) {
 	}
 	if n != 1 {
 		t.Errorf("the floor warning is given %d times: %q", n, r.Warnings)
+	}
+}
+
+// TestDiagnosticFiles: the F-Phi curve and the sweep curve, of different
+// lengths, are written to two files with a header each and no blank cells.
+func TestDiagnosticFiles(t *testing.T) {
+	m := heteroCase(t, 16, 2, 0.4, 0.5, 0.9, 5)
+	r, err := Run(m, Settings{Frames: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	d, err := outdir.Open(dir, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := r.WriteData(d); err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range []struct {
+		name, header string
+		rows         int
+	}{{runfolder.FPhiFile, "phi,F", len(r.Phi)}, {runfolder.SweepFile, "tD,sweep", len(r.TD)}} {
+		b, err := os.ReadFile(filepath.Join(dir, f.name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		lines := strings.Split(strings.TrimSpace(string(b)), "\n")
+		if lines[0] != f.header || len(lines) != f.rows+1 || f.rows < 2 {
+			t.Errorf("%s: header %q, %d rows; want %q and %d", f.name, lines[0], len(lines)-1, f.header, f.rows)
+		}
+		for i, l := range lines[1:] {
+			if c := strings.Split(l, ","); len(c) != 2 || c[0] == "" || c[1] == "" {
+				t.Errorf("%s row %d: %q", f.name, i+1, l)
+				break
+			}
+		}
 	}
 }

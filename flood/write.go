@@ -143,31 +143,28 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 			return err
 		}
 	}
-	if err := d.Create(runfolder.DiagnosticsFile, func(w io.Writer) error {
-		if _, err := io.WriteString(w, runfolder.Header(runfolder.DiagnosticsColumns)); err != nil {
-			return err
-		}
-		n := max(len(r.Phi), len(r.TD))
-		cell := func(buf []byte, s []float64, k int) []byte {
-			if k < len(s) {
-				return runfolder.AppendNum(buf, s[k])
+	// The F-Phi curve and the sweep curve have different lengths: one
+	// file each, each with its own header.
+	pairs := func(name string, cols []string, x, y []float64) error {
+		return d.Create(name, func(w io.Writer) error {
+			if _, err := io.WriteString(w, runfolder.Header(cols)); err != nil {
+				return err
 			}
-			return buf
-		}
-		return runfolder.WriteBands(w, n, 8192, func(lo, hi int, buf []byte) []byte {
-			for k := lo; k < hi; k++ {
-				buf = cell(buf, r.Phi, k)
-				buf = append(buf, ',')
-				buf = cell(buf, r.F, k)
-				buf = append(buf, ',')
-				buf = cell(buf, r.TD, k)
-				buf = append(buf, ',')
-				buf = cell(buf, r.Sweep, k)
-				buf = append(buf, '\n')
-			}
-			return buf
+			return runfolder.WriteBands(w, min(len(x), len(y)), 8192, func(lo, hi int, buf []byte) []byte {
+				for k := lo; k < hi; k++ {
+					buf = runfolder.AppendNum(buf, x[k])
+					buf = append(buf, ',')
+					buf = runfolder.AppendNum(buf, y[k])
+					buf = append(buf, '\n')
+				}
+				return buf
+			})
 		})
-	}); err != nil {
+	}
+	if err := pairs(runfolder.FPhiFile, runfolder.FPhiColumns, r.Phi, r.F); err != nil {
+		return err
+	}
+	if err := pairs(runfolder.SweepFile, runfolder.SweepColumns, r.TD, r.Sweep); err != nil {
 		return err
 	}
 	raster := func(name string, v []float64) error {

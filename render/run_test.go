@@ -225,7 +225,7 @@ func TestRunSizeFormatFrames(t *testing.T) {
 func TestRunPartialFolder(t *testing.T) {
 	dir := outDir(t, "partial")
 	newSynthCase().write(t, dir)
-	for _, f := range []string{"streamlines.geojson", "diagnostics.csv", "producer_partition.asc"} {
+	for _, f := range []string{"streamlines.geojson", "f_phi.csv", "sweep.csv", "producer_partition.asc"} {
 		must(t, os.Remove(filepath.Join(dir, f)))
 	}
 	must(t, os.RemoveAll(filepath.Join(dir, "frames")))
@@ -234,7 +234,7 @@ func TestRunPartialFolder(t *testing.T) {
 		t.Fatal(err)
 	}
 	notes := strings.Join(rep.Notes, "\n")
-	for _, w := range []string{"streamlines.geojson", "diagnostics.csv", "producer_partition.asc"} {
+	for _, w := range []string{"streamlines.geojson", "f_phi.csv", "sweep.csv", "producer_partition.asc"} {
 		if !strings.Contains(notes, w) {
 			t.Errorf("notes lack %s: %v", w, rep.Notes)
 		}

@@ -133,7 +133,7 @@ func (r *run) drawCharts() error {
 	} else {
 		r.rep.note("effective_curves.csv missing: no dynamic-curve chart")
 	}
-	if p := filepath.Join(r.dir, runfolder.DiagnosticsFile); exists(p) {
+	if p := filepath.Join(r.dir, runfolder.FPhiFile); exists(p) {
 		t, err := readTable(p)
 		if err != nil {
 			return err
@@ -141,12 +141,10 @@ func (r *run) drawCharts() error {
 		if err := t.need(p, "phi", "f"); err != nil {
 			return err
 		}
-		var phi, F, tD, sw []float64
+		var phi, F []float64
 		for i := range t.Rows {
 			phi = append(phi, t.Num(i, "phi"))
 			F = append(F, t.Num(i, "f"))
-			tD = append(tD, t.Num(i, "td"))
-			sw = append(sw, t.Num(i, "sweep"))
 		}
 		lc := runfolder.Value(r.sum.LorenzCoefficient)
 		name := "F–Φ curve"
@@ -161,6 +159,22 @@ func (r *run) drawCharts() error {
 			"F–Φ curve: the fraction of flow carried by the fastest fraction of the pore volume; the Lorenz coefficient is twice the area between the curve and the diagonal."); err != nil {
 			return err
 		}
+	} else {
+		r.rep.note(runfolder.FPhiFile + " missing: no F-Phi chart")
+	}
+	if p := filepath.Join(r.dir, runfolder.SweepFile); exists(p) {
+		t, err := readTable(p)
+		if err != nil {
+			return err
+		}
+		if err := t.need(p, "td", "sweep"); err != nil {
+			return err
+		}
+		var tD, sw []float64
+		for i := range t.Rows {
+			tD = append(tD, t.Num(i, "td"))
+			sw = append(sw, t.Num(i, "sweep"))
+		}
 		if len(cleanXY(tD, sw)) > 1 {
 			if err := r.chart("sweep", Chart{Title: "Sweep efficiency against dimensionless time", Subtitle: title,
 				XLabel: "Dimensionless time tD (pore volumes)", YLabel: "Sweep efficiency (fraction)", LegendTitle: "Curve",
@@ -170,7 +184,7 @@ func (r *run) drawCharts() error {
 			}
 		}
 	} else {
-		r.rep.note("diagnostics.csv missing: no F-Phi chart")
+		r.rep.note(runfolder.SweepFile + " missing: no sweep chart")
 	}
 	return nil
 }

@@ -220,15 +220,18 @@ func (c synthCase) write(t testing.TB, dir string) {
 	must(t, os.WriteFile(filepath.Join(dir, "allocation.csv"), []byte(
 		"injector,producer,rate,fraction_of_injector,fraction_of_producer,pore_volume\n"+
 			"I-1,P-1,780,0.52,1,610000\nI-1,P-2,720,0.48,1,590000\n"), 0o644))
-	var diag strings.Builder
-	diag.WriteString("phi,F,tD,sweep\n")
+	var fphi, sweep strings.Builder
+	fphi.WriteString("phi,F\n")
+	sweep.WriteString("tD,sweep\n")
 	for n := 0; n <= 100; n++ {
 		phi := float64(n) / 100
 		F := 1 - math.Pow(1-phi, 2.2)
 		tD := 2 * phi
-		fmt.Fprintf(&diag, "%.4f,%.6f,%.4f,%.6f\n", phi, F, tD, math.Min(1, 0.72*math.Sqrt(tD+1e-12)+0.1*tD))
+		fmt.Fprintf(&fphi, "%.4f,%.6f\n", phi, F)
+		fmt.Fprintf(&sweep, "%.4f,%.6f\n", tD, math.Min(1, 0.72*math.Sqrt(tD+1e-12)+0.1*tD))
 	}
-	must(t, os.WriteFile(filepath.Join(dir, "diagnostics.csv"), []byte(diag.String()), 0o644))
+	must(t, os.WriteFile(filepath.Join(dir, "f_phi.csv"), []byte(fphi.String()), 0o644))
+	must(t, os.WriteFile(filepath.Join(dir, "sweep.csv"), []byte(sweep.String()), 0o644))
 
 	// summary.json
 	ix0, iy0 := c.wellXY(c.inj)

@@ -14,7 +14,8 @@ const (
 	FieldFile           = "field.csv"
 	AllocationFile      = "allocation.csv"
 	EffectiveCurvesFile = "effective_curves.csv"
-	DiagnosticsFile     = "diagnostics.csv"
+	FPhiFile            = "f_phi.csv"
+	SweepFile           = "sweep.csv"
 	PressureFile        = "pressure.asc"
 	TOFFile             = "tof.asc"
 	ProducerTOFFile     = "tof_producers.asc"
@@ -65,7 +66,8 @@ var (
 	FieldColumns           = []string{ColTime, ColPVI, ColWaterCut, ColOilRate, ColWaterRate, ColCumOil, ColCumWater, ColRecoveryFactor}
 	AllocationColumns      = []string{ColInjector, ColProducer, ColRate, ColFractionOfInjector, ColFractionOfProducer, ColPoreVolume}
 	EffectiveCurvesColumns = []string{ColTime, ColWell, ColAvgWaterSaturation, ColWaterCut}
-	DiagnosticsColumns     = []string{ColPhi, ColF, ColTD, ColSweep}
+	FPhiColumns            = []string{ColPhi, ColF}
+	SweepColumns           = []string{ColTD, ColSweep}
 )
 
 // Header returns the header line of a CSV file with the given columns.
