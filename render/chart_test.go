@@ -105,3 +105,42 @@ func TestSeriesStylesDistinct(t *testing.T) {
 		seen[key] = i
 	}
 }
+
+// TestSweepRange: the sweep chart's axis ends where the curve carries
+// information, read from a curve shaped like a run's (fast rise, then a
+// creep over thousands of pore volumes).
+func TestSweepRange(t *testing.T) {
+	var tD, sw []float64
+	for x := 0.0; x < 20000; x = x*1.1 + 0.01 {
+		tD = append(tD, x)
+		sw = append(sw, 1-0.5*math.Exp(-x)-0.3/(1+x/50))
+	}
+	tD = append(tD, 20000)
+	sw = append(sw, 1)
+	for _, c := range []struct {
+		end, want float64
+	}{
+		{0.94, 5.94}, // creeping curve: 5 pore volumes past the end
+		{0, 0},       // no end given: where it settles (checked below)
+		{30000, 20000},
+	} {
+		got := sweepRange(tD, sw, c.end)
+		if c.end == 0 {
+			k := 0
+			for sw[len(sw)-1]-sw[k] > 0.02 {
+				k++
+			}
+			c.want = tD[k]
+		}
+		if math.Abs(got-c.want) > 1e-9 {
+			t.Errorf("end %g: axis to %g, want %g", c.end, got, c.want)
+		}
+	}
+	// A curve that settles early ends the axis at twice the run's end.
+	if got := sweepRange([]float64{0, 0.5, 1, 100}, []float64{0, 0.99, 1, 1}, 2); got != 4 {
+		t.Errorf("settled curve: axis to %g, want 4", got)
+	}
+	if got := sweepRange(nil, nil, 1); got != 0 {
+		t.Errorf("no data: %g", got)
+	}
+}

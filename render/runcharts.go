@@ -176,10 +176,16 @@ func (r *run) drawCharts() error {
 			sw = append(sw, t.Num(i, "sweep"))
 		}
 		if len(cleanXY(tD, sw)) > 1 {
+			end := float64(r.sum.Field.FinalPVI)
+			series := []Series{{Name: "Sweep efficiency", X: tD, Y: sw}}
+			if end > 0 {
+				series = append(series, Series{Name: fmt.Sprintf("End of the run (%s PV injected)", FormatNumber(end, 2)),
+					X: []float64{end, end}, Y: []float64{0, 1}, Reference: true})
+			}
 			if err := r.chart("sweep", Chart{Title: "Sweep efficiency against dimensionless time", Subtitle: title,
 				XLabel: "Dimensionless time tD (pore volumes)", YLabel: "Sweep efficiency (fraction)", LegendTitle: "Curve",
-				Series: []Series{{Name: "Sweep efficiency", X: tD, Y: sw}}, YMin: 0, YMax: 1},
-				"Volumetric sweep efficiency from the time-of-flight distribution against dimensionless time."); err != nil {
+				Series: series, XMin: 0, XMax: sweepRange(tD, sw, end), YMin: 0, YMax: 1},
+				"Volumetric sweep efficiency from the time-of-flight distribution against dimensionless time, up to a few pore volumes past the end of the run (the curve creeps on for thousands of pore volumes through nearly stagnant cells)."); err != nil {
 				return err
 			}
 		}
@@ -187,4 +193,31 @@ func (r *run) drawCharts() error {
 		r.rep.note(runfolder.SweepFile + " missing: no sweep chart")
 	}
 	return nil
+}
+
+// sweepRange is the end of the sweep chart's time axis: the range that
+// carries information. The time-of-flight sweep curve creeps on for
+// thousands of pore volumes through nearly stagnant cells, which would
+// squash the part that matters against the axis. The axis ends where the
+// sweep comes within 0.02 of its final value, but no later than 5 pore
+// volumes past the end of the run (end, in pore volumes injected) and no
+// earlier than twice it; never past the data.
+func sweepRange(tD, sw []float64, end float64) float64 {
+	n := min(len(tD), len(sw))
+	if n == 0 {
+		return 0
+	}
+	last, final := tD[n-1], sw[n-1]
+	settle := last
+	for k := range n {
+		if final-sw[k] <= 0.02 {
+			settle = tD[k]
+			break
+		}
+	}
+	x := settle
+	if end > 0 {
+		x = min(max(settle, 2*end), end+5)
+	}
+	return min(x, last)
 }
