@@ -119,3 +119,17 @@ const (
 	FramesAuto = 0
 	FramesNone = -1
 )
+
+// IsPicture reports whether the run-folder file rel (slash-separated) is
+// one render draws: a map or chart picture, the animation or the report.
+// A redraw replaces exactly these.
+func IsPicture(rel string) bool {
+	if rel == AnimationFile || rel == ReportFile {
+		return true
+	}
+	dir, name, ok := strings.Cut(rel, "/")
+	if !ok || (dir != MapsDir && dir != ChartsDir) {
+		return false
+	}
+	return strings.HasSuffix(name, ".png") || strings.HasSuffix(name, ".svg")
+}

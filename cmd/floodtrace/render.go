@@ -54,11 +54,14 @@ func runRender(args []string) error {
 		return err
 	}
 	// Reopen the folder so the manifest lists the new pictures and the
-	// run's own files are kept.
+	// run's own files are kept; the old pictures not drawn again (another
+	// size or format) are removed when it closes, so the folder never
+	// holds a mix.
 	d, err := outdir.Reopen(dir)
 	if err != nil {
 		return err
 	}
+	d.Redraw(runfolder.IsPicture)
 	rep, err := render.Run(dir, render.Options{Width: w, Height: h, Format: renderFlags.format, Frames: int(renderFlags.frames)})
 	if err != nil {
 		return err

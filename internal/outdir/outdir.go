@@ -136,6 +136,18 @@ func (d *Dir) KeepAll() {
 	}
 }
 
+// Redraw marks the files of the previous manifest for which drawn is
+// true as not written, so Close removes those the new set does not write
+// again: a redraw replaces the set of pictures instead of leaving the old
+// size or format beside the new one.
+func (d *Dir) Redraw(drawn func(rel string) bool) {
+	for r := range d.old {
+		if drawn(r) {
+			delete(d.written, r)
+		}
+	}
+}
+
 // Close removes files of the previous run that this run did not write
 // again (they were floodtrace's own) and writes the new manifest.
 func (d *Dir) Close() error {
