@@ -26,7 +26,29 @@ type ProducerCurve struct {
 // (summary.json).
 type RunCurves struct {
 	Dir, Title, Engine string
-	Producers          []ProducerCurve
+	// Setup names the engine and its settings for people (EngineSetup).
+	Setup     string
+	Producers []ProducerCurve
+}
+
+// EngineSetup names a run's engine and its settings: "fixed streamlines
+// (2000 lines, 1 pressure solve)", "streamlines with pressure updates (2000
+// lines, 5 pressure solves)" or "grid engine (IMPES, 412 pressure solves)".
+func EngineSetup(s *Summary) string {
+	solves := s.PressureSolver.Solves
+	plural := func(n int, what string) string {
+		if n == 1 {
+			return fmt.Sprintf("1 %s", what)
+		}
+		return fmt.Sprintf("%d %ss", n, what)
+	}
+	switch {
+	case s.Engine == "grid":
+		return fmt.Sprintf("grid engine (IMPES, %s)", plural(solves, "pressure solve"))
+	case solves > 1:
+		return fmt.Sprintf("streamlines with pressure updates (%d lines, %s)", s.Streamlines, plural(solves, "pressure solve"))
+	}
+	return fmt.Sprintf("fixed streamlines (%d lines, %s)", s.Streamlines, plural(max(solves, 1), "pressure solve"))
 }
 
 // ReadRunCurves reads summary.json and producers.csv from the run folder
@@ -37,7 +59,7 @@ func ReadRunCurves(dir string) (*RunCurves, error) {
 	if err != nil {
 		return nil, err
 	}
-	rc := &RunCurves{Dir: dir, Title: sum.Title, Engine: sum.Engine}
+	rc := &RunCurves{Dir: dir, Title: sum.Title, Engine: sum.Engine, Setup: EngineSetup(sum)}
 	if rc.Engine == "" {
 		rc.Engine = "streamline"
 	}

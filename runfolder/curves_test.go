@@ -40,3 +40,23 @@ func TestCompareBadFolders(t *testing.T) {
 		}
 	}
 }
+
+// TestEngineSetup: each side of a comparison names its engine and
+// settings, so a run with pressure updates is not called fixed.
+func TestEngineSetup(t *testing.T) {
+	for _, c := range []struct {
+		engine       string
+		lines, solve int
+		want         string
+	}{
+		{"streamline", 2000, 1, "fixed streamlines (2000 lines, 1 pressure solve)"},
+		{"streamline", 2000, 5, "streamlines with pressure updates (2000 lines, 5 pressure solves)"},
+		{"", 800, 0, "fixed streamlines (800 lines, 1 pressure solve)"},
+		{"grid", 2000, 185, "grid engine (IMPES, 185 pressure solves)"},
+	} {
+		s := &Summary{Engine: c.engine, Streamlines: c.lines, PressureSolver: Solver{Solves: c.solve}}
+		if got := EngineSetup(s); got != c.want {
+			t.Errorf("%+v: %q, want %q", c, got, c.want)
+		}
+	}
+}

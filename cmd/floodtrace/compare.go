@@ -90,8 +90,8 @@ func runCompare(args []string) error {
 }
 
 func printComparison(w io.Writer, c *flood.Comparison) {
-	fmt.Fprintf(w, "A: %s (%s engine) %s\n", c.A.Dir, c.A.Engine, c.A.Title)
-	fmt.Fprintf(w, "B: %s (%s engine) %s\n\n", c.B.Dir, c.B.Engine, c.B.Title)
+	fmt.Fprintf(w, "A: %s: %s, %s\n", c.A.Dir, c.A.Title, c.A.Setup)
+	fmt.Fprintf(w, "B: %s: %s, %s\n\n", c.B.Dir, c.B.Title, c.B.Setup)
 	fmt.Fprintf(w, "%-12s %11s %7s %11s %11s %9s\n", "producer", "RMS water", "points", "water BT A", "water BT B", "BT B - A")
 	fmt.Fprintf(w, "%-12s %11s %7s %11s %11s %9s\n", "", "cut diff", "", "days", "days", "days")
 	for _, p := range c.Producers {
@@ -131,5 +131,6 @@ func comparisonChart(c *flood.Comparison) render.Chart {
 }
 
 func label(rc *runfolder.RunCurves) string {
-	return fmt.Sprintf("%s [%s]", filepath.Base(filepath.Clean(rc.Dir)), rc.Engine)
+	engine, _, _ := strings.Cut(rc.Setup, " (")
+	return fmt.Sprintf("%s [%s]", filepath.Base(filepath.Clean(rc.Dir)), engine)
 }
