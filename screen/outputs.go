@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"regexp"
 	"sort"
 	"strings"
 
@@ -80,10 +81,50 @@ type FailedSummary struct {
 	Errors    []string `json:"errors"`
 }
 
-// WarningCount is a run warning and the number of runs that gave it.
+// WarningCount is one kind of run warning: the same words with other
+// numbers or well names (digits masked), the first message of the kind as
+// its example, how many runs gave it, and the candidates that did.
 type WarningCount struct {
-	Message string `json:"message"`
-	Runs    int    `json:"runs"`
+	Message    string   `json:"message"`
+	Runs       int      `json:"runs"`
+	Candidates []string `json:"candidates"`
+	// CandidatesMore counts candidates beyond the first 50 listed.
+	CandidatesMore int `json:"candidates_more,omitempty"`
+}
+
+// digitsRE masks the digits of a warning for its kind.
+var digitsRE = regexp.MustCompile(`[0-9]+(\.[0-9]+)?(e[-+]?[0-9]+)?`)
+
+// warningKinds counts the run warnings of the results by kind (see
+// WarningCount), in candidate order; most frequent first.
+func warningKinds(res *Results) []WarningCount {
+	idx := map[string]int{}
+	var out []WarningCount
+	for _, r := range res.Records {
+		seen := map[string]bool{}
+		for _, run := range r.Runs {
+			for _, w := range run.Warnings {
+				key := digitsRE.ReplaceAllString(w, "#")
+				k, ok := idx[key]
+				if !ok {
+					k = len(out)
+					idx[key] = k
+					out = append(out, WarningCount{Message: w, Candidates: []string{}})
+				}
+				out[k].Runs++
+				if !seen[key] {
+					seen[key] = true
+					if len(out[k].Candidates) < 50 {
+						out[k].Candidates = append(out[k].Candidates, r.Candidate)
+					} else {
+						out[k].CandidatesMore++
+					}
+				}
+			}
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].Runs > out[b].Runs })
+	return out
 }
 
 // PercentileConvention states the meaning of P10/P50/P90 in the outputs.
@@ -163,24 +204,15 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 			sum.Missing = append(sum.Missing, fmt.Sprintf("#%d", i))
 		}
 	}
-	// Warnings, counted over runs.
-	wc := map[string]int{}
-	for _, r := range res.Records {
-		for _, run := range r.Runs {
-			for _, w := range run.Warnings {
-				wc[w]++
-			}
+	// Warnings, counted by kind over the runs, printed and kept.
+	sum.Warnings = warningKinds(res)
+	for i, w := range sum.Warnings {
+		if i == 10 {
+			logf("warnings: %d more kind(s) in screen.json", len(sum.Warnings)-10)
+			break
 		}
+		logf("warning (%d run(s), %d candidate(s)): %s", w.Runs, len(w.Candidates)+w.CandidatesMore, w.Message)
 	}
-	for m, n := range wc {
-		sum.Warnings = append(sum.Warnings, WarningCount{m, n})
-	}
-	sort.Slice(sum.Warnings, func(a, b int) bool {
-		if sum.Warnings[a].Runs != sum.Warnings[b].Runs {
-			return sum.Warnings[a].Runs > sum.Warnings[b].Runs
-		}
-		return sum.Warnings[a].Message < sum.Warnings[b].Message
-	})
 	if len(sum.Warnings) > 50 {
 		sum.Warnings = sum.Warnings[:50]
 	}

@@ -126,3 +126,23 @@ wells:
 		})
 	}
 }
+
+// TestWarningKinds: run warnings that differ only in numbers or well
+// names count as one kind, with the candidates that raised them.
+func TestWarningKinds(t *testing.T) {
+	res := &Results{Records: []Record{
+		{Candidate: "node-1-1", Runs: []RunOutcome{{Warnings: []string{"injector node-1-1 reached its max_bhp 4200", "a fault crosses cell (3, 4)"}}}},
+		{Candidate: "node-2-1", Runs: []RunOutcome{{Warnings: []string{"injector node-2-1 reached its max_bhp 4200"}}, {Warnings: []string{"injector node-2-1 reached its max_bhp 4200"}}}},
+		{Candidate: "pair", Runs: []RunOutcome{{}}},
+	}}
+	got := warningKinds(res)
+	if len(got) != 2 {
+		t.Fatalf("kinds %+v", got)
+	}
+	if w := got[0]; w.Runs != 3 || w.Message != "injector node-1-1 reached its max_bhp 4200" || strings.Join(w.Candidates, ",") != "node-1-1,node-2-1" {
+		t.Errorf("first kind %+v", w)
+	}
+	if w := got[1]; w.Runs != 1 || strings.Join(w.Candidates, ",") != "node-1-1" {
+		t.Errorf("second kind %+v", w)
+	}
+}
