@@ -1,6 +1,7 @@
 package flood
 
 import (
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -97,5 +98,38 @@ func TestDiagnosticFiles(t *testing.T) {
 				break
 			}
 		}
+	}
+}
+
+// TestWellRates: each row of wells.csv splits the liquid rate into oil and
+// water (they add up), and the end-of-run rows carry the last report's
+// producer rates.
+func TestWellRates(t *testing.T) {
+	m := heteroCase(t, 16, 2, 0.4, 0.5, 0.9, 5)
+	r, err := Run(m, Settings{Frames: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := r.WellRates()
+	nEnd := 0
+	for _, x := range rows {
+		if math.Abs(x.Oil+x.Water-x.Rate) > 1e-9*math.Max(1, x.Rate) || x.Oil < 0 || x.Water < 0 {
+			t.Errorf("%s at %g: oil %g + water %g != liquid %g", x.Well, x.Time, x.Oil, x.Water, x.Rate)
+		}
+		if !x.End {
+			continue
+		}
+		nEnd++
+		if x.Time != r.Times[len(r.Times)-1] {
+			t.Errorf("%s: end row at %g", x.Well, x.Time)
+		}
+		for _, p := range r.Producers {
+			if p.Name == x.Well && (x.Oil != p.OilRate[len(p.OilRate)-1] || x.Water != p.WaterRate[len(p.WaterRate)-1]) {
+				t.Errorf("%s: end rates %g, %g; last report %g, %g", x.Well, x.Oil, x.Water, p.OilRate[len(p.OilRate)-1], p.WaterRate[len(p.WaterRate)-1])
+			}
+		}
+	}
+	if nEnd != len(m.Wells) {
+		t.Errorf("%d end rows for %d wells", nEnd, len(m.Wells))
 	}
 }

@@ -92,8 +92,9 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	}
 	if err := csv(runfolder.WellsFile, func(w *bufio.Writer) {
 		w.WriteString(runfolder.Header(runfolder.WellsColumns))
-		for _, x := range r.WellLog {
-			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s\n", runfolder.Num(x.Time), x.Well, x.Type, x.Control, runfolder.Num(x.Rate), runfolder.Num(x.BHP))
+		for _, x := range r.WellRates() {
+			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", runfolder.Num(x.Time), x.Well, x.Type, x.Control, runfolder.Num(x.Rate),
+				runfolder.Num(x.Oil), runfolder.Num(x.Water), runfolder.Num(x.BHP))
 		}
 	}); err != nil {
 		return err

@@ -166,7 +166,11 @@ func (r *run) report() error {
 			Cell: fmt.Sprintf("%d, %d", w.I, w.J), Control: "–", Rate: "–", BHP: "–", CumOil: "–", CumWater: "–"}
 		if i, ok := last[w.Name]; ok && wt != nil {
 			row.Control = nonEmpty(wt.Str(i, "control"), "–")
-			row.Rate = fmtNum(wt.Num(i, "rate"), 0)
+			rate := wt.Num(i, runfolder.ColLiquidRate)
+			if math.IsNaN(rate) {
+				rate = wt.Num(i, runfolder.ColRate) // a run folder of an earlier version
+			}
+			row.Rate = fmtNum(rate, 0)
 			row.BHP = fmtNum(wt.Num(i, "bhp"), 0)
 		}
 		if i, ok := prod[w.Name]; ok {

@@ -40,6 +40,7 @@ const (
 	ColType               = "type"
 	ColControl            = "control"
 	ColRate               = "rate"
+	ColLiquidRate         = "liquid_rate"
 	ColBHP                = "bhp"
 	ColWaterCut           = "water_cut"
 	ColOilRate            = "oil_rate"
@@ -61,7 +62,7 @@ const (
 
 // The column headers of the CSV files, in file order.
 var (
-	WellsColumns           = []string{ColTime, ColWell, ColType, ColControl, ColRate, ColBHP}
+	WellsColumns           = []string{ColTime, ColWell, ColType, ColControl, ColLiquidRate, ColOilRate, ColWaterRate, ColBHP}
 	ProducersColumns       = []string{ColTime, ColPVI, ColWell, ColWaterCut, ColOilRate, ColWaterRate, ColCumOil, ColCumWater}
 	FieldColumns           = []string{ColTime, ColPVI, ColWaterCut, ColOilRate, ColWaterRate, ColCumOil, ColCumWater, ColRecoveryFactor}
 	AllocationColumns      = []string{ColInjector, ColProducer, ColRate, ColFractionOfInjector, ColFractionOfProducer, ColPoreVolume}

@@ -193,6 +193,14 @@ func printRunSummary(r *flood.Result) {
 	}
 	fmt.Fprintf(stdout, "field recovery %.1f%% of OOIP, water cut %.3f, Lorenz coefficient %s, mass balance error %.1e\n",
 		100*r.RecoveryFactor[last], r.FieldWaterCut[last], lorenz, r.MassBalanceError)
+	_, _, _, _, pres, _ := r.Model.Units.Labels()
+	fmt.Fprintf(stdout, "\nwells at the end of the run (day %g); rates in %s, reservoir volumes\n", r.Times[last], rate)
+	fmt.Fprintf(stdout, "%-10s %-9s %-8s %12s %12s %12s %10s\n", "well", "type", "control", "liquid rate", "oil rate", "water rate", "BHP "+pres)
+	for _, x := range r.WellRates() {
+		if x.End {
+			fmt.Fprintf(stdout, "%-10s %-9s %-8s %12.1f %12.1f %12.1f %10.1f\n", x.Well, x.Type, x.Control, x.Rate, x.Oil, x.Water, x.BHP)
+		}
+	}
 	for _, in := range r.Injectors {
 		if in.MaxBHPReached && in.Rate == 0 && in.CumWater == 0 {
 			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and injects nothing: the limit is below the pressure it must overcome (see the warnings)\n", in.Name)
