@@ -347,6 +347,7 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	if err != nil {
 		return fmt.Errorf("streamlines at day %g: %w", t, err)
 	}
+	r.Allocation = append(r.Allocation, AllocationBlock{Time: t, Pairs: tr.Pairs, PoreVolumes: tr.PairVolumes(ls.seg)})
 	for p := range r.Producers {
 		P := &r.Producers[p]
 		P.DrainedVolume = 0

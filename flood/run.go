@@ -100,6 +100,11 @@ type Result struct {
 	// PairVolumes are the pore volumes of Trace.Pairs (same order) from the
 	// rescaled time of flight (streamline.Result.PairVolumes).
 	PairVolumes []float64
+	// Allocation holds the well-pair allocation of every set of
+	// streamlines the run traced: one block per pressure solve that was
+	// traced (and per schedule event), in time order; a fixed-streamline
+	// run has one block, at day 0.
+	Allocation []AllocationBlock
 	// Times are the report times in days and PVI the pore volumes
 	// injected at each.
 	Times, PVI []float64
@@ -232,6 +237,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		return nil, err
 	}
 	r.PairVolumes = tr.PairVolumes(lines.seg)
+	r.Allocation = append(r.Allocation, AllocationBlock{Time: 0, Pairs: tr.Pairs, PoreVolumes: r.PairVolumes})
 	// The cell lists now live in lines; drop the tracer's copies.
 	tr.ReleaseCells()
 	if lines.uncovered > 0 {
@@ -280,4 +286,14 @@ const diagnosticSamples = 101
 func (r *Result) setDiagnostics(tr *streamline.Result, pv []float64) {
 	d := tr.Diagnostics(pv, diagnosticSamples)
 	r.Phi, r.F, r.TD, r.Sweep, r.Lorenz = d.Phi, d.F, d.TD, d.Ev, d.Lorenz
+}
+
+// AllocationBlock is the well-pair allocation of one set of streamlines:
+// the day of the pressure solve they were traced on, the pairs
+// (streamline.Pair: rates and fractions) and their pore volumes from the
+// rescaled time of flight (same order).
+type AllocationBlock struct {
+	Time        float64
+	Pairs       []streamline.Pair
+	PoreVolumes []float64
 }

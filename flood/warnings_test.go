@@ -133,3 +133,34 @@ func TestWellRates(t *testing.T) {
 		t.Errorf("%d end rows for %d wells", nEnd, len(m.Wells))
 	}
 }
+
+// TestAllocationPerSolve: with pressure updates, the allocation has one
+// block per traced solve, at the solve's day, each block's pair pore
+// volumes no more than the field's.
+func TestAllocationPerSolve(t *testing.T) {
+	m := heteroCase(t, 16, 2, 0.4, 0.5, 0.9, 5)
+	m.Run.PressureUpdates = 3
+	r, err := Run(m, Settings{Frames: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Allocation) != 3 || r.Allocation[0].Time != 0 {
+		t.Fatalf("%d allocation blocks (first at %v), want 3 from day 0", len(r.Allocation), r.Allocation)
+	}
+	total := m.TotalPoreVolume()
+	for k, b := range r.Allocation {
+		if k > 0 && !(b.Time > r.Allocation[k-1].Time) {
+			t.Errorf("block %d at day %g is not after the one before", k, b.Time)
+		}
+		sum := 0.0
+		for _, v := range b.PoreVolumes {
+			sum += v
+		}
+		if len(b.Pairs) == 0 || sum > total*(1+1e-9) {
+			t.Errorf("block %d: %d pairs, pore volume %g of %g", k, len(b.Pairs), sum, total)
+		}
+	}
+	if fixed, err := Run(heteroCase(t, 16, 2, 0.4, 0.5, 0.9, 5), Settings{Frames: -1}); err != nil || len(fixed.Allocation) != 1 {
+		t.Errorf("fixed streamlines: %v, %d blocks, want 1", err, len(fixed.Allocation))
+	}
+}

@@ -132,13 +132,15 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	if r.Trace != nil {
 		if err := csv(runfolder.AllocationFile, func(w *bufio.Writer) {
 			w.WriteString(runfolder.Header(runfolder.AllocationColumns))
-			for k, p := range r.Trace.Pairs {
-				pv := p.PoreVolume
-				if k < len(r.PairVolumes) {
-					pv = r.PairVolumes[k]
+			for _, b := range r.Allocation {
+				for k, p := range b.Pairs {
+					pv := p.PoreVolume
+					if k < len(b.PoreVolumes) {
+						pv = b.PoreVolumes[k]
+					}
+					fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s\n", runfolder.Num(b.Time), m.Wells[p.Injector].Name, m.Wells[p.Producer].Name, runfolder.Num(p.Rate),
+						runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(pv))
 				}
-				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s\n", m.Wells[p.Injector].Name, m.Wells[p.Producer].Name, runfolder.Num(p.Rate),
-					runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(pv))
 			}
 		}); err != nil {
 			return err

@@ -48,6 +48,7 @@ type reportData struct {
 	Notes          []string
 	Source         string
 	HasAllocation  bool
+	AllocationNote string // which pressure solve the table is from
 	HasBreakthough bool
 }
 
@@ -194,7 +195,22 @@ func (r *run) report() error {
 		if err != nil {
 			return err
 		}
+		// One block per traced pressure solve: the table shows the last,
+		// the allocation in force at the end of the run.
+		last, blocks := math.Inf(-1), map[float64]bool{}
 		for i := range t.Rows {
+			if v := t.Num(i, runfolder.ColTime); !math.IsNaN(v) {
+				last = math.Max(last, v)
+				blocks[v] = true
+			}
+		}
+		if len(blocks) > 1 {
+			d.AllocationNote = fmt.Sprintf("From the streamlines of the pressure solve of day %s, the last of %d traced solves (allocation.csv has every one).", trimNum(last), len(blocks))
+		}
+		for i := range t.Rows {
+			if v := t.Num(i, runfolder.ColTime); len(blocks) > 1 && v != last {
+				continue
+			}
 			d.Allocation = append(d.Allocation, allocRow{t.Str(i, "injector"), t.Str(i, "producer"),
 				fmtNum(t.Num(i, "rate"), 0), fmtPct(t.Num(i, "fraction_of_injector")),
 				fmtPct(t.Num(i, "fraction_of_producer")), fmtNum(t.Num(i, "pore_volume"), 0)})
@@ -329,6 +345,7 @@ footer { color: var(--soft); font-size: 12.5px; margin-top: 26px; }
 {{if .HasAllocation}}
 <section id="allocation">
 <h2>Well-pair allocation</h2>
+{{if .AllocationNote}}<p>{{.AllocationNote}}</p>{{end}}
 <table>
 <tr><th>Injector</th><th>Producer</th><th class="n">Rate ({{.RateUnit}})</th><th class="n">Share of injector</th><th class="n">Share of producer</th><th class="n">Pore volume ({{.VolUnit}})</th></tr>
 {{range .Allocation}}<tr><td>{{.Injector}}</td><td>{{.Producer}}</td><td class="n">{{.Rate}}</td><td class="n">{{.FracInj}}</td><td class="n">{{.FracProd}}</td><td class="n">{{.PV}}</td></tr>

@@ -65,7 +65,7 @@ var (
 	WellsColumns           = []string{ColTime, ColWell, ColType, ColControl, ColLiquidRate, ColOilRate, ColWaterRate, ColBHP}
 	ProducersColumns       = []string{ColTime, ColPVI, ColWell, ColWaterCut, ColOilRate, ColWaterRate, ColCumOil, ColCumWater}
 	FieldColumns           = []string{ColTime, ColPVI, ColWaterCut, ColOilRate, ColWaterRate, ColCumOil, ColCumWater, ColRecoveryFactor}
-	AllocationColumns      = []string{ColInjector, ColProducer, ColRate, ColFractionOfInjector, ColFractionOfProducer, ColPoreVolume}
+	AllocationColumns      = []string{ColTime, ColInjector, ColProducer, ColRate, ColFractionOfInjector, ColFractionOfProducer, ColPoreVolume}
 	EffectiveCurvesColumns = []string{ColTime, ColWell, ColAvgWaterSaturation, ColWaterCut}
 	FPhiColumns            = []string{ColPhi, ColF}
 	SweepColumns           = []string{ColTD, ColSweep}
