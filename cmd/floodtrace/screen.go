@@ -146,6 +146,9 @@ func runScreen(args []string) error {
 	if len(plan.Skipped) > 0 {
 		logf("infill: %d node(s) skipped: %s", len(plan.Skipped), countReasons(plan.Skipped, func(s screen.SkippedNode) string { return s.Reason }))
 	}
+	if plan.BaseSkipped != "" {
+		logf("base case not run: %s open before the horizon; the ranking has no base row and no increments", plan.BaseSkipped)
+	}
 	for _, sk := range plan.SkippedCandidates {
 		logf("%s %s skipped: %s open before the horizon", sk.Kind, sk.Name, sk.Reason)
 	}
@@ -332,17 +335,37 @@ func printRanking(rk *screen.Ranking, finished, total int) {
 		fmt.Fprintf(stdout, ", %d failed (see screen.json)", len(rk.Failed))
 	}
 	fmt.Fprintln(stdout)
-	fmt.Fprintf(stdout, "%4s  %-24s %14s %14s %14s %14s\n", "rank", "candidate", "mean", "P10 (low)", "P90 (high)", "first BT days")
-	for i, r := range rk.Rows {
-		if i == 10 {
-			fmt.Fprintf(stdout, "  ... %d more in ranking.csv\n", len(rk.Rows)-10)
-			break
-		}
+	fmt.Fprintf(stdout, "%4s  %-24s %14s %14s %14s %14s %14s %10s\n", "rank", "candidate", "mean", "P90 (low)", "P10 (high)", "first BT days", "incr. oil", "incr. RF %")
+	line := func(r screen.Row) {
 		bt := "none"
 		if r.FirstBreakthrough == r.FirstBreakthrough {
 			bt = fmt.Sprintf("%.0f", r.FirstBreakthrough)
 		}
-		fmt.Fprintf(stdout, "%4d  %-24s %14.5g %14.5g %14.5g %14s\n", r.Rank, r.Candidate, r.Mean, r.P10, r.P90, bt)
+		name := r.Candidate
+		if r.Base {
+			name += " (base case)"
+		}
+		inc, pts := "", ""
+		if r.IncOil == r.IncOil {
+			inc = fmt.Sprintf("%.5g", r.IncOil)
+		}
+		if r.IncRecovery == r.IncRecovery {
+			pts = fmt.Sprintf("%+.2f", r.IncRecovery)
+		}
+		fmt.Fprintf(stdout, "%4d  %-24s %14.5g %14.5g %14.5g %14s %14s %10s\n", r.Rank, name, r.Mean, r.P90, r.P10, bt, inc, pts)
+	}
+	for i, r := range rk.Rows {
+		if i == 10 {
+			fmt.Fprintf(stdout, "  ... %d more in ranking.csv\n", len(rk.Rows)-10)
+			if rk.Base != nil && rk.Base.Rank > 10 {
+				line(*rk.Base)
+			}
+			break
+		}
+		line(r)
+	}
+	if rk.Base == nil {
+		fmt.Fprintln(stdout, "no base case row (see base in screen.json): increments blank")
 	}
 	for _, fl := range rk.Failed {
 		fmt.Fprintf(stderr, "warning: candidate %s failed: %s\n", fl.Candidate, strings.Join(fl.Errors, "; "))
