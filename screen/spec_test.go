@@ -114,6 +114,7 @@ func TestSpecErrors(t *testing.T) {
 		{"bad discount", "discount_rate: 0.08", "discount_rate: 12", 15, []string{"discount_rate"}},
 		{"streamlines fraction", "streamlines: 150", "streamlines: 150.5", 4, []string{"whole number"}},
 		{"missing base", "base: case.yaml", "base: nothere.yaml", 1, []string{"base case not found"}},
+		{"layout named base", "name: pair-east", "name: base", 8, []string{`"base" is kept for the base case`}},
 		{"duplicate layout well", "{name: B, type: producer", "{name: A, type: producer", 11, []string{"used twice"}},
 	}
 	for _, c := range cases {

@@ -45,7 +45,11 @@ layouts, and regular patterns (five-spot, inverted nine-spot, direct and
 staggered line drive).
 
 Into DIR it writes ranking.csv (rank,candidate,x,y,objective,objective_p90,
-objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days), runs.csv
+objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days,kind,
+incremental_oil,incremental_water,incremental_recovery_points: the base case is
+ranked as candidate "base" of kind base, and every row has its increment over
+it, realization by realization; blank when the base case has no injector or no
+producer before the horizon and so is not run), runs.csv
 (every candidate on every realization), maps/objective.png (the objective at
 each infill node: where to drill), maps/layout_N_NAME.png (the best three
 layouts' water saturation at the horizon), results.jsonl and screen.json
