@@ -35,5 +35,18 @@
 // horizon, means over realizations); first_breakthrough_days (the first
 // arrival of injected water at any producer, the median over realizations
 // counting "none before the horizon" as late; blank when that median is
-// beyond the horizon).
+// beyond the horizon); kind (base, infill, layout or pattern);
+// incremental_oil and incremental_water (the candidate's cumulative oil and
+// water less the base case's on the same realization, means over
+// realizations); incremental_recovery_points (the recovery factor at the
+// horizon, cumulative oil over the model's OOIP, less the base case's, in
+// percentage points). The increments are 0 on the base row and blank when
+// the base case has no row.
+//
+// The base case. The base case's own wells are candidate 0, named "base"
+// and of kind "base" (no new well, no well cost), run on every realization
+// and ranked with the others, so the ranking shows what each candidate
+// adds. A base case with no injector or no producer open before the
+// horizon is not run (Plan.BaseSkipped); screen.json's base entry then
+// says why the increments are blank. The objective map does not draw it.
 package screen

@@ -68,11 +68,24 @@ type Summary struct {
 	Skipped    map[string]int    `json:"infill_nodes_skipped,omitempty"`
 	Dropped    map[string]int    `json:"pattern_points_dropped,omitempty"`
 	SkippedC   map[string]int    `json:"candidates_skipped,omitempty"`
+	Base       BaseSummary       `json:"base"`
 	Best       []string          `json:"best"`
 	Pictures   []string          `json:"pictures"`
 	Columns    map[string]string `json:"ranking_columns"`
 	Warnings   []WarningCount    `json:"warnings"`
 	Notes      []string          `json:"notes"`
+}
+
+// BaseSummary tells in screen.json whether the base case was ranked (its
+// row in ranking.csv has kind base) and, when it was not, why the
+// increments are blank.
+type BaseSummary struct {
+	Ranked bool `json:"ranked"`
+	// Rank is the base case's rank (0 when not ranked).
+	Rank int `json:"rank,omitempty"`
+	// Reason says why the base case has no row: not run (no injector or
+	// no producer open before the horizon), failed, or not in the results.
+	Reason string `json:"reason,omitempty"`
 }
 
 // FailedSummary names a failed candidate and its errors in screen.json.
@@ -132,17 +145,21 @@ const PercentileConvention = "exceedance convention: Pxx is the value of the obj
 
 // RankingColumns documents the columns of ranking.csv.
 var RankingColumns = map[string]string{
-	"rank":                    "1 = best by the ranking statistic (ranked_by); ties go to the earlier candidate",
-	"candidate":               "infill node (node-COL-ROW, counted from the south-west), layout or pattern name",
-	"x":                       "x of the new well of an infill candidate (map units); blank for layouts and patterns",
-	"y":                       "y of the new well of an infill candidate; blank for layouts and patterns",
-	"objective":               "mean of the objective over the realizations: oil = field cumulative oil at the horizon (reservoir volume); value = discounted cash flow",
-	"objective_p90":           "exceeded by 90% of the realizations (their 10th percentile): the low, cautious case",
-	"objective_p50":           "median over the realizations",
-	"objective_p10":           "exceeded by 10% of the realizations (their 90th percentile): the high case",
-	"cum_oil":                 "field cumulative oil at the horizon, mean over the realizations (reservoir volume)",
-	"cum_water":               "field cumulative produced water at the horizon, mean over the realizations (reservoir volume)",
-	"first_breakthrough_days": "first arrival of injected water at any producer, median over the realizations (none = late); blank if after the horizon",
+	"rank":                        "1 = best by the ranking statistic (ranked_by); ties go to the earlier candidate",
+	"candidate":                   "infill node (node-COL-ROW, counted from the south-west), layout or pattern name",
+	"x":                           "x of the new well of an infill candidate (map units); blank for layouts and patterns",
+	"y":                           "y of the new well of an infill candidate; blank for layouts and patterns",
+	"objective":                   "mean of the objective over the realizations: oil = field cumulative oil at the horizon (reservoir volume); value = discounted cash flow",
+	"objective_p90":               "exceeded by 90% of the realizations (their 10th percentile): the low, cautious case",
+	"objective_p50":               "median over the realizations",
+	"objective_p10":               "exceeded by 10% of the realizations (their 90th percentile): the high case",
+	"cum_oil":                     "field cumulative oil at the horizon, mean over the realizations (reservoir volume)",
+	"cum_water":                   "field cumulative produced water at the horizon, mean over the realizations (reservoir volume)",
+	"first_breakthrough_days":     "first arrival of injected water at any producer, median over the realizations (none = late); blank if after the horizon",
+	"kind":                        "base (the base case's wells as they are, ranked with the others), infill, layout or pattern",
+	"incremental_oil":             "cum_oil less the base case's, realization by realization, mean over the realizations (reservoir volume); 0 for the base, blank when the base case has no row (see base in screen.json)",
+	"incremental_water":           "cum_water less the base case's, realization by realization, mean over the realizations (reservoir volume); blank when the base case has no row",
+	"incremental_recovery_points": "recovery factor at the horizon (cumulative oil / OOIP of the model) less the base case's, in percentage points, mean over the realizations; blank when the base case has no row",
 }
 
 // WriteOutputs ranks the results and writes ranking.csv, runs.csv, the
@@ -177,6 +194,7 @@ func WriteOutputs(d *outdir.Dir, p *Plan, res *Results, s OutputSettings) (*Rank
 	for _, f := range rk.Failed {
 		sum.Failed = append(sum.Failed, FailedSummary{f.Candidate, f.Errors})
 	}
+	sum.Base = baseSummary(p, res, rk)
 	for i := 0; i < len(rk.Rows) && i < 5; i++ {
 		sum.Best = append(sum.Best, rk.Rows[i].Candidate)
 	}
@@ -304,7 +322,7 @@ func writePictures(d *outdir.Dir, p *Plan, res *Results, rk *Ranking, s OutputSe
 		if drawn >= nl {
 			break
 		}
-		if row.Kind == KindInfill {
+		if row.Kind == KindInfill || row.Kind == KindBase {
 			continue
 		}
 		drawn++
@@ -330,6 +348,27 @@ func writePictures(d *outdir.Dir, p *Plan, res *Results, rk *Ranking, s OutputSe
 		pics = append(pics, name)
 	}
 	return pics, nil
+}
+
+// baseSummary says whether the base case is ranked and, if not, why.
+func baseSummary(p *Plan, res *Results, rk *Ranking) BaseSummary {
+	if rk.Base != nil {
+		return BaseSummary{Ranked: true, Rank: rk.Base.Rank}
+	}
+	if p != nil && p.BaseSkipped != "" {
+		return BaseSummary{Reason: "the base case was not run: it has " + p.BaseSkipped + " open before the horizon; the increments are blank"}
+	}
+	for _, f := range rk.Failed {
+		if f.Candidate == BaseName && (p == nil || f.Index < len(p.Candidates) && p.Candidates[f.Index].Kind == KindBase) {
+			return BaseSummary{Reason: "the base case's run failed (see failed); the increments are blank"}
+		}
+	}
+	for _, r := range res.Records {
+		if r.Kind == KindBase {
+			return BaseSummary{Reason: "the base case has no usable run; the increments are blank"}
+		}
+	}
+	return BaseSummary{Reason: "the results hold no base case (not run, or in a missing shard); the increments are blank"}
 }
 
 func fileSafe(s string) string {

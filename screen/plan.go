@@ -21,7 +21,13 @@ const (
 	KindInfill  Kind = "infill"
 	KindLayout  Kind = "layout"
 	KindPattern Kind = "pattern"
+	// KindBase is the base case itself, run and ranked with the others
+	// so that every candidate has its increment over it.
+	KindBase Kind = "base"
 )
+
+// BaseName is the candidate name of the base case.
+const BaseName = "base"
 
 // Candidate is one thing to try: a well list run on every realization.
 type Candidate struct {
@@ -34,7 +40,7 @@ type Candidate struct {
 	// and the new one, last).
 	Wells []reservoir.Well
 	// NewWells is the number of wells paid for: 1 for infill, every well
-	// of a layout or pattern.
+	// of a layout or pattern, 0 for the base case.
 	NewWells int
 }
 
@@ -89,6 +95,10 @@ type Plan struct {
 	Skipped []SkippedNode
 	// SkippedCandidates lists the layouts and patterns that were skipped.
 	SkippedCandidates []SkippedCandidate
+	// BaseSkipped says why the base case is not a candidate ("no
+	// injector" or "no producer" open before the horizon); "" when it is
+	// (then it is candidate 0).
+	BaseSkipped string
 	// Dropped counts pattern points dropped (inactive cell, cell taken).
 	Dropped map[string]int
 	// Horizon is the run end in days (the spec's or the base case's).
@@ -104,9 +114,11 @@ type Plan struct {
 // MaxCandidates bounds the candidate list of a plan.
 const MaxCandidates = 1_000_000
 
-// NewPlan expands the spec into its candidates in a fixed order: infill
-// nodes (south to north, west to east), then layouts, then patterns, in
-// the order of the spec.
+// NewPlan expands the spec into its candidates in a fixed order: the base
+// case (named BaseName, when it has an injector and a producer open before
+// the horizon; otherwise Plan.BaseSkipped says why not), infill nodes
+// (south to north, west to east), then layouts, then patterns, in the
+// order of the spec.
 func NewPlan(s *Spec) (*Plan, error) {
 	if s == nil || s.Base == nil {
 		return nil, errors.New("screen: the spec has no base case")
@@ -131,6 +143,11 @@ func NewPlan(s *Spec) (*Plan, error) {
 	}
 	if !(p.Horizon > 0) {
 		return nil, errors.New("screen: no horizon (the spec gives none and the base case's run.end is not positive)")
+	}
+	if why := missingRole(b.Wells, p.Horizon); why != "" {
+		p.BaseSkipped = why
+	} else {
+		p.add(Candidate{Name: BaseName, Kind: KindBase, X: math.NaN(), Y: math.NaN(), Wells: slices.Clone(b.Wells)})
 	}
 	if s.Infill != nil {
 		if err := p.addInfill(*s.Infill); err != nil {
@@ -163,7 +180,7 @@ func NewPlan(s *Spec) (*Plan, error) {
 		p.add(Candidate{Name: pt.Name, Kind: KindPattern, X: math.NaN(), Y: math.NaN(), Wells: wells, NewWells: len(wells)})
 	}
 	for _, c := range p.Candidates {
-		if c.Kind == KindInfill || len(b.Schedule) == 0 {
+		if c.Kind == KindInfill || c.Kind == KindBase || len(b.Schedule) == 0 {
 			continue
 		}
 		dropped := 0
@@ -176,7 +193,7 @@ func NewPlan(s *Spec) (*Plan, error) {
 			p.Notes = append(p.Notes, fmt.Sprintf("%s %s: %d schedule event(s) of the base case name wells it does not have; they are left out", c.Kind, c.Name, dropped))
 		}
 	}
-	if len(p.Candidates) == 0 {
+	if len(p.Candidates) == 0 || len(p.Candidates) == 1 && p.Candidates[0].Kind == KindBase {
 		if len(p.SkippedCandidates) > 0 || len(p.Skipped) > 0 {
 			return nil, errors.New("screen: no candidate: every infill node, layout and pattern was skipped (see the reasons counted in the log); a waterflood needs an injector and a producer open before the horizon")
 		}
@@ -187,6 +204,9 @@ func NewPlan(s *Spec) (*Plan, error) {
 	}
 	seen := map[string]bool{}
 	for _, c := range p.Candidates {
+		if seen[c.Name] && c.Name == BaseName {
+			return nil, fmt.Errorf("screen: %s %q: the name %q is kept for the base case; rename it", c.Kind, c.Name, BaseName)
+		}
 		if seen[c.Name] {
 			return nil, fmt.Errorf("screen: two candidates are named %q; names must differ", c.Name)
 		}

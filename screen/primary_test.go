@@ -1,11 +1,13 @@
 package screen
 
 import (
+	"context"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"floodtrace/internal/outdir"
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
 )
@@ -56,6 +58,12 @@ run: {end: 600, report_every: 50, streamlines: 100}
 			}
 			if err != nil {
 				t.Fatal(err)
+			}
+			if p.BaseSkipped != "no injector" || countKind(p, KindBase) != 0 {
+				t.Errorf("base skipped %q with %d base candidate(s); want not run for no injector", p.BaseSkipped, countKind(p, KindBase))
+			}
+			if tc.name == "first injectors" {
+				checkNoBaseRow(t, p)
 			}
 			if len(p.Candidates) != tc.candidates {
 				t.Errorf("%d candidates, want %d", len(p.Candidates), tc.candidates)
@@ -144,5 +152,49 @@ func TestWarningKinds(t *testing.T) {
 	}
 	if w := got[1]; w.Runs != 1 || strings.Join(w.Candidates, ",") != "node-1-1" {
 		t.Errorf("second kind %+v", w)
+	}
+}
+
+// checkNoBaseRow screens a plan whose base case is not run and checks that
+// ranking.csv has no base row and blank increments, and that screen.json
+// says why.
+func checkNoBaseRow(t *testing.T, p *Plan) {
+	t.Helper()
+	dir := t.TempDir()
+	res, err := Execute(context.Background(), p, dir, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := outdir.Open(dir, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rk, err := WriteOutputs(d, p, res, OutputSettings{NoPictures: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := d.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if rk.Base != nil || len(rk.Rows) != len(p.Candidates) {
+		t.Errorf("base row %+v, %d rows for %d candidates", rk.Base, len(rk.Rows), len(p.Candidates))
+	}
+	csv, err := os.ReadFile(filepath.Join(dir, "ranking.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(csv)), "\n")
+	for _, l := range lines[1:] {
+		f := strings.Split(l, ",")
+		if f[11] == string(KindBase) || f[12] != "" || f[13] != "" || f[14] != "" {
+			t.Errorf("ranking.csv row %q: want no base row and blank increments", l)
+		}
+	}
+	sum, err := ReadSummary(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sum.Base.Ranked || !strings.Contains(sum.Base.Reason, "no injector") {
+		t.Errorf("screen.json base %+v, want the reason (no injector)", sum.Base)
 	}
 }

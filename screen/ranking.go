@@ -77,6 +77,14 @@ type Row struct {
 	// the median is beyond the horizon.
 	FirstBreakthrough float64
 	Realizations      int
+	// Base marks the row of the base case (Kind KindBase).
+	Base bool
+	// IncOil and IncWater are the mean over the realizations of the
+	// candidate's cumulative oil and water less the base case's on the
+	// same realization; IncRecovery is the mean of the recovery factor
+	// difference at the horizon in percentage points (100 x IncOil /
+	// OOIP). NaN when the base case was not run or failed.
+	IncOil, IncWater, IncRecovery float64
 }
 
 // Failed is a candidate with at least one failed run.
@@ -92,11 +100,16 @@ type Ranking struct {
 	By        Statistic
 	Rows      []Row
 	Failed    []Failed
+	// Base is the base case's row, nil when it was not run, failed or is
+	// missing from the results (the increments are then NaN).
+	Base *Row
 }
 
 // Rank orders the candidates of r by the statistic (Mean when empty),
 // best first; ties go to the lower candidate index. Candidates with a
-// failed run are listed in Failed, not ranked.
+// failed run are listed in Failed, not ranked. The base case (Kind
+// KindBase) is ranked with the others and marked; every row gets its
+// increments over it, realization by realization (see Row).
 func Rank(r *Results, by Statistic) *Ranking {
 	if by == "" {
 		by = Mean
@@ -106,6 +119,21 @@ func Rank(r *Results, by Statistic) *Ranking {
 		obj = Oil
 	}
 	rk := &Ranking{Objective: obj, By: by}
+	// The base case's runs by realization, when it finished without error.
+	var base map[string]RunOutcome
+	for _, rec := range r.Records {
+		if rec.Kind != KindBase || len(rec.Runs) == 0 {
+			continue
+		}
+		base = map[string]RunOutcome{}
+		for _, run := range rec.Runs {
+			if run.Error != "" {
+				base = nil
+				break
+			}
+			base[run.Realization] = run
+		}
+	}
 	for _, rec := range r.Records {
 		var errs []string
 		for _, run := range rec.Runs {
@@ -123,7 +151,8 @@ func Rank(r *Results, by Statistic) *Ranking {
 		n := len(rec.Runs)
 		obs := make([]float64, n)
 		bts := make([]float64, n)
-		row := Row{Index: rec.Index, Candidate: rec.Candidate, Kind: rec.Kind, X: math.NaN(), Y: math.NaN(), Realizations: n}
+		row := Row{Index: rec.Index, Candidate: rec.Candidate, Kind: rec.Kind, X: math.NaN(), Y: math.NaN(), Realizations: n,
+			Base: rec.Kind == KindBase, IncOil: math.NaN(), IncWater: math.NaN(), IncRecovery: math.NaN()}
 		if rec.X != nil && rec.Y != nil {
 			row.X, row.Y = *rec.X, *rec.Y
 		}
@@ -137,6 +166,7 @@ func Rank(r *Results, by Statistic) *Ranking {
 				bts[i] = *run.FirstBreakthrough
 			}
 		}
+		row.IncOil, row.IncWater, row.IncRecovery = increments(rec.Runs, base)
 		row.Mean /= float64(n)
 		row.CumOil /= float64(n)
 		row.CumWater /= float64(n)
@@ -169,12 +199,41 @@ func Rank(r *Results, by Statistic) *Ranking {
 	})
 	for i := range rk.Rows {
 		rk.Rows[i].Rank = i + 1
+		if rk.Rows[i].Base {
+			rk.Base = &rk.Rows[i]
+		}
 	}
 	return rk
 }
 
+// increments returns the means over the runs of cumulative oil and water
+// less the base case's run on the same realization, and of the recovery
+// factor difference in percentage points; NaN when base is nil or lacks a
+// realization (and NaN recovery points when a run has no OOIP).
+func increments(runs []RunOutcome, base map[string]RunOutcome) (oil, water, points float64) {
+	if base == nil {
+		return math.NaN(), math.NaN(), math.NaN()
+	}
+	for _, run := range runs {
+		b, ok := base[run.Realization]
+		if !ok {
+			return math.NaN(), math.NaN(), math.NaN()
+		}
+		d := run.CumOil - b.CumOil
+		oil += d
+		water += run.CumWater - b.CumWater
+		if run.OOIP > 0 {
+			points += 100 * d / run.OOIP
+		} else {
+			points = math.NaN()
+		}
+	}
+	n := float64(len(runs))
+	return oil / n, water / n, points / n
+}
+
 // RankingHeader is the header line of ranking.csv.
-const RankingHeader = "rank,candidate,x,y,objective,objective_p90,objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days"
+const RankingHeader = "rank,candidate,x,y,objective,objective_p90,objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days,kind,incremental_oil,incremental_water,incremental_recovery_points"
 
 // WriteCSV writes the ranking as ranking.csv (columns in the package
 // documentation; numbers with 10 significant digits, blank for none).
@@ -182,8 +241,9 @@ func (rk *Ranking) WriteCSV(w io.Writer) error {
 	bw := bufio.NewWriter(w)
 	bw.WriteString(RankingHeader + "\n")
 	for _, r := range rk.Rows {
-		fmt.Fprintf(bw, "%d,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s\n", r.Rank, csvText(r.Candidate), num(r.X), num(r.Y),
-			num(r.Mean), num(r.P90), num(r.P50), num(r.P10), num(r.CumOil), num(r.CumWater), num(r.FirstBreakthrough))
+		fmt.Fprintf(bw, "%d,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s\n", r.Rank, csvText(r.Candidate), num(r.X), num(r.Y),
+			num(r.Mean), num(r.P90), num(r.P50), num(r.P10), num(r.CumOil), num(r.CumWater), num(r.FirstBreakthrough),
+			r.Kind, num(r.IncOil), num(r.IncWater), num(r.IncRecovery))
 	}
 	return bw.Flush()
 }

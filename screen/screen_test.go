@@ -402,6 +402,7 @@ func TestWriteOutputs(t *testing.T) {
 	if !spread {
 		t.Error("no candidate has a spread over the realizations")
 	}
+	checkIncrements(t, p, res, rk, lines, sum)
 	f, err := os.Open(filepath.Join(dir, "maps", "objective.png"))
 	if err != nil {
 		t.Fatal(err)
@@ -434,6 +435,88 @@ func TestWriteOutputs(t *testing.T) {
 	for _, name := range sum.Pictures {
 		if _, err := os.Stat(filepath.Join(dir, filepath.FromSlash(name))); err != nil {
 			t.Error(err)
+		}
+	}
+}
+
+// checkIncrements checks the base row of a ranking and every candidate's
+// increments over it by hand from the records: the difference of the
+// candidate's and the base case's cumulative oil and water on each
+// realization, averaged, and the recovery factor difference in percentage
+// points over the model's OOIP (definition of the recovery factor,
+// common practice).
+func checkIncrements(t *testing.T, p *Plan, res *Results, rk *Ranking, lines []string, sum *Summary) {
+	t.Helper()
+	if rk.Base == nil || !rk.Base.Base || rk.Base.Candidate != BaseName || rk.Base.Kind != KindBase {
+		t.Fatalf("no base row in the ranking: %+v", rk.Base)
+	}
+	if !sum.Base.Ranked || sum.Base.Rank != rk.Base.Rank || sum.Base.Reason != "" {
+		t.Errorf("screen.json base %+v, want ranked at %d", sum.Base, rk.Base.Rank)
+	}
+	if rk.Base.IncOil != 0 || rk.Base.IncWater != 0 || rk.Base.IncRecovery != 0 {
+		t.Errorf("base increments %g, %g, %g; want 0", rk.Base.IncOil, rk.Base.IncWater, rk.Base.IncRecovery)
+	}
+	header := strings.Split(lines[0], ",")
+	col := map[string]int{}
+	for i, h := range header {
+		col[h] = i
+	}
+	var base Record
+	for _, r := range res.Records {
+		if r.Kind == KindBase {
+			base = r
+		}
+	}
+	ooip := p.Spec.Base.OOIP()
+	bases := 0
+	for i, r := range rk.Rows {
+		f := strings.Split(lines[i+1], ",")
+		if f[col["candidate"]] != r.Candidate || f[col["kind"]] != string(r.Kind) {
+			t.Fatalf("ranking.csv row %d: %q, want candidate %s of kind %s", i+1, lines[i+1], r.Candidate, r.Kind)
+		}
+		if r.Kind == KindBase {
+			bases++
+			if f[col["incremental_oil"]] != "0" || f[col["incremental_recovery_points"]] != "0" {
+				t.Errorf("ranking.csv base row %q: increments not 0", lines[i+1])
+			}
+		}
+		var rec Record
+		for _, x := range res.Records {
+			if x.Index == r.Index {
+				rec = x
+			}
+		}
+		var oil, water, pts float64
+		for k, run := range rec.Runs {
+			oil += run.CumOil - base.Runs[k].CumOil
+			water += run.CumWater - base.Runs[k].CumWater
+			pts += 100 * (run.CumOil - base.Runs[k].CumOil) / ooip
+		}
+		n := float64(len(rec.Runs))
+		oil, water, pts = oil/n, water/n, pts/n
+		tol := 1e-9 * math.Abs(base.Runs[0].CumOil)
+		if math.Abs(r.IncOil-oil) > tol || math.Abs(r.IncWater-water) > tol || math.Abs(r.IncRecovery-pts) > 1e-9 {
+			t.Errorf("%s: increments %g, %g, %g points; by hand %g, %g, %g", r.Candidate, r.IncOil, r.IncWater, r.IncRecovery, oil, water, pts)
+		}
+		// Paired means: the increment is also the difference of the means.
+		if math.Abs(r.IncOil-(r.CumOil-rk.Base.CumOil)) > tol {
+			t.Errorf("%s: incremental oil %g, cum_oil %g less the base's %g", r.Candidate, r.IncOil, r.CumOil, rk.Base.CumOil)
+		}
+		if got, _ := strconv.ParseFloat(f[col["incremental_oil"]], 64); math.Abs(got-r.IncOil) > 1e-8*math.Abs(base.Runs[0].CumOil) {
+			t.Errorf("ranking.csv %s: incremental_oil %s, want %g", r.Candidate, f[col["incremental_oil"]], r.IncOil)
+		}
+	}
+	if bases != 1 {
+		t.Errorf("%d base rows in ranking.csv, want 1", bases)
+	}
+	// A new injector in the smallSpec's field adds oil for some candidate,
+	// so the check compares numbers that differ.
+	if rk.Rows[0].Base || !(rk.Rows[0].IncOil > 0) {
+		t.Errorf("best row %s adds %g oil over the base", rk.Rows[0].Candidate, rk.Rows[0].IncOil)
+	}
+	for _, k := range []string{"kind", "incremental_oil", "incremental_water", "incremental_recovery_points"} {
+		if _, ok := col[k]; !ok || RankingColumns[k] == "" {
+			t.Errorf("column %s missing from ranking.csv or undocumented", k)
 		}
 	}
 }

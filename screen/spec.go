@@ -241,6 +241,9 @@ func ParseSpec(path string, data []byte) (spec *Spec, err error) {
 	}
 	for i, it := range p.list(c, "layouts") {
 		if l := readLayout(p, it, i, base); l != nil {
+			if l.Name == BaseName {
+				p.failf(it, "layout name %q is kept for the base case, which is ranked with the candidates; rename the layout", l.Name)
+			}
 			for _, o := range s.Layouts {
 				if strings.EqualFold(o.Name, l.Name) {
 					p.failf(it, "layout name %q is used twice (also on line %d)", l.Name, o.Line)
@@ -251,6 +254,9 @@ func ParseSpec(path string, data []byte) (spec *Spec, err error) {
 	}
 	for i, it := range p.list(c, "patterns") {
 		if pt := readPattern(p, it, i); pt != nil {
+			if pt.Name == BaseName {
+				p.failf(it, "pattern name %q is kept for the base case, which is ranked with the candidates; rename the pattern", pt.Name)
+			}
 			s.Patterns = append(s.Patterns, *pt)
 		}
 	}

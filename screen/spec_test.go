@@ -62,8 +62,12 @@ func TestLoadSpec(t *testing.T) {
 	if n := countKind(p, KindInfill); n != 10 || len(p.Skipped) != 2 {
 		t.Errorf("%d infill candidates and %d skipped, want 10 and 2", n, len(p.Skipped))
 	}
-	if len(p.Candidates) != 12 {
-		t.Errorf("%d candidates, want 12", len(p.Candidates))
+	// The base case first, then 10 nodes and 2 layouts/patterns.
+	if len(p.Candidates) != 13 {
+		t.Errorf("%d candidates, want 13", len(p.Candidates))
+	}
+	if c := p.Candidates[0]; c.Kind != KindBase || c.Name != BaseName || c.NewWells != 0 || len(c.Wells) != len(s.Base.Wells) || p.BaseSkipped != "" {
+		t.Errorf("candidate 0 %s %s with %d new and %d wells (base %d), skipped %q; want the base case", c.Kind, c.Name, c.NewWells, len(c.Wells), len(s.Base.Wells), p.BaseSkipped)
 	}
 }
 
@@ -110,6 +114,7 @@ func TestSpecErrors(t *testing.T) {
 		{"bad discount", "discount_rate: 0.08", "discount_rate: 12", 15, []string{"discount_rate"}},
 		{"streamlines fraction", "streamlines: 150", "streamlines: 150.5", 4, []string{"whole number"}},
 		{"missing base", "base: case.yaml", "base: nothere.yaml", 1, []string{"base case not found"}},
+		{"layout named base", "name: pair-east", "name: base", 8, []string{`"base" is kept for the base case`}},
 		{"duplicate layout well", "{name: B, type: producer", "{name: A, type: producer", 11, []string{"used twice"}},
 	}
 	for _, c := range cases {
@@ -210,7 +215,7 @@ func TestModelForARun(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m := p.Model(0, 1)
+	m := p.Model(1, 1) // the first infill node (candidate 0 is the base case)
 	if m.Run.End != 1200 || len(m.Run.Snapshots) != 1 || m.Run.Snapshots[0] != 1200 {
 		t.Errorf("run %+v", m.Run)
 	}

@@ -14,6 +14,9 @@ type RunOutcome struct {
 	CumOil      float64 `json:"cum_oil"`
 	CumWater    float64 `json:"cum_water"`
 	CumInjected float64 `json:"cum_injected"`
+	// OOIP is the model's oil originally in place (reservoir volume), the
+	// denominator of the recovery factor.
+	OOIP float64 `json:"ooip"`
 	// Value is the discounted cash flow of the spec's Economics (0
 	// prices give 0 less the well cost).
 	Value float64 `json:"value"`
@@ -82,7 +85,7 @@ func summarize(r *flood.Result, e Economics, newWells int) (RunOutcome, error) {
 	if err != nil {
 		return RunOutcome{}, err
 	}
-	out := RunOutcome{CumOil: r.FieldCumOil[n-1], CumWater: r.FieldCumWater[n-1], CumInjected: inj[n-1], Value: v}
+	out := RunOutcome{CumOil: r.FieldCumOil[n-1], CumWater: r.FieldCumWater[n-1], CumInjected: inj[n-1], OOIP: r.OOIP, Value: v}
 	bt := math.Inf(1)
 	for _, p := range r.Producers {
 		if !math.IsNaN(p.Breakthrough) {

@@ -45,7 +45,11 @@ layouts, and regular patterns (five-spot, inverted nine-spot, direct and
 staggered line drive).
 
 Into DIR it writes ranking.csv (rank,candidate,x,y,objective,objective_p90,
-objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days), runs.csv
+objective_p50,objective_p10,cum_oil,cum_water,first_breakthrough_days,kind,
+incremental_oil,incremental_water,incremental_recovery_points: the base case is
+ranked as candidate "base" of kind base, and every row has its increment over
+it, realization by realization; blank when the base case has no injector or no
+producer before the horizon and so is not run), runs.csv
 (every candidate on every realization), maps/objective.png (the objective at
 each infill node: where to drill), maps/layout_N_NAME.png (the best three
 layouts' water saturation at the horizon), results.jsonl and screen.json
@@ -145,6 +149,9 @@ func runScreen(args []string) error {
 		args[0], len(plan.Candidates), nr, plan.Horizon, objectiveName(spec), plan.Hash)
 	if len(plan.Skipped) > 0 {
 		logf("infill: %d node(s) skipped: %s", len(plan.Skipped), countReasons(plan.Skipped, func(s screen.SkippedNode) string { return s.Reason }))
+	}
+	if plan.BaseSkipped != "" {
+		logf("base case not run: %s open before the horizon; the ranking has no base row and no increments", plan.BaseSkipped)
 	}
 	for _, sk := range plan.SkippedCandidates {
 		logf("%s %s skipped: %s open before the horizon", sk.Kind, sk.Name, sk.Reason)
@@ -332,17 +339,37 @@ func printRanking(rk *screen.Ranking, finished, total int) {
 		fmt.Fprintf(stdout, ", %d failed (see screen.json)", len(rk.Failed))
 	}
 	fmt.Fprintln(stdout)
-	fmt.Fprintf(stdout, "%4s  %-24s %14s %14s %14s %14s\n", "rank", "candidate", "mean", "P10 (low)", "P90 (high)", "first BT days")
-	for i, r := range rk.Rows {
-		if i == 10 {
-			fmt.Fprintf(stdout, "  ... %d more in ranking.csv\n", len(rk.Rows)-10)
-			break
-		}
+	fmt.Fprintf(stdout, "%4s  %-24s %14s %14s %14s %14s %14s %10s\n", "rank", "candidate", "mean", "P90 (low)", "P10 (high)", "first BT days", "incr. oil", "incr. RF %")
+	line := func(r screen.Row) {
 		bt := "none"
 		if r.FirstBreakthrough == r.FirstBreakthrough {
 			bt = fmt.Sprintf("%.0f", r.FirstBreakthrough)
 		}
-		fmt.Fprintf(stdout, "%4d  %-24s %14.5g %14.5g %14.5g %14s\n", r.Rank, r.Candidate, r.Mean, r.P10, r.P90, bt)
+		name := r.Candidate
+		if r.Base {
+			name += " (base case)"
+		}
+		inc, pts := "", ""
+		if r.IncOil == r.IncOil {
+			inc = fmt.Sprintf("%.5g", r.IncOil)
+		}
+		if r.IncRecovery == r.IncRecovery {
+			pts = fmt.Sprintf("%+.2f", r.IncRecovery)
+		}
+		fmt.Fprintf(stdout, "%4d  %-24s %14.5g %14.5g %14.5g %14s %14s %10s\n", r.Rank, name, r.Mean, r.P90, r.P10, bt, inc, pts)
+	}
+	for i, r := range rk.Rows {
+		if i == 10 {
+			fmt.Fprintf(stdout, "  ... %d more in ranking.csv\n", len(rk.Rows)-10)
+			if rk.Base != nil && rk.Base.Rank > 10 {
+				line(*rk.Base)
+			}
+			break
+		}
+		line(r)
+	}
+	if rk.Base == nil {
+		fmt.Fprintln(stdout, "no base case row (see base in screen.json): increments blank")
 	}
 	for _, fl := range rk.Failed {
 		fmt.Fprintf(stderr, "warning: candidate %s failed: %s\n", fl.Candidate, strings.Join(fl.Errors, "; "))

@@ -30,12 +30,16 @@ func TestScreenCommand(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
-	if !strings.Contains(out, "ranked by the mean of oil") {
-		t.Errorf("output:\n%s", out)
+	if !strings.Contains(out, "ranked by the mean of oil") || !strings.Contains(out, "base (base case)") {
+		t.Errorf("output (want the ranking with the base case marked):\n%s", out)
 	}
 	want, err := os.ReadFile(filepath.Join(whole, "ranking.csv"))
 	if err != nil {
 		t.Fatal(err)
+	}
+	// The base case is ranked with the candidates, with zero increments.
+	if n := strings.Count(string(want), ",base,0,0,0\n"); n != 1 {
+		t.Errorf("ranking.csv has %d base rows with zero increments, want 1:\n%s", n, want)
 	}
 	for _, f := range []string{"runs.csv", "screen.json", "results.jsonl", "maps/objective.png"} {
 		if _, err := os.Stat(filepath.Join(whole, filepath.FromSlash(f))); err != nil {
