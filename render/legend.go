@@ -2,8 +2,11 @@ package render
 
 import (
 	"fmt"
+	"image"
 	"image/color"
 	"math"
+
+	"github.com/fogleman/gg"
 )
 
 // colourBar draws the bar pixel by pixel (smallest value at the bottom)
@@ -47,20 +50,9 @@ func (c *mapCanvas) colourBar(sc Scale) {
 		dc.SetLineWidth(math.Max(1, 1.2*s))
 		dc.Stroke()
 	}
-	dc.SetColor(colInk)
-	dc.SetLineWidth(math.Max(1, 1.2*s))
-	dc.DrawRectangle(float64(b.Min.X)-0.5, float64(b.Min.Y)-0.5, float64(b.Dx())+1, float64(b.Dy())+1)
-	dc.Stroke()
+	frameBar(dc, b, s)
 
-	var ticks []float64
-	dec := 0
-	if sc.Log {
-		ticks = logTicks(sc.Min, sc.Max)
-	} else {
-		var step float64
-		ticks, step = linearTicks(sc.Min, sc.Max, max(3, min(9, int(float64(n)/(38*s)))))
-		dec = decimalsFor(step)
-	}
+	ticks, dec := barTicks(sc, max(3, min(9, int(float64(n)/(38*s)))))
 	size := math.Max(8, 19*s)
 	face := c.f.get(regular, size)
 	lastY := math.Inf(1)
@@ -256,4 +248,24 @@ func capEntries(es []legendEntry, c *mapCanvas) []legendEntry {
 	more := len(es) - (maxN - 1)
 	out := append([]legendEntry(nil), es[:maxN-1]...)
 	return append(out, legendEntry{fmt.Sprintf("… and %d more", more), func(x, y float64) {}})
+}
+
+// frameBar draws the ink frame around a colour bar's rectangle r at
+// scale s.
+func frameBar(dc *gg.Context, r image.Rectangle, s float64) {
+	dc.SetColor(colInk)
+	dc.SetLineWidth(math.Max(1, 1.2*s))
+	dc.DrawRectangle(float64(r.Min.X)-0.5, float64(r.Min.Y)-0.5, float64(r.Dx())+1, float64(r.Dy())+1)
+	dc.Stroke()
+}
+
+// barTicks returns the tick values of a colour bar for scale sc (about n
+// of them on a linear scale, the decades on a log scale) and the decimals
+// their labels need.
+func barTicks(sc Scale, n int) (ticks []float64, dec int) {
+	if sc.Log {
+		return logTicks(sc.Min, sc.Max), 0
+	}
+	ticks, step := linearTicks(sc.Min, sc.Max, n)
+	return ticks, decimalsFor(step)
 }

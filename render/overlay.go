@@ -239,19 +239,8 @@ func (c *mapCanvas) colourBarH(sc Scale, r image.Rectangle) {
 		}
 	}
 	dc := c.dc
-	dc.SetColor(colInk)
-	dc.SetLineWidth(math.Max(1, 1.2*s))
-	dc.DrawRectangle(float64(r.Min.X)-0.5, float64(r.Min.Y)-0.5, float64(r.Dx())+1, float64(r.Dy())+1)
-	dc.Stroke()
-	var ticks []float64
-	dec := 0
-	if sc.Log {
-		ticks = logTicks(sc.Min, sc.Max)
-	} else {
-		var step float64
-		ticks, step = linearTicks(sc.Min, sc.Max, 4)
-		dec = decimalsFor(step)
-	}
+	frameBar(dc, r, s)
+	ticks, dec := barTicks(sc, 4)
 	size := math.Max(8, 19*s)
 	face := c.f.get(regular, size)
 	last := math.Inf(-1)
