@@ -28,10 +28,10 @@ func (e *UnphysicalError) Error() string {
 // injector produces, no open producer injects, and no BHP is negative
 // outside regions whose pressures are relative (pressure.WellResult
 // Relative).
-func checkSolve(engine string, sol *pressure.Solution, t float64) error {
+func checkSolve(engine Engine, sol *pressure.Solution, t float64) error {
 	for _, w := range sol.Wells {
 		bad := func(format string, a ...any) error {
-			return &UnphysicalError{Engine: engine, Msg: fmt.Sprintf("well %s at day %g: ", w.Name, t) + fmt.Sprintf(format, a...)}
+			return &UnphysicalError{Engine: engine.String(), Msg: fmt.Sprintf("well %s at day %g: ", w.Name, t) + fmt.Sprintf(format, a...)}
 		}
 		if w.Shut {
 			continue

@@ -32,7 +32,7 @@ func TestCheckSolve(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			i, p := inj, prd
 			tc.edit(&i, &p)
-			err := checkSolve("grid", &pressure.Solution{Wells: []pressure.WellResult{i, p}}, 7)
+			err := checkSolve(EngineGrid, &pressure.Solution{Wells: []pressure.WellResult{i, p}}, 7)
 			var ue *UnphysicalError
 			switch {
 			case tc.want == "" && err != nil:

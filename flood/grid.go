@@ -279,7 +279,7 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	for _, w := range sol.Warnings {
 		g.warnAt(t, w)
 	}
-	if err := checkSolve("grid", sol, t); err != nil {
+	if err := checkSolve(EngineGrid, sol, t); err != nil {
 		return err
 	}
 	clear(g.src)

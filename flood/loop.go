@@ -14,7 +14,7 @@ import (
 // openings after it).
 type timeline struct {
 	end     float64
-	reports []float64 // ReportTimes
+	reports []float64 // reportTimes
 	snaps   []float64 // snapshotTimes
 	frames  []float64 // report times kept as animation frames
 	solves  []float64 // pressure-solve times, increasing, in [0, end)

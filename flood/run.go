@@ -197,7 +197,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		// memory instead of touching new pages (docs/PERFORMANCE.md).
 		runtime.GC()
 	}
-	if err := checkSolve("streamline", sol, 0); err != nil {
+	if err := checkSolve(EngineStreamline, sol, 0); err != nil {
 		return nil, err
 	}
 	r.Pressure = sol

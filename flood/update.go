@@ -310,7 +310,7 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 	for _, w := range sol.Warnings {
 		u.warnAt(t, w)
 	}
-	if err := checkSolve("streamline", sol, t); err != nil {
+	if err := checkSolve(EngineStreamline, sol, t); err != nil {
 		return nil, err
 	}
 	for _, w := range sol.Wells {

@@ -389,12 +389,12 @@ func (d *decoder) readRock(rc *rawCase, n *yaml.Node) {
 		v := s.vals[k]
 		p := propSpec{key: k, node: v}
 		if v.Kind != yaml.ScalarNode || v.Tag == "!!null" {
-			d.fail(s, v, "rock.%s must be a number or the path of a map file, found %s", k, kindName(v))
+			d.fail(s, v, "rock.%s must be a number or the path of a map file, found %s", k, yamldoc.Describe(v))
 			continue
 		}
 		if k == "active" {
 			p.isMap = true
-		} else if x, msg := scalarNumber(v); msg == "" {
+		} else if x, msg := yamldoc.Number(v); msg == "" {
 			p.value = x
 		} else if v.Tag == "!!int" || v.Tag == "!!float" {
 			d.fail(s, v, "rock.%s %s", k, msg)
@@ -564,7 +564,7 @@ func (d *decoder) readWells(m *Model, top *section) {
 		if it.Kind == yaml.MappingNode {
 			for i := 0; i+1 < len(it.Content); i += 2 {
 				if it.Content[i].Value == "name" {
-					if v := deref(it.Content[i+1]); v.Kind == yaml.ScalarNode {
+					if v := yamldoc.Deref(it.Content[i+1]); v.Kind == yaml.ScalarNode {
 						name = strings.TrimSpace(v.Value)
 					}
 				}
@@ -664,12 +664,12 @@ func (d *decoder) readFaults(m *Model, top *section) {
 		bad := 0
 		for _, p := range d.list(s, "trace") {
 			if p.Kind != yaml.SequenceNode || len(p.Content) != 2 {
-				d.fail(s, p, "fault %q: each trace point must be [x, y], found %s", f.Name, kindName(p))
+				d.fail(s, p, "fault %q: each trace point must be [x, y], found %s", f.Name, yamldoc.Describe(p))
 				bad++
 				continue
 			}
-			x, mx := scalarNumber(deref(p.Content[0]))
-			y, my := scalarNumber(deref(p.Content[1]))
+			x, mx := yamldoc.Number(yamldoc.Deref(p.Content[0]))
+			y, my := yamldoc.Number(yamldoc.Deref(p.Content[1]))
 			if mx != "" || my != "" {
 				d.fail(s, p, "fault %q: trace point coordinate %s", f.Name, strings.TrimSpace(mx+" "+my))
 				bad++

@@ -20,12 +20,6 @@ type section struct {
 	keys map[string]*yaml.Node
 }
 
-// deref follows YAML aliases (internal/yamldoc, shared with screening
-// specs).
-func deref(n *yaml.Node) *yaml.Node { return yamldoc.Deref(n) }
-
-func kindName(n *yaml.Node) string { return yamldoc.Describe(n) }
-
 // where names a section in messages.
 func (s *section) where() string {
 	if s.name == "" {
@@ -61,7 +55,7 @@ func (d *decoder) fail(s *section, n *yaml.Node, format string, a ...any) {
 // that every required key is given. It returns nil (after recording the
 // problem) if n is not a mapping.
 func (d *decoder) section(n *yaml.Node, name, well string, allowed, required []string) *section {
-	n = deref(n)
+	n = yamldoc.Deref(n)
 	s := &section{name: name, well: well, node: n, vals: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}}
 	if n == nil || n.Kind != yaml.MappingNode {
 		what := name
@@ -73,7 +67,7 @@ func (d *decoder) section(n *yaml.Node, name, well string, allowed, required []s
 		} else {
 			found := "nothing"
 			if n != nil {
-				found = kindName(n)
+				found = yamldoc.Describe(n)
 			}
 			d.fail(s, n, "%s must be a mapping of keys (%s), found %s", what, strings.Join(allowed, ", "), found)
 		}
@@ -111,10 +105,6 @@ func (s *section) has(key string) bool {
 	return ok && !(v.Kind == yaml.ScalarNode && v.Tag == "!!null")
 }
 
-// scalarNumber parses a YAML scalar as a finite number (yamldoc.Number);
-// msg describes the problem.
-func scalarNumber(n *yaml.Node) (v float64, msg string) { return yamldoc.Number(n) }
-
 // number reads the number at key: ok is false when the key is absent or
 // its value is not a finite number (what, "a number" or "a whole number",
 // says what a key without a value lacks; the problem is recorded).
@@ -126,7 +116,7 @@ func (d *decoder) number(s *section, key, what string) (v float64, n *yaml.Node,
 		return 0, nil, false
 	}
 	n = s.vals[key]
-	v, msg := scalarNumber(n)
+	v, msg := yamldoc.Number(n)
 	if msg != "" {
 		d.fail(s, n, "%s %s", s.label(key), msg)
 		return 0, n, false
@@ -175,7 +165,7 @@ func (d *decoder) str(s *section, key string) string {
 	}
 	n := s.vals[key]
 	if n.Kind != yaml.ScalarNode {
-		d.fail(s, n, "%s must be text, found %s", s.label(key), kindName(n))
+		d.fail(s, n, "%s must be text, found %s", s.label(key), yamldoc.Describe(n))
 		return ""
 	}
 	return n.Value
@@ -189,7 +179,7 @@ func (d *decoder) boolean(s *section, key string) bool {
 	n := s.vals[key]
 	var b bool
 	if n.Kind != yaml.ScalarNode || n.Tag != "!!bool" || n.Decode(&b) != nil {
-		d.fail(s, n, "%s must be true or false, found %s", s.label(key), kindName(n))
+		d.fail(s, n, "%s must be true or false, found %s", s.label(key), yamldoc.Describe(n))
 		return false
 	}
 	return b
@@ -202,12 +192,12 @@ func (d *decoder) list(s *section, key string) []*yaml.Node {
 	}
 	n := s.vals[key]
 	if n.Kind != yaml.SequenceNode {
-		d.fail(s, n, "%s must be a list, found %s", s.label(key), kindName(n))
+		d.fail(s, n, "%s must be a list, found %s", s.label(key), yamldoc.Describe(n))
 		return nil
 	}
 	out := make([]*yaml.Node, len(n.Content))
 	for i, c := range n.Content {
-		out[i] = deref(c)
+		out[i] = yamldoc.Deref(c)
 	}
 	return out
 }
@@ -218,7 +208,7 @@ func (d *decoder) numbers(s *section, key string) ([]float64, []*yaml.Node) {
 	out := make([]float64, 0, len(items))
 	nodes := make([]*yaml.Node, 0, len(items))
 	for i, it := range items {
-		v, msg := scalarNumber(it)
+		v, msg := yamldoc.Number(it)
 		if msg != "" {
 			d.fail(s, it, "%s item %d %s", s.label(key), i+1, msg)
 			continue

@@ -535,17 +535,17 @@ func readRealizations(p *yparser, n *yaml.Node, dir string, base *reservoir.Mode
 		pats = []*yaml.Node{n}
 	case yaml.SequenceNode:
 		for _, c := range n.Content {
-			pats = append(pats, deref(c))
+			pats = append(pats, yamldoc.Deref(c))
 		}
 	default:
-		p.failf(n, "realizations must be a list of file patterns, found %s", describe(n))
+		p.failf(n, "realizations must be a list of file patterns, found %s", yamldoc.Describe(n))
 		return nil, p.err
 	}
 	seen := map[string]bool{}
 	var files []string
 	for _, pn := range pats {
 		if pn.Kind != yaml.ScalarNode || pn.Tag == "!!null" || strings.TrimSpace(pn.Value) == "" {
-			p.failf(pn, "realizations: each item is a file pattern such as maps/perm_*.asc, found %s", describe(pn))
+			p.failf(pn, "realizations: each item is a file pattern such as maps/perm_*.asc, found %s", yamldoc.Describe(pn))
 			return nil, p.err
 		}
 		pat := filepath.FromSlash(strings.TrimSpace(pn.Value))

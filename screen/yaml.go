@@ -52,10 +52,6 @@ func (p *yparser) failf(n *yaml.Node, format string, a ...any) {
 
 func (p *yparser) ok() bool { return p.err == nil }
 
-func deref(n *yaml.Node) *yaml.Node { return yamldoc.Deref(n) }
-
-func describe(n *yaml.Node) string { return yamldoc.Describe(n) }
-
 // ymap is a checked YAML mapping: its values and key nodes by name.
 type ymap struct {
 	where string // "value", "candidates.infill", "layouts[2].wells[1]"
@@ -85,7 +81,7 @@ func (m *ymap) label(k string) string {
 // unknown key is reported with its line and the nearest allowed key) and
 // that the required ones are present.
 func (p *yparser) mapping(n *yaml.Node, where string, allowed, required []string) *ymap {
-	n = deref(n)
+	n = yamldoc.Deref(n)
 	if !p.ok() || n == nil {
 		return nil
 	}
@@ -97,9 +93,9 @@ func (p *yparser) mapping(n *yaml.Node, where string, allowed, required []string
 	for _, pr := range probs {
 		switch pr.Kind {
 		case yamldoc.NotMapping:
-			p.failf(n, "%s must be a mapping (key: value lines), found %s", name, describe(n))
+			p.failf(n, "%s must be a mapping (key: value lines), found %s", name, yamldoc.Describe(n))
 		case yamldoc.BadKey:
-			p.failf(pr.Node, "%s: a key must be a plain name, found %s", name, describe(deref(pr.Node)))
+			p.failf(pr.Node, "%s: a key must be a plain name, found %s", name, yamldoc.Describe(yamldoc.Deref(pr.Node)))
 		case yamldoc.UnknownKey:
 			if pr.Suggest != "" {
 				p.failf(pr.Node, "unknown key %q in %s; did you mean %q? (allowed: %s)", pr.Key, name, pr.Suggest, strings.Join(allowed, ", "))
@@ -122,7 +118,7 @@ func (p *yparser) number(m *ymap, key string, def float64, check func(float64) s
 		return def
 	}
 	n := m.vals[key]
-	v, msg := scalarNumber(n)
+	v, msg := yamldoc.Number(n)
 	if msg == "" && check != nil {
 		msg = check(v)
 	}
@@ -133,16 +129,14 @@ func (p *yparser) number(m *ymap, key string, def float64, check func(float64) s
 	return v
 }
 
-func scalarNumber(n *yaml.Node) (float64, string) { return yamldoc.Number(n) }
-
 func (p *yparser) integer(m *ymap, key string, def, lo, hi int) int {
 	if !p.ok() || !m.has(key) {
 		return def
 	}
 	n := m.vals[key]
-	v, msg := scalarNumber(n)
+	v, msg := yamldoc.Number(n)
 	if msg == "" && v != math.Trunc(v) {
-		msg = "must be a whole number, found " + describe(n)
+		msg = "must be a whole number, found " + yamldoc.Describe(n)
 	}
 	if msg == "" && (v < float64(lo) || v > float64(hi)) {
 		msg = fmt.Sprintf("= %s is outside [%d, %d]", n.Value, lo, hi)
@@ -164,7 +158,7 @@ func (p *yparser) str(m *ymap, key string) string {
 		return ""
 	}
 	if n.Kind != yaml.ScalarNode {
-		p.failf(n, "%s must be text, found %s", m.label(key), describe(n))
+		p.failf(n, "%s must be text, found %s", m.label(key), yamldoc.Describe(n))
 		return ""
 	}
 	return strings.TrimSpace(n.Value)
@@ -177,13 +171,13 @@ func (p *yparser) pair(m *ymap, key string, def [2]float64, check func(float64) 
 	}
 	n := m.vals[key]
 	if n.Kind != yaml.SequenceNode || len(n.Content) != 2 {
-		p.failf(n, "%s must be a pair [a, b], found %s", m.label(key), describe(n))
+		p.failf(n, "%s must be a pair [a, b], found %s", m.label(key), yamldoc.Describe(n))
 		return def
 	}
 	var out [2]float64
 	for i, c := range n.Content {
-		c = deref(c)
-		v, msg := scalarNumber(c)
+		c = yamldoc.Deref(c)
+		v, msg := yamldoc.Number(c)
 		if msg == "" && check != nil {
 			msg = check(v)
 		}
@@ -204,12 +198,12 @@ func (p *yparser) list(m *ymap, key string) []*yaml.Node {
 	}
 	n := m.vals[key]
 	if n.Kind != yaml.SequenceNode {
-		p.failf(n, "%s must be a list, found %s", m.label(key), describe(n))
+		p.failf(n, "%s must be a list, found %s", m.label(key), yamldoc.Describe(n))
 		return nil
 	}
 	out := make([]*yaml.Node, len(n.Content))
 	for i, c := range n.Content {
-		out[i] = deref(c)
+		out[i] = yamldoc.Deref(c)
 	}
 	return out
 }
