@@ -371,7 +371,6 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		r.Trace = tr
 		r.Pressure = sol
 		r.StreamlineCount = len(tr.Lines)
-		r.PairVolumes = tr.PairVolumes(ls.seg)
 		r.setDiagnostics(tr, g.pv)
 	}
 	return nil

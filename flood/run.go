@@ -97,9 +97,6 @@ type Result struct {
 	// wells, the cell maps and the allocation remain.
 	Pressure *pressure.Solution
 	Trace    *streamline.Result
-	// PairVolumes are the pore volumes of Trace.Pairs (same order) from the
-	// rescaled time of flight (streamline.Result.PairVolumes).
-	PairVolumes []float64
 	// Allocation holds the well-pair allocation of every set of
 	// streamlines the run traced: one block per pressure solve that was
 	// traced (and per schedule event), in time order; a fixed-streamline
@@ -236,8 +233,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	r.PairVolumes = tr.PairVolumes(lines.seg)
-	r.Allocation = append(r.Allocation, AllocationBlock{Time: 0, Pairs: tr.Pairs, PoreVolumes: r.PairVolumes})
+	r.Allocation = append(r.Allocation, AllocationBlock{Time: 0, Pairs: tr.Pairs, PoreVolumes: tr.PairVolumes(lines.seg)})
 	// The cell lists now live in lines; drop the tracer's copies.
 	tr.ReleaseCells()
 	if lines.uncovered > 0 {

@@ -386,11 +386,7 @@ func (u *updateRun) solveAt(t0 float64) error {
 		if u.ls, err = newLineSet(tr, u.pv); err != nil {
 			return fmt.Errorf("streamlines at day %g: %w", t0, err)
 		}
-		pv := tr.PairVolumes(u.ls.seg)
-		if r.Trace == tr {
-			r.PairVolumes = pv
-		}
-		r.Allocation = append(r.Allocation, AllocationBlock{Time: t0, Pairs: tr.Pairs, PoreVolumes: pv})
+		r.Allocation = append(r.Allocation, AllocationBlock{Time: t0, Pairs: tr.Pairs, PoreVolumes: tr.PairVolumes(u.ls.seg)})
 		if err := u.setupLines(sol, t0); err != nil {
 			return err
 		}
