@@ -173,7 +173,7 @@ type Well struct {
 	// once its water cut reaches MaxWaterCut or its oil rate falls below
 	// MinOilRate. Model.ProducerLimits resolves them.
 	MaxWaterCut, MinOilRate float64
-	Line   int     // line in the case file, for messages
+	Line                    int // line in the case file, for messages
 }
 
 // Fluids holds the fluid properties. Formation volume factors are 1: all
