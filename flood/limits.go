@@ -70,6 +70,14 @@ func (b *book) checkLimits(t float64, fieldWC float64, flowingField bool) (shut 
 			shut = true
 		}
 	}
+	if shut && !b.producing(t) {
+		// Nothing would flow out: the run ends (a rate injector with no
+		// outlet has no incompressible solution).
+		r.FieldLimitDay = t
+		b.ended = true
+		b.warn(fmt.Sprintf("every producer is shut in at its economic limit by day %g: the run ends on that day", t))
+		return false
+	}
 	if f := m.Run.FieldMaxWaterCut; f > 0 && flowingField && fieldWC >= f {
 		r.FieldLimitDay = t
 		b.ended = true
@@ -78,6 +86,22 @@ func (b *book) checkLimits(t float64, fieldWC float64, flowingField bool) (shut 
 		}
 	}
 	return shut
+}
+
+// producing reports whether some producer is open at day t or the
+// schedule changes a well after t (a producer may open or reopen).
+func (b *book) producing(t float64) bool {
+	for _, c := range b.sched.changes {
+		if c > t {
+			return true
+		}
+	}
+	for _, w := range b.sched.At(t) {
+		if w.Type == reservoir.Producer && !w.Shut {
+			return true
+		}
+	}
+	return false
 }
 
 // endEarly cuts the result of a stepping engine at its last report, day t,

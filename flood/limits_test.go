@@ -192,3 +192,28 @@ func TestLimitCrossed(t *testing.T) {
 		}
 	}
 }
+
+// TestAllProducersShutEndsRun: when the limits shut in every producer, the
+// run ends there (a rate injector without an outlet has no incompressible
+// solution) instead of failing, in every engine.
+func TestAllProducersShutEndsRun(t *testing.T) {
+	for _, e := range limitEngines {
+		t.Run(e.name, func(t *testing.T) {
+			m := limitCase(t, e.updates)
+			m.Run.MaxWaterCut = 0.5
+			r, err := Run(m, Settings{Engine: e.engine, Frames: -1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			last := r.Times[len(r.Times)-1]
+			if !(r.FieldLimitDay > 0) || r.FieldLimitDay != last || last >= m.Run.End {
+				t.Fatalf("run ends on day %g, limit end day %g; want an early end", last, r.FieldLimitDay)
+			}
+			for _, P := range r.Producers {
+				if P.Limit != LimitWaterCut || P.LimitDay > last {
+					t.Fatalf("producer %s: limit %q on day %g", P.Name, P.Limit, P.LimitDay)
+				}
+			}
+		})
+	}
+}

@@ -130,9 +130,10 @@ type Result struct {
 	Iterations       int
 	RelResidual      float64
 	StreamlineCount  int
-	// FieldLimitDay is the day the field water cut reached
-	// run.field_max_water_cut, ending the run (the last report time); 0
-	// when it did not.
+	// FieldLimitDay is the day the economic limits ended the run (the
+	// last report time): the field water cut reached
+	// run.field_max_water_cut, or every producer was shut in at its
+	// limit; 0 when they did not.
 	FieldLimitDay float64
 	// Warnings are messages for the user: the case's own (Model.Warnings)
 	// first, then those of the run.
