@@ -79,3 +79,84 @@ func TestLimitOutputs(t *testing.T) {
 		})
 	}
 }
+
+// TestUnreachedLimitsChangeNothing: the demo with economic limits it never
+// reaches (its producers end below a water cut of 0.96) writes the same
+// files, byte for byte, as the demo without them: the limit keys cost
+// nothing until a limit is reached. summary.json is compared without its
+// case_file line (the two cases live in two folders).
+func TestUnreachedLimitsChangeNothing(t *testing.T) {
+	src := "../../examples/vardel"
+	ents, err := os.ReadDir(src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	outs := map[string]string{}
+	for name, extra := range map[string]string{"plain": "", "limits": ", max_water_cut: 0.999, min_oil_rate: 1, field_max_water_cut: 0.999"} {
+		dir := filepath.Join(t.TempDir(), name)
+		if err := os.MkdirAll(dir, 0o755); err != nil {
+			t.Fatal(err)
+		}
+		for _, e := range ents {
+			if e.IsDir() {
+				continue
+			}
+			b, err := os.ReadFile(filepath.Join(src, e.Name()))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if e.Name() == "case.yaml" {
+				s := string(b)
+				i := strings.Index(s, "\nrun: {")
+				j := i + strings.Index(s[i:], "}\n")
+				if i < 0 || j < i {
+					t.Fatal("the demo case has no one-line run block")
+				}
+				b = []byte(s[:j] + extra + s[j:])
+			}
+			if err := os.WriteFile(filepath.Join(dir, e.Name()), b, 0o644); err != nil {
+				t.Fatal(err)
+			}
+		}
+		out := filepath.Join(dir, "out")
+		if code, _, stderr := run(t, "run", filepath.Join(dir, "case.yaml"), "--out", out, "--no-pictures", "-q"); code != 0 {
+			t.Fatalf("%s: exit %d: %s", name, code, stderr)
+		}
+		outs[name] = out
+	}
+	files, err := os.ReadDir(outs["plain"])
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for _, f := range files {
+		if f.IsDir() {
+			continue
+		}
+		a, errA := os.ReadFile(filepath.Join(outs["plain"], f.Name()))
+		b, errB := os.ReadFile(filepath.Join(outs["limits"], f.Name()))
+		if errA != nil || errB != nil {
+			t.Fatalf("%s: %v %v", f.Name(), errA, errB)
+		}
+		if f.Name() == runfolder.SummaryFile {
+			a, b = dropLine(a, `"case_file"`), dropLine(b, `"case_file"`)
+		}
+		if string(a) != string(b) {
+			t.Errorf("%s differs with limits that are never reached", f.Name())
+		}
+		n++
+	}
+	if n < 10 {
+		t.Fatalf("only %d files compared", n)
+	}
+}
+
+func dropLine(b []byte, key string) []byte {
+	var keep []string
+	for _, l := range strings.Split(string(b), "\n") {
+		if !strings.Contains(l, key) {
+			keep = append(keep, l)
+		}
+	}
+	return []byte(strings.Join(keep, "\n"))
+}
