@@ -302,6 +302,11 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			for k := range r.Injectors {
 				r.Injectors[k].CumWater = r.Injectors[k].Rate * runEnd
 			}
+			for p := range r.Producers {
+				if P := &r.Producers[p]; P.Breakthrough > runEnd {
+					P.Breakthrough = math.NaN()
+				}
+			}
 		}
 	}
 

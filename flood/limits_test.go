@@ -166,6 +166,11 @@ func TestFieldLimitEndsRun(t *testing.T) {
 			if last.Time != end {
 				t.Fatalf("last saturation map at day %g; want %g", last.Time, end)
 			}
+			for _, P := range r.Producers {
+				if P.Breakthrough > end {
+					t.Fatalf("producer %s: water breakthrough on day %g, after the run's end on day %g", P.Name, P.Breakthrough, end)
+				}
+			}
 			if math.Abs(r.MassBalanceError) > 1e-6 {
 				t.Fatalf("mass balance %g at the early end", r.MassBalanceError)
 			}
