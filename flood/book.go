@@ -33,10 +33,14 @@ type book struct {
 	otherProduced float64   // water leaving through wells that are not producers
 	periodStart   float64
 	nextReport    int
+	limits        bool // the case has economic limits
+	limitShut     bool // a producer was shut at its limit at the last stop
+	ended         bool // the field limit ended the run at the last stop
 }
 
 func newBook(m *reservoir.Model, sched *WellSchedule, engine Engine) book {
 	return book{m: m, sched: sched, seen: map[string]bool{}, rep: map[string]*repeatedWarning{}, swi: m.Fluids.InitialSw,
+		limits: m.HasProducerLimits() || m.Run.FieldMaxWaterCut > 0,
 		r: &Result{Model: m, Engine: engine, PoreVolume: m.TotalPoreVolume(), OOIP: m.OOIP(),
 			Warnings: append([]string(nil), m.Warnings...)}}
 }
@@ -122,6 +126,11 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 		r.PVI[k] = b.cumInj / r.PoreVolume
 		span := t - b.periodStart
 		b.periodStart = t
+		fieldW, fieldL := 0.0, 0.0
+		for p := range r.Producers {
+			fieldW += b.perW[p]
+			fieldL += b.perL[p]
+		}
 		for p := range r.Producers {
 			P := &r.Producers[p]
 			b.cumW[p] += b.perW[p]
@@ -135,6 +144,13 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 			P.CumOil[k] = b.cumL[p] - b.cumW[p]
 			b.perW[p], b.perL[p] = 0, 0
 			P.AvgSw[k] = partitionSw(b.partition, b.pv, b.sw, P.Well)
+		}
+		if b.limits {
+			fieldWC := 0.0
+			if fieldL > 0 {
+				fieldWC = fieldW / fieldL
+			}
+			b.limitShut = b.checkLimits(t, fieldWC, fieldL > 0)
 		}
 	}
 	if slices.Contains(snaps, t) {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"sort"
 
 	"floodtrace/internal/parallel"
@@ -270,6 +271,44 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 		}
 	}
 	fillField(r)
+	// A field limit ends the run at the first report time it is reached:
+	// the solution is exact at any time, so the run is that of the case
+	// with its end there.
+	runEnd := m.Run.End
+	if k := fieldLimitIndex(m, r); k >= 0 {
+		runEnd = times[k]
+		r.FieldLimitDay = runEnd
+		if k < nt-1 {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("the field reaches its water-cut limit on day %g (water cut %.4g >= field_max_water_cut %g): the run ends on that day",
+				runEnd, r.FieldWaterCut[k], m.Run.FieldMaxWaterCut))
+			nt = k + 1
+			r.truncate(nt)
+			times = r.Times
+			var snaps, frames []float64
+			for _, t := range tl.snaps {
+				if t <= runEnd {
+					snaps = append(snaps, t)
+				}
+			}
+			if !slices.Contains(snaps, runEnd) {
+				snaps = append(snaps, runEnd)
+			}
+			for _, t := range tl.frames {
+				if t <= runEnd {
+					frames = append(frames, t)
+				}
+			}
+			tl.snaps, tl.frames = snaps, frames
+			for k := range r.Injectors {
+				r.Injectors[k].CumWater = r.Injectors[k].Rate * runEnd
+			}
+			for p := range r.Producers {
+				if P := &r.Producers[p]; P.Breakthrough > runEnd {
+					P.Breakthrough = math.NaN()
+				}
+			}
+		}
+	}
 
 	// Saturation maps; a map at the same time is computed once.
 	maps := map[float64][]float64{}
@@ -291,8 +330,8 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 
 	// Mass balance at the end of the run, with the water in place taken
 	// from the saturation map.
-	end := satAt(m.Run.End)
-	r.MassBalanceError = massBalance(m.Active, ls.pv, end, swi, injRate*m.Run.End, r.FieldCumWater[nt-1])
+	end := satAt(runEnd)
+	r.MassBalanceError = massBalance(m.Active, ls.pv, end, swi, injRate*runEnd, r.FieldCumWater[nt-1])
 }
 
 func snapshotTimes(m *reservoir.Model) []float64 {

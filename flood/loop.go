@@ -76,9 +76,17 @@ type stepper interface {
 // drive runs an engine through the timeline: a solve at each solve time,
 // and between solves an advance from stop to stop, recording in the book
 // at the end of each.
+//
+// Economic limits are dynamic events of the same loop: a producer that
+// reaches its limit at a report time is shut in from that time (book.
+// checkLimits adds the shut-in to the schedule), and the time becomes a
+// solve time, so the run goes on exactly as if the case had scheduled the
+// shut-in there. A field limit ends the run at the report time it is
+// reached.
 func drive(e stepper, tl *timeline) error {
 	b := e.ledger()
-	for i, t0 := range tl.solves {
+	for i := 0; i < len(tl.solves); i++ {
+		t0 := tl.solves[i]
 		t1 := tl.end
 		if i+1 < len(tl.solves) {
 			t1 = tl.solves[i+1]
@@ -93,6 +101,17 @@ func drive(e stepper, tl *timeline) error {
 			}
 			t = next
 			b.atStop(t, tl.reports, tl.snaps, tl.frames)
+			if b.ended {
+				b.endEarly(t)
+				return nil
+			}
+			if b.limitShut {
+				b.limitShut = false
+				if t < t1 {
+					tl.solves = slices.Insert(tl.solves, i+1, t)
+					break
+				}
+			}
 		}
 	}
 	return nil

@@ -65,6 +65,11 @@ type Producer struct {
 	TracerBreakthrough, Breakthrough float64
 	// DrainedVolume is the pore volume that drains to the producer.
 	DrainedVolume float64
+	// Limit is the economic limit the producer reached (LimitWaterCut or
+	// LimitOilRate; "" none) and LimitDay the report day it did, from
+	// which it is shut in.
+	Limit    string
+	LimitDay float64
 }
 
 // Injector holds one injector's totals.
@@ -125,6 +130,11 @@ type Result struct {
 	Iterations       int
 	RelResidual      float64
 	StreamlineCount  int
+	// FieldLimitDay is the day the economic limits ended the run (the
+	// last report time): the field water cut reached
+	// run.field_max_water_cut, or every producer was shut in at its
+	// limit; 0 when they did not.
+	FieldLimitDay float64
 	// Warnings are messages for the user: the case's own (Model.Warnings)
 	// first, then those of the run.
 	Warnings []string
@@ -172,6 +182,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if needsUpdates(mm) {
 		return RunUpdates(m, s, s.Updates)
 	}
+	orig := m
 	m = mm
 	// From here the case has no schedule event and no late well (they send
 	// it to pressure updates above).
@@ -240,6 +251,19 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}
 	r.fixedTransport(m, sol, lines, newBLTable(sol1d, ff), s)
+	if m.HasProducerLimits() {
+		if day, well := r.fixedLimits(); day >= 0 {
+			// A shut-in changes the streamlines of the other wells: as for
+			// a scheduled one, the run is made with pressure updates.
+			logf("limits: producer %s reaches its economic limit on day %g; running with pressure updates", well, day)
+			ru, err := RunUpdates(orig, s, s.Updates)
+			if err != nil {
+				return nil, err
+			}
+			ru.Warnings = append(ru.Warnings, fmt.Sprintf("producer %s reaches its economic limit with fixed streamlines (on day %g): the run uses pressure updates to honour the shut-in, as for a scheduled one", well, day))
+			return ru, nil
+		}
+	}
 	if err := checkResult(r); err != nil {
 		return nil, err
 	}

@@ -140,6 +140,23 @@ func (s *WellSchedule) AtInto(ws []reservoir.Well, t float64) {
 	}
 }
 
+// shutAt shuts well name in from day t on, as a schedule event listed
+// after every event up to t would: the economic limits' dynamic shut-in.
+func (s *WellSchedule) shutAt(name string, t float64) {
+	k, _ := slices.BinarySearchFunc(s.events, t, func(e reservoir.Event, t float64) int {
+		if e.Time <= t {
+			return -1
+		}
+		return 1
+	})
+	s.events = slices.Insert(s.events, k, reservoir.Event{Time: t, Well: name, Shut: true, Rate: math.NaN(), BHP: math.NaN()})
+	if t > 0 {
+		s.changes = append(s.changes, t)
+		slices.Sort(s.changes)
+		s.changes = slices.Compact(s.changes)
+	}
+}
+
 func (s *WellSchedule) index(name string) int {
 	for i := range s.wells {
 		if s.wells[i].Name == name {

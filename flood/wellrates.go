@@ -45,6 +45,13 @@ func (r *Result) WellRates() []WellRate {
 		}
 		return x.Rate * (1 - wc), x.Rate * wc
 	}
+	// A producer shut in at its economic limit shows control ShutLimit
+	// from that day while it stays shut.
+	shutLimit := func(x *WellRecord) {
+		if i, ok := prod[x.Well]; ok && r.Producers[i].Limit != "" && x.Time >= r.Producers[i].LimitDay && x.Rate == 0 {
+			x.Control = ShutLimit
+		}
+	}
 	out := make([]WellRate, 0, len(r.WellLog)+len(r.Model.Wells))
 	last := map[string]int{}
 	var order []string
@@ -54,6 +61,7 @@ func (r *Result) WellRates() []WellRate {
 			order = append(order, x.Well)
 		}
 		last[x.Well] = len(out)
+		shutLimit(&x)
 		out = append(out, WellRate{WellRecord: x, Oil: oil, Water: water})
 	}
 	if len(r.Times) == 0 {
@@ -67,6 +75,7 @@ func (r *Result) WellRates() []WellRate {
 			x.Oil, x.Water = r.Producers[i].OilRate[nt-1], r.Producers[i].WaterRate[nt-1]
 			x.Rate = x.Oil + x.Water
 		}
+		shutLimit(&x.WellRecord)
 		out = append(out, x)
 	}
 	return out

@@ -67,11 +67,18 @@ func (r *Result) Summary() *runfolder.Summary {
 		if last >= 0 {
 			sp.FinalWaterCut, sp.CumOil, sp.CumWater = F(p.WaterCut[last]), F(p.CumOil[last]), F(p.CumWater[last])
 		}
+		if p.Limit != "" {
+			sp.Limit, sp.LimitDays = p.Limit, runfolder.Opt(p.LimitDay)
+		}
 		s.Producers = append(s.Producers, sp)
 	}
 	if last >= 0 {
 		s.Field = runfolder.Field{FinalPVI: F(r.PVI[last]), FinalRecoveryFactor: F(r.RecoveryFactor[last]), FinalWaterCut: F(r.FieldWaterCut[last]),
 			FinalCumOil: F(r.FieldCumOil[last]), FinalCumWater: F(r.FieldCumWater[last])}
+	}
+	if r.FieldLimitDay > 0 {
+		s.FieldLimitDays = runfolder.Opt(r.FieldLimitDay)
+		s.EndDays = F(r.FieldLimitDay)
 	}
 	for _, sn := range r.Snapshots {
 		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: runfolder.SnapshotName(sn.Time)})

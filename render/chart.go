@@ -37,6 +37,10 @@ type Series struct {
 	Style *LineStyle
 	// NoLegend leaves the series out of the legend.
 	NoLegend bool
+	// Marks are indices of points of X, Y marked with a ring in the
+	// series' colour: where a well's curve stops (an economic limit). A
+	// chart with marks has a legend entry for them (Chart.MarkName).
+	Marks []int
 }
 
 // LineStyle is the colour and dash pattern of a chart line. Dashes are
@@ -57,6 +61,9 @@ type Chart struct {
 	Series          []Series
 	XMin, XMax      float64
 	YMin, YMax      float64
+	// MarkName is the legend entry of the series' Marks ("Shut in at
+	// economic limit" when empty).
+	MarkName string
 }
 
 // chartTypeface is the name under which the Go fonts are registered in
@@ -256,6 +263,7 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 	}
 	var entries []entry
 	any := false
+	var marks []*plotter.Scatter
 	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	idx := 0
 	for _, s := range c.Series {
@@ -290,6 +298,21 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 		if !s.NoLegend {
 			entries = append(entries, entry{s.Name, line})
 		}
+		if ring := markRing(s, line.LineStyle.Color, L); ring != nil {
+			marks = append(marks, ring)
+		}
+	}
+	// The rings go on top of every line, with one legend entry.
+	for _, ring := range marks {
+		p.Add(ring)
+	}
+	if len(marks) > 0 {
+		name := c.MarkName
+		if name == "" {
+			name = "Shut in at economic limit"
+		}
+		key := &plotter.Scatter{GlyphStyle: draw.GlyphStyle{Color: ink, Radius: L(7), Shape: draw.RingGlyph{}}}
+		entries = append(entries, entry{name, key})
 	}
 	// Axis ranges: given, or the data padded to whole tick steps.
 	setRange := func(ax *plot.Axis, gmin, gmax, lo, hi float64) {
@@ -347,6 +370,21 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 		ly -= rowH
 	}
 	return nil
+}
+
+// markRing returns the rings of the series' Marks in colour col, or nil
+// when it has none with finite coordinates.
+func markRing(s Series, col color.Color, L func(float64) vg.Length) *plotter.Scatter {
+	var xy plotter.XYs
+	for _, i := range s.Marks {
+		if i >= 0 && i < len(s.X) && i < len(s.Y) && !math.IsNaN(s.X[i]) && !math.IsInf(s.X[i], 0) && !math.IsNaN(s.Y[i]) && !math.IsInf(s.Y[i], 0) {
+			xy = append(xy, plotter.XY{X: s.X[i], Y: s.Y[i]})
+		}
+	}
+	if len(xy) == 0 {
+		return nil
+	}
+	return &plotter.Scatter{XYs: xy, GlyphStyle: draw.GlyphStyle{Color: col, Radius: L(7), Shape: draw.RingGlyph{}}}
 }
 
 // truncateVG shortens s with an ellipsis to fit width w in style sty.

@@ -137,6 +137,20 @@ func (r *run) report() error {
 		{"Pressure solver", fmt.Sprintf("%d solve(s), %d iterations, relative residual %s",
 			s.PressureSolver.Solves, s.PressureSolver.Iterations, fmtSci(float64(s.PressureSolver.RelativeResidual)))},
 	}
+	// Economic limits, only when one was reached (a case without limits
+	// has the report it had).
+	var shut []string
+	for _, p := range s.Producers {
+		if p.LimitDays != nil {
+			shut = append(shut, fmt.Sprintf("%s on day %s (%s)", p.Name, FormatNumber(*p.LimitDays, decimalsForDay(*p.LimitDays)), p.Limit))
+		}
+	}
+	if len(shut) > 0 {
+		d.Summary = append(d.Summary, kv{"Shut in at economic limits", strings.Join(shut, ", ")})
+	}
+	if s.FieldLimitDays != nil {
+		d.Summary = append(d.Summary, kv{"Run ended by economic limits", "day " + FormatNumber(*s.FieldLimitDays, decimalsForDay(*s.FieldLimitDays))})
+	}
 
 	// Last reported control, rate and BHP of each well.
 	last := map[string]int{}

@@ -54,6 +54,55 @@ func (r *run) perWell(t *Table, x, y string) []Series {
 	return out
 }
 
+// markLimits marks, on the series of table t (one per well, x against
+// y), the point of the report day at which each producer reached its
+// economic limit (summary.json limit_days). With stop, the curve ends
+// there: a shut-in well's water cut is not a value of the reservoir (the
+// file holds 0 for it), so the water-cut curves stop at the ring.
+func (r *run) markLimits(t *Table, x, y string, series []Series, stop bool) []Series {
+	days := map[string]float64{}
+	for _, p := range r.sum.Producers {
+		if p.LimitDays != nil {
+			days[p.Name] = *p.LimitDays
+		}
+	}
+	if len(days) == 0 || !t.Has("time_days") {
+		return series
+	}
+	count, mark := map[string]int{}, map[string]int{}
+	for row := range t.Rows {
+		name := t.Str(row, "well")
+		if math.IsNaN(t.Num(row, x)) || math.IsNaN(t.Num(row, y)) {
+			continue
+		}
+		k := count[name]
+		count[name]++
+		if d, ok := days[name]; ok && math.Abs(t.Num(row, "time_days")-d) <= 1e-9*math.Max(1, d) {
+			mark[name] = k
+		}
+	}
+	for i := range series {
+		if k, ok := mark[series[i].Name]; ok {
+			series[i].Marks = []int{k}
+			if stop && k+1 < len(series[i].X) {
+				series[i].X, series[i].Y = series[i].X[:k+1], series[i].Y[:k+1]
+			}
+		}
+	}
+	return series
+}
+
+// limitCaption is the sentence a chart caption adds when producers were
+// shut in at their economic limits.
+func (r *run) limitCaption() string {
+	for _, p := range r.sum.Producers {
+		if p.LimitDays != nil {
+			return " A ring marks the report time at which a producer reached its economic limit and was shut in."
+		}
+	}
+	return ""
+}
+
 func (r *run) chart(name string, c Chart, caption string) error {
 	rel := filepath.Join(runfolder.ChartsDir, name+"."+r.opt.Format)
 	if err := lineChart(filepath.Join(r.dir, rel), c, r.opt.Width, r.opt.Height, r.opt.Format); err != nil {
@@ -77,20 +126,20 @@ func (r *run) drawCharts() error {
 		}
 		if err := r.chart("water_cut", Chart{Title: "Water cut by producer", Subtitle: title,
 			XLabel: "Time (days)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
-			Series: r.perWell(t, "time_days", "water_cut"), YMin: 0, YMax: 1},
-			"Water cut of each producer against time."); err != nil {
+			Series: r.markLimits(t, "time_days", "water_cut", r.perWell(t, "time_days", "water_cut"), true), YMin: 0, YMax: 1},
+			"Water cut of each producer against time."+r.limitCaption()); err != nil {
 			return err
 		}
 		if err := r.chart("oil_rate", Chart{Title: "Oil rate by producer", Subtitle: title,
 			XLabel: "Time (days)", YLabel: "Oil rate (" + u.Rate + ")", LegendTitle: "Producer",
-			Series: r.perWell(t, "time_days", "oil_rate")},
-			"Oil rate of each producer (reservoir volumes)."); err != nil {
+			Series: r.markLimits(t, "time_days", "oil_rate", r.perWell(t, "time_days", "oil_rate"), false)},
+			"Oil rate of each producer (reservoir volumes)."+r.limitCaption()); err != nil {
 			return err
 		}
 		if err := r.chart("cumulative_oil", Chart{Title: "Cumulative oil by producer", Subtitle: title,
 			XLabel: "Time (days)", YLabel: "Cumulative oil (" + u.Volume + ")", LegendTitle: "Producer",
-			Series: r.perWell(t, "time_days", "cum_oil")},
-			"Cumulative oil of each producer (reservoir volumes)."); err != nil {
+			Series: r.markLimits(t, "time_days", "cum_oil", r.perWell(t, "time_days", "cum_oil"), false)},
+			"Cumulative oil of each producer (reservoir volumes)."+r.limitCaption()); err != nil {
 			return err
 		}
 	} else {
@@ -107,10 +156,20 @@ func (r *run) drawCharts() error {
 			rf = append(rf, t.Num(i, "recovery_factor"))
 			wc = append(wc, t.Num(i, "water_cut"))
 		}
+		field := []Series{{Name: "Recovery factor", X: pvi, Y: rf}, {Name: "Water cut", X: pvi, Y: wc}}
+		caption := "Field recovery factor (fraction of the original oil in place) and water cut against pore volumes injected."
+		markName := ""
+		if r.sum.FieldLimitDays != nil && len(pvi) > 0 {
+			for i := range field {
+				field[i].Marks = []int{len(pvi) - 1}
+			}
+			markName = "Run ended at field water-cut limit"
+			caption += fmt.Sprintf(" The run ended on day %s, when the field water cut reached its limit (rings).", FormatNumber(*r.sum.FieldLimitDays, 6))
+		}
 		if err := r.chart("field_performance", Chart{Title: "Field recovery and water cut", Subtitle: title,
 			XLabel: "Pore volumes injected (PVI)", YLabel: "Fraction", LegendTitle: "Field",
-			Series: []Series{{Name: "Recovery factor", X: pvi, Y: rf}, {Name: "Water cut", X: pvi, Y: wc}}, YMin: 0, YMax: 1},
-			"Field recovery factor (fraction of the original oil in place) and water cut against pore volumes injected."); err != nil {
+			Series: field, YMin: 0, YMax: 1, MarkName: markName},
+			caption); err != nil {
 			return err
 		}
 	} else {
@@ -126,8 +185,8 @@ func (r *run) drawCharts() error {
 		}
 		if err := r.chart("dynamic_curves", Chart{Title: "Dynamic curve of each producer", Subtitle: "Water cut against the average water saturation of the volume each producer drains · " + title,
 			XLabel: "Average water saturation of the drained volume (fraction)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
-			Series: r.perWell(t, "avg_water_saturation", "water_cut"), YMin: 0, YMax: 1},
-			"Dynamic curve of each producer: its water cut against the average water saturation of the pore volume that drains to it."); err != nil {
+			Series: r.markLimits(t, "avg_water_saturation", "water_cut", r.perWell(t, "avg_water_saturation", "water_cut"), true), YMin: 0, YMax: 1},
+			"Dynamic curve of each producer: its water cut against the average water saturation of the pore volume that drains to it."+r.limitCaption()); err != nil {
 			return err
 		}
 	} else {

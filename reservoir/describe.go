@@ -132,6 +132,12 @@ func Describe(m *Model) string {
 		if w.Open > 0 {
 			ctl += fmt.Sprintf(", opens day %g", w.Open)
 		}
+		if w.MaxWaterCut > 0 {
+			ctl += fmt.Sprintf(", shut at water cut %g", w.MaxWaterCut)
+		}
+		if w.MinOilRate > 0 {
+			ctl += fmt.Sprintf(", shut below oil rate %g %s", w.MinOilRate, rate)
+		}
 		fmt.Fprintf(&b, "    %-*s  %-8s  %-18s  %s\n", wn, w.Name, w.Type, CellLabel(w.I, w.J), ctl)
 	}
 	if len(m.Faults) > 0 {
@@ -163,6 +169,19 @@ func Describe(m *Model) string {
 		solves += "s"
 	}
 	fmt.Fprintf(&b, "  run         %g days, report every %g days, %d streamlines, %s\n", r.End, r.ReportEvery, r.Streamlines, solves)
+	if r.MaxWaterCut > 0 || r.MinOilRate > 0 || r.FieldMaxWaterCut > 0 {
+		var lims []string
+		if r.MaxWaterCut > 0 {
+			lims = append(lims, fmt.Sprintf("producers shut at water cut %g", r.MaxWaterCut))
+		}
+		if r.MinOilRate > 0 {
+			lims = append(lims, fmt.Sprintf("producers shut below oil rate %g %s", r.MinOilRate, rate))
+		}
+		if r.FieldMaxWaterCut > 0 {
+			lims = append(lims, fmt.Sprintf("run ends at field water cut %g", r.FieldMaxWaterCut))
+		}
+		fmt.Fprintf(&b, "  limits      %s (unless a producer gives its own; checked at the report times)\n", strings.Join(lims, ", "))
+	}
 	mem := EstimateMemory(g.NX, g.NY, r.Streamlines)
 	fmt.Fprintf(&b, "  memory      about %s for a run (%d bytes, estimate)\n", formatBytes(float64(mem)), mem)
 	if len(m.Warnings) > 0 {

@@ -277,9 +277,12 @@ func (d *decoder) readRun(m *Model, top *section) {
 	r := RunSettings{End: 3650, Streamlines: 2000, PressureUpdates: 1}
 	var s *section
 	if top.vals["run"] != nil {
-		s = d.section(top.vals["run"], "run", "", []string{"end", "report_every", "snapshots", "streamlines", "pressure_updates", "update_times"}, nil)
+		s = d.section(top.vals["run"], "run", "", []string{"end", "report_every", "snapshots", "streamlines", "pressure_updates", "update_times", "max_water_cut", "min_oil_rate", "field_max_water_cut"}, nil)
 	}
 	r.End = d.limited(s, "end", r.End, limEnd, nil)
+	r.MaxWaterCut = d.limited(s, "max_water_cut", 0, limWaterCut, nil)
+	r.MinOilRate = d.limited(s, "min_oil_rate", 0, limOilRate, nil)
+	r.FieldMaxWaterCut = d.limited(s, "field_max_water_cut", 0, limWaterCut, nil)
 	r.ReportEvery = math.Max(math.Round(r.End/120), math.Min(1, r.End))
 	r.ReportEvery = d.num(s, "report_every", r.ReportEvery, func(v float64) string {
 		switch {
@@ -545,7 +548,7 @@ func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {
 	}
 }
 
-var wellKeys = []string{"name", "type", "x", "y", "rate", "bhp", "max_bhp", "min_bhp", "radius", "skin", "open"}
+var wellKeys = []string{"name", "type", "x", "y", "rate", "bhp", "max_bhp", "min_bhp", "radius", "skin", "open", "max_water_cut", "min_oil_rate"}
 
 func (d *decoder) readWells(m *Model, top *section) {
 	items := d.list(top, "wells")
@@ -633,6 +636,13 @@ func (d *decoder) readWells(m *Model, top *section) {
 				d.fail(s, s.vals["bhp"], "bhp = %g is below its min_bhp %g", w.BHP, w.MinBHP)
 			}
 		}
+		for _, k := range []string{"max_water_cut", "min_oil_rate"} {
+			if s.has(k) && w.Type == Injector {
+				d.fail(s, s.keys[k], "%s is a producer limit; an injector has none", k)
+			}
+		}
+		w.MaxWaterCut = d.limited(s, "max_water_cut", 0, limWaterCut, nil)
+		w.MinOilRate = d.limited(s, "min_oil_rate", 0, limOilRate, nil)
 		w.Radius = d.limited(s, "radius", w.Radius, limRadius, nil)
 		w.Skin = d.limited(s, "skin", 0, limSkin, nil)
 		w.Open = d.limited(s, "open", 0, limTime, nil)

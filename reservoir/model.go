@@ -168,7 +168,12 @@ type Well struct {
 	Skin   float64
 	Open   float64 // day the well opens; 0 = from the start
 	Shut   bool    // shut in (no flow)
-	Line   int     // line in the case file, for messages
+	// MaxWaterCut and MinOilRate are a producer's economic limits (0 =
+	// none given; RunSettings gives defaults): the producer is shut in
+	// once its water cut reaches MaxWaterCut or its oil rate falls below
+	// MinOilRate. Model.ProducerLimits resolves them.
+	MaxWaterCut, MinOilRate float64
+	Line                    int // line in the case file, for messages
 }
 
 // Fluids holds the fluid properties. Formation volume factors are 1: all
@@ -219,6 +224,39 @@ type RunSettings struct {
 	Streamlines     int
 	PressureUpdates int       // number of pressure solves over the run (1 = fixed streamlines)
 	UpdateTimes     []float64 // explicit update times, if given
+	// MaxWaterCut and MinOilRate are the economic limits of every producer
+	// that gives none of its own (0 = none); FieldMaxWaterCut ends the run
+	// once the field's water cut reaches it (0 = none).
+	MaxWaterCut, MinOilRate, FieldMaxWaterCut float64
+}
+
+// ProducerLimits returns the economic limits of well i: its own
+// max_water_cut and min_oil_rate, or the run's where it gives none (0 =
+// no limit).
+func (m *Model) ProducerLimits(i int) (maxWaterCut, minOilRate float64) {
+	w := m.Wells[i]
+	maxWaterCut, minOilRate = w.MaxWaterCut, w.MinOilRate
+	if maxWaterCut == 0 {
+		maxWaterCut = m.Run.MaxWaterCut
+	}
+	if minOilRate == 0 {
+		minOilRate = m.Run.MinOilRate
+	}
+	return maxWaterCut, minOilRate
+}
+
+// HasProducerLimits reports whether some well or the run gives an
+// economic limit of a producer.
+func (m *Model) HasProducerLimits() bool {
+	if m.Run.MaxWaterCut > 0 || m.Run.MinOilRate > 0 {
+		return true
+	}
+	for _, w := range m.Wells {
+		if w.MaxWaterCut > 0 || w.MinOilRate > 0 {
+			return true
+		}
+	}
+	return false
 }
 
 // Model is a validated case. Property arrays have one value per cell,

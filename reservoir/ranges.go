@@ -109,6 +109,8 @@ const (
 	limEnd
 	limStreamlines
 	limFaultMult
+	limWaterCut
+	limOilRate
 )
 
 // Limits holds the range of every physical input. The ranges are common
@@ -158,6 +160,10 @@ var Limits = []Limit{
 		Field: Bound{1, 1e6, 100, 2e5}, Metric: Bound{1, 1e6, 100, 2e5}, Positive: true},
 	limFaultMult: {Name: "fault transmissibility multiplier", Keys: "fault `multiplier`",
 		Field: Bound{0, 1000, 0, 1}, Metric: Bound{0, 1000, 0, 1}, NonNegative: true},
+	limWaterCut: {Name: "water-cut limit (economic)", Keys: "well or `run` `max_water_cut`, `run.field_max_water_cut`",
+		Field: Bound{0, 1, 0.5, 0.999}, Metric: Bound{0, 1, 0.5, 0.999}, Positive: true, HiOpen: true},
+	limOilRate: {Name: "minimum oil rate (economic)", Keys: "well or `run` `min_oil_rate`", UnitField: "bbl/day", UnitMetric: "m3/day",
+		Field: Bound{0.01, 1e6, 1, 1e4}, Metric: Bound{0.001, 1.6e5, 0.1, 1.6e3}, Positive: true},
 }
 
 // LimitsMarkdown returns Limits as the Markdown table README.md shows.

@@ -85,6 +85,10 @@ type Summary struct {
 	PressureSolver    Solver     `json:"pressure_solver"`
 	Snapshots         []Snapshot `json:"snapshots"`
 	Warnings          []string   `json:"warnings"`
+	// FieldLimitDays is the day the field water cut reached
+	// run.field_max_water_cut and the run ended (EndDays is then that
+	// day); absent when it did not.
+	FieldLimitDays *float64 `json:"field_limit_days,omitempty"`
 }
 
 // UnitLabels names the units of lengths, pressures, rates and volumes.
@@ -139,6 +143,11 @@ type Producer struct {
 	FinalWaterCut          Float    `json:"final_water_cut"`
 	CumOil                 Float    `json:"cum_oil"`
 	CumWater               Float    `json:"cum_water"`
+	// Limit names the economic limit the producer reached ("max_water_cut"
+	// or "min_oil_rate") and LimitDays the day it did, from which it is
+	// shut in; both absent when it reached none (or the case has none).
+	Limit     string   `json:"limit,omitempty"`
+	LimitDays *float64 `json:"limit_days,omitempty"`
 }
 
 // Injector is one injector's totals in summary.json.
@@ -177,10 +186,12 @@ type Snapshot struct {
 func (s *Summary) Encode() ([]byte, error) {
 	c := *s
 	c.LorenzCoefficient = finite(c.LorenzCoefficient)
+	c.FieldLimitDays = finite(c.FieldLimitDays)
 	c.Producers = make([]Producer, len(s.Producers))
 	for i, p := range s.Producers {
 		p.TracerBreakthroughDays, p.TracerBreakthroughPVI = finite(p.TracerBreakthroughDays), finite(p.TracerBreakthroughPVI)
 		p.BreakthroughDays, p.BreakthroughPVI = finite(p.BreakthroughDays), finite(p.BreakthroughPVI)
+		p.LimitDays = finite(p.LimitDays)
 		c.Producers[i] = p
 	}
 	if s.Producers == nil {

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -181,11 +182,26 @@ func printRunSummary(r *flood.Result) {
 	_, _, _, rate, _, vol := r.Model.Units.Labels()
 	last := len(r.Times) - 1
 	fmt.Fprintf(stdout, "\n%s: %g days, %.3f pore volumes injected\n", r.Model.Title, r.Times[last], r.PVI[last])
-	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s\n", "producer", "tracer BT", "water BT", "final WC", "cum oil", "cum water")
-	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s\n", "", "days", "days", "", vol, vol)
+	limits := slices.ContainsFunc(r.Producers, func(p flood.Producer) bool { return p.Limit != "" })
+	head, units := "", ""
+	if limits {
+		head, units = fmt.Sprintf(" %-22s", "shut at limit"), fmt.Sprintf(" %-22s", "day (limit)")
+	}
+	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s%s\n", "producer", "tracer BT", "water BT", "final WC", "cum oil", "cum water", head)
+	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %14s %14s%s\n", "", "days", "days", "", vol, vol, units)
 	for _, p := range r.Producers {
-		fmt.Fprintf(stdout, "%-10s %12s %12s %10.3f %14.4g %14.4g\n", p.Name, days(p.TracerBreakthrough), days(p.Breakthrough),
-			p.WaterCut[last], p.CumOil[last], p.CumWater[last])
+		lim := ""
+		if limits {
+			lim = fmt.Sprintf(" %-22s", "-")
+			if p.Limit != "" {
+				lim = fmt.Sprintf(" %-22s", fmt.Sprintf("%g (%s)", p.LimitDay, p.Limit))
+			}
+		}
+		fmt.Fprintf(stdout, "%-10s %12s %12s %10.3f %14.4g %14.4g%s\n", p.Name, days(p.TracerBreakthrough), days(p.Breakthrough),
+			p.WaterCut[last], p.CumOil[last], p.CumWater[last], lim)
+	}
+	if r.FieldLimitDay > 0 {
+		fmt.Fprintf(stdout, "the run ended on day %g: the field water cut reached run.field_max_water_cut %g\n", r.FieldLimitDay, r.Model.Run.FieldMaxWaterCut)
 	}
 	lorenz := "n/a (no flow)"
 	if !math.IsNaN(r.Lorenz) {
@@ -195,10 +211,14 @@ func printRunSummary(r *flood.Result) {
 		100*r.RecoveryFactor[last], r.FieldWaterCut[last], lorenz, r.MassBalanceError)
 	_, _, _, _, pres, _ := r.Model.Units.Labels()
 	fmt.Fprintf(stdout, "\nwells at the end of the run (day %g); rates in %s, reservoir volumes\n", r.Times[last], rate)
-	fmt.Fprintf(stdout, "%-10s %-9s %-8s %12s %12s %12s %10s\n", "well", "type", "control", "liquid rate", "oil rate", "water rate", "BHP "+pres)
+	cw := 8 // control column: "shut_limit" widens it
+	if limits {
+		cw = len(flood.ShutLimit)
+	}
+	fmt.Fprintf(stdout, "%-10s %-9s %-*s %12s %12s %12s %10s\n", "well", "type", cw, "control", "liquid rate", "oil rate", "water rate", "BHP "+pres)
 	for _, x := range r.WellRates() {
 		if x.End {
-			fmt.Fprintf(stdout, "%-10s %-9s %-8s %12.1f %12.1f %12.1f %10.1f\n", x.Well, x.Type, x.Control, x.Rate, x.Oil, x.Water, x.BHP)
+			fmt.Fprintf(stdout, "%-10s %-9s %-*s %12.1f %12.1f %12.1f %10.1f\n", x.Well, x.Type, cw, x.Control, x.Rate, x.Oil, x.Water, x.BHP)
 		}
 	}
 	for _, in := range r.Injectors {
