@@ -4,9 +4,12 @@ import (
 	"bufio"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"slices"
+
+	"floodtrace/internal/geotiff"
 
 	"gopkg.in/yaml.v3"
 )
@@ -32,11 +35,22 @@ func (d *decoder) resolveGrid(rc *rawCase) {
 		}
 		br := bufio.NewReader(f)
 		head, _ := br.Peek(4096)
-		if !sniffRaster(head) {
+		tiff := geotiff.IsTIFF(head) || isTIFFPath(p.path)
+		if !tiff && !sniffRaster(head) {
 			f.Close()
 			continue
 		}
-		h, err := readRasterHeader(newLineReader(br, p.path, false), d.maxCells)
+		var h *Raster
+		if tiff {
+			var data []byte
+			if data, err = io.ReadAll(br); err == nil {
+				h, _, err = parseTIFF(data, p.path, d.maxCells)
+			} else {
+				err = &InputError{Path: p.path, Msg: "reading: " + err.Error(), Err: err}
+			}
+		} else {
+			h, err = readRasterHeader(newLineReader(br, p.path, false), d.maxCells)
+		}
 		f.Close()
 		if err != nil {
 			d.errs.add(err)
