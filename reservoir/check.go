@@ -114,6 +114,11 @@ func (d *decoder) loadRock(rc *rawCase) {
 			}
 			l = &loaded{vals: vals}
 			cache[p.path] = l
+			if m.CRS.WKT == "" {
+				if c, ok := readPRJ(p.path); ok && (m.CRS.EPSG == 0 || m.CRS.EPSG == c.EPSG) {
+					m.CRS = c
+				}
+			}
 		}
 		if l.used {
 			arrays[p.key] = append([]float64(nil), l.vals...)

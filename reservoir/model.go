@@ -247,6 +247,9 @@ type Model struct {
 	Faults   []Fault
 	Schedule []Event
 	Run      RunSettings
+	// CRS is the coordinate system of the map coordinates, when the case
+	// gives one (crs key or a .prj beside a raster map).
+	CRS CRS
 
 	// Warnings are the problems Load found that do not stop a run (values
 	// outside their usual range, cells made inactive by NODATA, ...), each
