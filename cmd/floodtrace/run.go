@@ -17,7 +17,7 @@ import (
 )
 
 var runFlags struct {
-	rasters string
+	rasters     string
 	out         string
 	force       bool
 	streamlines int
