@@ -103,7 +103,16 @@ func (d *decoder) loadRock(rc *rawCase) {
 		}
 		l, ok := cache[p.path]
 		if !ok {
-			vals, _, err := readMapFile(p.path, &g, rc.gridFrom, d.maxCells)
+			var vals []float64
+			var err error
+			if p.key == "active" && isGeoJSONPath(p.path) {
+				var data []byte
+				if data, err = os.ReadFile(p.path); err == nil {
+					vals, err = ReadOutline(data, p.path, g)
+				}
+			} else {
+				vals, _, err = readMapFile(p.path, &g, rc.gridFrom, d.maxCells)
+			}
 			if err != nil {
 				if errors.Is(err, os.ErrNotExist) {
 					d.mapOpenError(p, err)
@@ -268,21 +277,21 @@ func (d *decoder) placeWells(m *Model, wellsLine int) {
 		w := &m.Wells[n]
 		i, j, ok := g.Locate(w.X, w.Y)
 		if !ok {
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"point (%g, %g) lies outside the grid (x from %g to %g, y from %g to %g)",
 				w.X, w.Y, g.X0, g.X0+g.Width(), g.Y0, g.Y0+g.Height())})
 			continue
 		}
 		w.I, w.J, w.Cell = i, j, g.Index(i, j)
 		if !m.Active[w.Cell] {
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"point (%g, %g) lies in inactive %s (outside the reservoir or NODATA in a map; cells counted from 0 at the south-west corner)",
 				w.X, w.Y, CellLabel(i, j))})
 			continue
 		}
 		if o, dup := byCell[w.Cell]; dup {
 			ow := m.Wells[o]
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"shares %s with well %s (line %d); one well per cell (cells counted from 0 at the south-west corner)",
 				CellLabel(i, j), ow.Name, ow.Line)})
 			continue
@@ -326,7 +335,7 @@ func (d *decoder) checkWellRadii(m *Model) {
 	for _, w := range m.Wells {
 		ro := peacemanRadius(m.PermEast[w.Cell], m.PermNorth[w.Cell], m.Grid.DX, m.Grid.DY)
 		if den := math.Log(ro/w.Radius) + w.Skin; !(den > 0) {
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"radius %g %s with skin %g gives ln(ro/rw) + skin = %.3g <= 0 for the Peaceman equivalent radius ro = %.3g %s of %s; use a smaller radius or skin, or larger cells",
 				w.Radius, length, w.Skin, den, ro, length, CellLabel(w.I, w.J))})
 		}
@@ -340,7 +349,7 @@ func (d *decoder) applyFaults(m *Model) {
 	g := m.Grid
 	for n, f := range m.Faults {
 		if counts[n] == 0 {
-			d.errs.add(&InputError{Path: d.path, Line: f.Line, Msg: fmt.Sprintf(
+			d.errs.add(&InputError{Path: d.srcPath(f.Source), Line: f.Line, Msg: fmt.Sprintf(
 				"fault %q crosses no face between two cells (the grid spans x from %g to %g, y from %g to %g)",
 				f.Name, g.X0, g.X0+g.Width(), g.Y0, g.Y0+g.Height())})
 		}

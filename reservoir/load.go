@@ -270,10 +270,18 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	}
 	if top.vals["wells"] != nil {
 		rc.wellsNode = top.keys["wells"]
-		d.readWells(m, top)
+		d.readListOrFile(top, "wells", func() { d.readWells(m, top) }, func(src string) {
+			for i := range m.Wells {
+				m.Wells[i].Source = src
+			}
+		})
 	}
 	if top.has("faults") {
-		d.readFaults(m, top)
+		d.readListOrFile(top, "faults", func() { d.readFaults(m, top) }, func(src string) {
+			for i := range m.Faults {
+				m.Faults[i].Source = src
+			}
+		})
 	}
 	if top.has("schedule") {
 		d.readSchedule(m, top)

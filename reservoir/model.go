@@ -169,6 +169,9 @@ type Well struct {
 	Open   float64 // day the well opens; 0 = from the start
 	Shut   bool    // shut in (no flow)
 	Line   int     // line in the case file, for messages
+	// Source is the file the well came from when the case's wells key
+	// names a well file ("" for the case file); Line is then its line.
+	Source string
 }
 
 // Fluids holds the fluid properties. Formation volume factors are 1: all
@@ -196,6 +199,9 @@ type Fault struct {
 	Trace      [][2]float64
 	Multiplier float64
 	Line       int
+	// Source is the file the fault came from when the case's faults key
+	// names a GeoJSON file ("" for the case file).
+	Source string
 }
 
 // Event is a schedule change to one well at a given time. Unset fields are
