@@ -73,7 +73,7 @@ func (d *decoder) resolveGrid(rc *rawCase) {
 		d.cellCountWarning(p.path, 0, m.Grid)
 		return
 	}
-	d.errs.add(&InputError{Path: d.path, Line: rc.rockLine, Msg: "no grid: the case has no grid section and none of the rock maps is a GIS ASCII raster whose header could define it"})
+	d.errs.add(&InputError{Path: d.path, Line: rc.rockLine, Msg: "no grid: the case has no grid section and none of the rock maps is a GIS ASCII raster or a GeoTIFF whose header could define it"})
 }
 
 func (d *decoder) mapOpenError(p propSpec, err error) {
@@ -110,6 +110,12 @@ func (d *decoder) loadRock(rc *rawCase) {
 				if data, err = os.ReadFile(p.path); err == nil {
 					vals, err = ReadOutline(data, p.path, g)
 				}
+			} else if isTIFFPath(p.path) {
+				var epsg int
+				vals, epsg, err = readTIFFMapFile(p.path, &g, rc.gridFrom, d.maxCells)
+				if err == nil && !m.CRS.Known() && epsg > 0 {
+					m.CRS = CRS{EPSG: epsg, From: p.path}
+				}
 			} else {
 				vals, _, err = readMapFile(p.path, &g, rc.gridFrom, d.maxCells)
 			}
@@ -123,7 +129,7 @@ func (d *decoder) loadRock(rc *rawCase) {
 			}
 			l = &loaded{vals: vals}
 			cache[p.path] = l
-			if m.CRS.WKT == "" {
+			if m.CRS.WKT == "" && !isGeoJSONPath(p.path) {
 				if c, ok := readPRJ(p.path); ok && (m.CRS.EPSG == 0 || m.CRS.EPSG == c.EPSG) {
 					m.CRS = c
 				}

@@ -1,6 +1,9 @@
 package reservoir
 
 import (
+	"bytes"
+
+	"floodtrace/internal/geotiff"
 	"os"
 	"path/filepath"
 	"strings"
@@ -72,5 +75,29 @@ func TestCRS(t *testing.T) {
 				t.Errorf("CRS %+v, want %+v", m.CRS, c.want)
 			}
 		})
+	}
+}
+
+// TestCRSFromGeoTIFF: without a crs key or .prj, the EPSG code of a
+// GeoTIFF map's GeoKeys is the case's.
+func TestCRSFromGeoTIFF(t *testing.T) {
+	dir := t.TempDir()
+	g := Grid{NX: 4, NY: 3, DX: 100, DY: 100}
+	var b bytes.Buffer
+	if err := geotiff.Write(&b, &geotiff.Image{Width: 4, Height: 3, Values: fill(12, 150), NoData: -9999, EPSG: 32631,
+		Georef: geotiff.Georef{Left: 0, Top: g.Height(), PixelWidth: 100, PixelHeight: 100}}); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(dir, "perm.tif"), b.Bytes(), 0o644)
+	m, err := Load(writeGISCase(t, dir, "", "perm.tif"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.CRS.EPSG != 32631 || m.PermEast[5] != 150 {
+		t.Errorf("CRS %+v, perm %g", m.CRS, m.PermEast[5])
+	}
+	m, err = Load(writeGISCase(t, dir, "crs: EPSG:2154\n", "perm.tif"))
+	if err != nil || m.CRS.EPSG != 2154 {
+		t.Errorf("the crs key must win: %+v %v", m.CRS, err)
 	}
 }

@@ -596,7 +596,7 @@ func readMapFile(path string, g *Grid, gridFrom string, limit int) ([]float64, *
 		if err != nil {
 			return nil, nil, &InputError{Path: path, Msg: "reading: " + err.Error(), Err: err}
 		}
-		return readTIFFMap(path, data, g, gridFrom, limit)
+		return readTIFFMap(path, data, g, gridFrom, limit, nil)
 	}
 	raster := sniffRaster(head) || strings.EqualFold(filepath.Ext(path), ".asc")
 	if !raster {

@@ -71,12 +71,28 @@ func tiffError(path string, err error) error {
 	return &InputError{Path: path, Msg: err.Error(), Err: err}
 }
 
+// readTIFFMapFile reads the GeoTIFF map at path (readTIFFMap) and returns
+// its EPSG code too (0: none).
+func readTIFFMapFile(path string, g *Grid, gridFrom string, limit int) ([]float64, int, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, 0, openError(path, err)
+	}
+	epsg := 0
+	vals, _, err := readTIFFMap(path, data, g, gridFrom, limit, &epsg)
+	return vals, epsg, err
+}
+
 // readTIFFMap is readMapFile for a GeoTIFF: with g given, the file's
-// georeferencing must agree with it (the message names the tag).
-func readTIFFMap(path string, data []byte, g *Grid, gridFrom string, limit int) ([]float64, *Grid, error) {
+// georeferencing must agree with it (the message names the tag). The EPSG
+// code of the file goes to *epsg when epsg is not nil.
+func readTIFFMap(path string, data []byte, g *Grid, gridFrom string, limit int, epsg *int) ([]float64, *Grid, error) {
 	h, f, err := parseTIFF(data, path, limit)
 	if err != nil {
 		return nil, nil, err
+	}
+	if epsg != nil {
+		*epsg = f.EPSG
 	}
 	if g != nil {
 		if hv, gv := headerMismatch(h.Grid, *g); hv != "" {
