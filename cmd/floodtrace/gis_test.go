@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -79,5 +80,40 @@ func TestRastersFlag(t *testing.T) {
 	}
 	if !bytes.Contains(tif["summary.json"], []byte(`"saturation_365.tif"`)) {
 		t.Error("summary.json does not name the .tif snapshots")
+	}
+}
+
+// TestProjectionReachesGIS runs the GIS demo with a .prj beside perm.tif
+// (the WKT of EPSG:32631, WGS 84 / UTM zone 31N, written out here) and
+// checks with GDAL's gdalinfo (Debian gdal-bin; skipped when absent) that
+// an output ASCII raster, a GeoTIFF raster and streamlines.geojson carry
+// that system.
+func TestProjectionReachesGIS(t *testing.T) {
+	if _, err := exec.LookPath("gdalinfo"); err != nil {
+		t.Skip("gdalinfo not installed (Debian package gdal-bin)")
+	}
+	src := t.TempDir()
+	for _, f := range []string{"case.yaml", "perm.tif", "poro.tif", "outline.geojson", "wells.geojson", "faults.geojson"} {
+		b, err := os.ReadFile(filepath.Join("..", "..", "examples", "vardel-gis", f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		os.WriteFile(filepath.Join(src, f), b, 0o644)
+	}
+	wkt := `PROJCS["WGS 84 / UTM zone 31N",GEOGCS["WGS 84",DATUM["WGS_1984",SPHEROID["WGS 84",6378137,298.257223563,AUTHORITY["EPSG","7030"]],AUTHORITY["EPSG","6326"]],PRIMEM["Greenwich",0,AUTHORITY["EPSG","8901"]],UNIT["degree",0.0174532925199433,AUTHORITY["EPSG","9122"]],AUTHORITY["EPSG","4326"]],PROJECTION["Transverse_Mercator"],PARAMETER["latitude_of_origin",0],PARAMETER["central_meridian",3],PARAMETER["scale_factor",0.9996],PARAMETER["false_easting",500000],PARAMETER["false_northing",0],UNIT["metre",1,AUTHORITY["EPSG","9001"]],AXIS["Easting",EAST],AXIS["Northing",NORTH],AUTHORITY["EPSG","32631"]]`
+	os.WriteFile(filepath.Join(src, "perm.prj"), []byte(wkt), 0o644)
+	for _, format := range []string{"asc", "tif"} {
+		out := t.TempDir()
+		if code, _, e := run(t, "run", filepath.Join(src, "case.yaml"), "--out", out, "--no-pictures", "-q", "--rasters", format); code != 0 {
+			t.Fatalf("code %d: %s", code, e)
+		}
+		info, err := exec.Command("gdalinfo", filepath.Join(out, "tof."+format)).CombinedOutput()
+		if err != nil || !strings.Contains(string(info), `ID["EPSG",32631]`) {
+			t.Errorf("gdalinfo tof.%s: %v\n%s", format, err, info)
+		}
+		gj, _ := os.ReadFile(filepath.Join(out, "streamlines.geojson"))
+		if !bytes.Contains(gj, []byte(`"crs":{"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::32631"}}`)) {
+			t.Errorf("streamlines.geojson (%s run) has no crs member", format)
+		}
 	}
 }
