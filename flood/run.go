@@ -96,6 +96,10 @@ type WellRecord struct {
 type Result struct {
 	Model  *reservoir.Model
 	Engine Engine
+	// Rasters is the format WriteData writes the rasters in:
+	// runfolder.RastersASC (or "") for GIS ASCII grids,
+	// runfolder.RastersTIF for GeoTIFF.
+	Rasters string
 	// Pressure is the first pressure solution and Trace its streamlines.
 	// In a fixed-streamline run the lines' Cells and Tau are released once
 	// mapped (the run keeps them in its own flat arrays); Path, fluxes,

@@ -81,7 +81,7 @@ func (r *Result) Summary() *runfolder.Summary {
 		s.EndDays = F(r.FieldLimitDay)
 	}
 	for _, sn := range r.Snapshots {
-		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: runfolder.SnapshotName(sn.Time)})
+		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: runfolder.RasterName(runfolder.SnapshotName(sn.Time), r.Rasters)})
 	}
 	return s
 }
@@ -178,9 +178,21 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 		return err
 	}
 	raster := func(name string, v []float64) error {
-		return d.Create(name, func(w io.Writer) error {
-			return runfolder.WriteRaster(w, m.Grid, v, m.Active)
-		})
+		name = runfolder.RasterName(name, r.Rasters)
+		var err error
+		if r.Rasters == runfolder.RastersTIF {
+			err = d.Create(name, func(w io.Writer) error {
+				return runfolder.WriteRasterTIF(w, m.Grid, v, m.Active, m.CRS.EPSG)
+			})
+		} else {
+			err = d.Create(name, func(w io.Writer) error {
+				return runfolder.WriteRaster(w, m.Grid, v, m.Active)
+			})
+		}
+		if err != nil || m.CRS.WKT == "" {
+			return err
+		}
+		return d.Bytes(runfolder.PRJName(name), []byte(m.CRS.WKT+"\n"))
 	}
 	if r.Pressure != nil {
 		if err := raster(runfolder.PressureFile, r.Pressure.P); err != nil {
@@ -231,7 +243,13 @@ func (r *Result) WriteSummary(d *outdir.Dir) error {
 
 func (r *Result) writeGeoJSON(w io.Writer) error {
 	m := r.Model
-	if _, err := io.WriteString(w, `{"type":"FeatureCollection","features":[`); err != nil {
+	head := `{"type":"FeatureCollection",`
+	if m.CRS.EPSG > 0 {
+		// The named-CRS member of the 2008 GeoJSON specification (Butler
+		// et al., 2008), which GIS programs still read.
+		head += `"crs":{"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::` + strconv.Itoa(m.CRS.EPSG) + `"}},`
+	}
+	if _, err := io.WriteString(w, head+`"features":[`); err != nil {
 		return err
 	}
 	name := func(buf []byte, i int) []byte {

@@ -202,13 +202,20 @@ type frameFile struct {
 // sorted by day.
 func listDays(dir string) []frameFile {
 	m, _ := filepath.Glob(filepath.Join(dir, runfolder.SnapshotGlob))
+	if len(m) == 0 {
+		m, _ = filepath.Glob(filepath.Join(dir, runfolder.RasterName(runfolder.SnapshotGlob, runfolder.RastersTIF)))
+	}
 	var out []frameFile
 	for _, p := range m {
-		d, ok := runfolder.SnapshotDay(filepath.Base(p))
+		base := filepath.Base(p)
+		if strings.HasSuffix(base, ".tif") {
+			base = strings.TrimSuffix(base, ".tif") + ".asc" // SnapshotDay reads the ASCII name
+		}
+		d, ok := runfolder.SnapshotDay(base)
 		if !ok {
 			continue
 		}
-		out = append(out, frameFile{Day: d, Path: p, Name: strings.TrimSuffix(filepath.Base(p), ".asc")})
+		out = append(out, frameFile{Day: d, Path: p, Name: strings.TrimSuffix(filepath.Base(p), filepath.Ext(p))})
 	}
 	sort.Slice(out, func(a, b int) bool { return out[a].Day < out[b].Day })
 	return out

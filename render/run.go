@@ -192,7 +192,7 @@ func (r *run) prepare() error {
 	if len(sat0) > 0 {
 		candidates = append(candidates, sat0[0].Path)
 	}
-	candidates = append(candidates, filepath.Join(r.dir, runfolder.TOFFile), filepath.Join(r.dir, runfolder.PressureFile))
+	candidates = append(candidates, runfolder.FindRaster(r.dir, runfolder.TOFFile), runfolder.FindRaster(r.dir, runfolder.PressureFile))
 	for i, p := range candidates {
 		if !exists(p) {
 			continue
@@ -249,7 +249,7 @@ func (r *run) prepare() error {
 	// Time of flight: stagnant corners reach huge values, so the scale
 	// spans the 1st to 99th percentiles and the bar shows the clipping.
 	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
-	if p := filepath.Join(r.dir, runfolder.TOFFile); exists(p) {
+	if p := runfolder.FindRaster(r.dir, runfolder.TOFFile); exists(p) {
 		v, err := readASC(p, g)
 		if err != nil {
 			return err
@@ -312,7 +312,7 @@ func (r *run) snapshotFiles() []frameFile {
 		}
 		p := filepath.Join(r.dir, filepath.Base(name))
 		if exists(p) {
-			out = append(out, frameFile{Day: float64(s.TimeDays), Path: p, Name: strings.TrimSuffix(filepath.Base(name), ".asc")})
+			out = append(out, frameFile{Day: float64(s.TimeDays), Path: p, Name: strings.TrimSuffix(filepath.Base(name), filepath.Ext(name))})
 		}
 	}
 	if len(r.sum.Snapshots) == 0 {
@@ -443,7 +443,7 @@ func (r *run) streamlineMap() error {
 }
 
 func (r *run) tofMap() error {
-	p := filepath.Join(r.dir, runfolder.TOFFile)
+	p := runfolder.FindRaster(r.dir, runfolder.TOFFile)
 	if !exists(p) {
 		r.rep.note("tof.asc missing: no time-of-flight map")
 		return nil
@@ -479,7 +479,7 @@ func (r *run) partitionMaps() error {
 		{"injector_partition", "Injector partition", "Injector partition · which injector floods each cell", "Injector partition: the injector whose water reaches each cell first."},
 		{"producer_partition", "Producer partition", "Producer partition · which producer drains each cell", "Producer partition: the producer each cell drains to."},
 	} {
-		p := filepath.Join(r.dir, pm.file+".asc")
+		p := runfolder.FindRaster(r.dir, pm.file+".asc")
 		if !exists(p) {
 			r.rep.note("%s.asc missing: no %s map", pm.file, strings.ToLower(pm.title))
 			continue
@@ -514,7 +514,7 @@ func (r *run) partitionMaps() error {
 }
 
 func (r *run) pressureMap() error {
-	p := filepath.Join(r.dir, runfolder.PressureFile)
+	p := runfolder.FindRaster(r.dir, runfolder.PressureFile)
 	if !exists(p) {
 		r.rep.note("pressure.asc missing: no pressure map")
 		return nil

@@ -4,9 +4,12 @@ import (
 	"bufio"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"slices"
+
+	"floodtrace/internal/geotiff"
 
 	"gopkg.in/yaml.v3"
 )
@@ -32,11 +35,22 @@ func (d *decoder) resolveGrid(rc *rawCase) {
 		}
 		br := bufio.NewReader(f)
 		head, _ := br.Peek(4096)
-		if !sniffRaster(head) {
+		tiff := geotiff.IsTIFF(head) || isTIFFPath(p.path)
+		if !tiff && !sniffRaster(head) {
 			f.Close()
 			continue
 		}
-		h, err := readRasterHeader(newLineReader(br, p.path, false), d.maxCells)
+		var h *Raster
+		if tiff {
+			var data []byte
+			if data, err = io.ReadAll(br); err == nil {
+				h, _, err = parseTIFF(data, p.path, d.maxCells)
+			} else {
+				err = &InputError{Path: p.path, Msg: "reading: " + err.Error(), Err: err}
+			}
+		} else {
+			h, err = readRasterHeader(newLineReader(br, p.path, false), d.maxCells)
+		}
 		f.Close()
 		if err != nil {
 			d.errs.add(err)
@@ -59,7 +73,7 @@ func (d *decoder) resolveGrid(rc *rawCase) {
 		d.cellCountWarning(p.path, 0, m.Grid)
 		return
 	}
-	d.errs.add(&InputError{Path: d.path, Line: rc.rockLine, Msg: "no grid: the case has no grid section and none of the rock maps is a GIS ASCII raster whose header could define it"})
+	d.errs.add(&InputError{Path: d.path, Line: rc.rockLine, Msg: "no grid: the case has no grid section and none of the rock maps is a GIS ASCII raster or a GeoTIFF whose header could define it"})
 }
 
 func (d *decoder) mapOpenError(p propSpec, err error) {
@@ -89,7 +103,22 @@ func (d *decoder) loadRock(rc *rawCase) {
 		}
 		l, ok := cache[p.path]
 		if !ok {
-			vals, _, err := readMapFile(p.path, &g, rc.gridFrom, d.maxCells)
+			var vals []float64
+			var err error
+			if p.key == "active" && isGeoJSONPath(p.path) {
+				var data []byte
+				if data, err = os.ReadFile(p.path); err == nil {
+					vals, err = ReadOutline(data, p.path, g)
+				}
+			} else if isTIFFPath(p.path) {
+				var epsg int
+				vals, epsg, err = readTIFFMapFile(p.path, &g, rc.gridFrom, d.maxCells)
+				if err == nil && !m.CRS.Known() && epsg > 0 {
+					m.CRS = CRS{EPSG: epsg, From: p.path}
+				}
+			} else {
+				vals, _, err = readMapFile(p.path, &g, rc.gridFrom, d.maxCells)
+			}
 			if err != nil {
 				if errors.Is(err, os.ErrNotExist) {
 					d.mapOpenError(p, err)
@@ -100,6 +129,11 @@ func (d *decoder) loadRock(rc *rawCase) {
 			}
 			l = &loaded{vals: vals}
 			cache[p.path] = l
+			if m.CRS.WKT == "" && !isGeoJSONPath(p.path) {
+				if c, ok := readPRJ(p.path); ok && (m.CRS.EPSG == 0 || m.CRS.EPSG == c.EPSG) {
+					m.CRS = c
+				}
+			}
 		}
 		if l.used {
 			arrays[p.key] = append([]float64(nil), l.vals...)
@@ -249,21 +283,21 @@ func (d *decoder) placeWells(m *Model, wellsLine int) {
 		w := &m.Wells[n]
 		i, j, ok := g.Locate(w.X, w.Y)
 		if !ok {
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"point (%g, %g) lies outside the grid (x from %g to %g, y from %g to %g)",
 				w.X, w.Y, g.X0, g.X0+g.Width(), g.Y0, g.Y0+g.Height())})
 			continue
 		}
 		w.I, w.J, w.Cell = i, j, g.Index(i, j)
 		if !m.Active[w.Cell] {
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"point (%g, %g) lies in inactive %s (outside the reservoir or NODATA in a map; cells counted from 0 at the south-west corner)",
 				w.X, w.Y, CellLabel(i, j))})
 			continue
 		}
 		if o, dup := byCell[w.Cell]; dup {
 			ow := m.Wells[o]
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"shares %s with well %s (line %d); one well per cell (cells counted from 0 at the south-west corner)",
 				CellLabel(i, j), ow.Name, ow.Line)})
 			continue
@@ -307,7 +341,7 @@ func (d *decoder) checkWellRadii(m *Model) {
 	for _, w := range m.Wells {
 		ro := peacemanRadius(m.PermEast[w.Cell], m.PermNorth[w.Cell], m.Grid.DX, m.Grid.DY)
 		if den := math.Log(ro/w.Radius) + w.Skin; !(den > 0) {
-			d.errs.add(&WellError{Path: d.path, Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
+			d.errs.add(&WellError{Path: d.srcPath(w.Source), Line: w.Line, Well: w.Name, Msg: fmt.Sprintf(
 				"radius %g %s with skin %g gives ln(ro/rw) + skin = %.3g <= 0 for the Peaceman equivalent radius ro = %.3g %s of %s; use a smaller radius or skin, or larger cells",
 				w.Radius, length, w.Skin, den, ro, length, CellLabel(w.I, w.J))})
 		}
@@ -321,7 +355,7 @@ func (d *decoder) applyFaults(m *Model) {
 	g := m.Grid
 	for n, f := range m.Faults {
 		if counts[n] == 0 {
-			d.errs.add(&InputError{Path: d.path, Line: f.Line, Msg: fmt.Sprintf(
+			d.errs.add(&InputError{Path: d.srcPath(f.Source), Line: f.Line, Msg: fmt.Sprintf(
 				"fault %q crosses no face between two cells (the grid spans x from %g to %g, y from %g to %g)",
 				f.Name, g.X0, g.X0+g.Width(), g.Y0, g.Y0+g.Height())})
 		}

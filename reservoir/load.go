@@ -199,7 +199,7 @@ func firstInvalidUTF8(b []byte) int {
 	return len(b)
 }
 
-var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run"}
+var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs"}
 
 // firstPass reads every section of the YAML into the model without
 // touching map files or allocating per-cell arrays (except the relative
@@ -232,6 +232,14 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 		m.Units = Field // for defaults while the other sections are read
 	}
 	d.units = m.Units
+	if top.has("crs") {
+		v := top.vals["crs"]
+		if c, ok := ParseEPSG(v.Value); ok && v.Kind == yaml.ScalarNode {
+			m.CRS = CRS{EPSG: c, From: fmt.Sprintf("%s:%d", d.path, v.Line)}
+		} else {
+			d.fail(top, v, "crs must be EPSG:n with n from 1 to 32766 (the map coordinates' EPSG code), found %s", yamldoc.Describe(v))
+		}
+	}
 	d.readRun(m, top)
 	if top.has("grid") {
 		rc.gridNode = top.keys["grid"]
@@ -262,10 +270,18 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	}
 	if top.vals["wells"] != nil {
 		rc.wellsNode = top.keys["wells"]
-		d.readWells(m, top)
+		d.readListOrFile(top, "wells", func() { d.readWells(m, top) }, func(src string) {
+			for i := range m.Wells {
+				m.Wells[i].Source = src
+			}
+		})
 	}
 	if top.has("faults") {
-		d.readFaults(m, top)
+		d.readListOrFile(top, "faults", func() { d.readFaults(m, top) }, func(src string) {
+			for i := range m.Faults {
+				m.Faults[i].Source = src
+			}
+		})
 	}
 	if top.has("schedule") {
 		d.readSchedule(m, top)

@@ -14,6 +14,7 @@ import (
 	"sync/atomic"
 	"unsafe"
 
+	"floodtrace/internal/geotiff"
 	"floodtrace/internal/parallel"
 )
 
@@ -568,9 +569,10 @@ func sniffRaster(data []byte) bool {
 	return false
 }
 
-// ReadMap reads the map file at path, a GIS ASCII raster or a plain
-// matrix, told apart by the raster header (a file named .asc must have
-// one). With g == nil the map must be a raster and its header defines the
+// ReadMap reads the map file at path, a GeoTIFF (by its signature or a
+// .tif/.tiff name, see ReadGeoTIFF), a GIS ASCII raster or a plain matrix,
+// the last two told apart by the raster header (a file named .asc must
+// have one). With g == nil the map must be a raster and its header defines the
 // returned grid; otherwise the values must fit g: a raster header that
 // disagrees with g is an error naming both, and a plain matrix must have
 // g.NY rows of g.NX values. Values are indexed k = j*NX + i with j = 0 the
@@ -589,6 +591,13 @@ func readMapFile(path string, g *Grid, gridFrom string, limit int) ([]float64, *
 	defer f.Close()
 	br := bufio.NewReaderSize(f, 64*1024)
 	head, _ := br.Peek(4096)
+	if geotiff.IsTIFF(head) || isTIFFPath(path) {
+		data, err := io.ReadAll(br)
+		if err != nil {
+			return nil, nil, &InputError{Path: path, Msg: "reading: " + err.Error(), Err: err}
+		}
+		return readTIFFMap(path, data, g, gridFrom, limit, nil)
+	}
 	raster := sniffRaster(head) || strings.EqualFold(filepath.Ext(path), ".asc")
 	if !raster {
 		if g == nil {

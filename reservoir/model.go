@@ -174,6 +174,9 @@ type Well struct {
 	// MinOilRate. Model.ProducerLimits resolves them.
 	MaxWaterCut, MinOilRate float64
 	Line                    int // line in the case file, for messages
+	// Source is the file the well came from when the case's wells key
+	// names a well file ("" for the case file); Line is then its line.
+	Source string
 }
 
 // Fluids holds the fluid properties. Formation volume factors are 1: all
@@ -201,6 +204,9 @@ type Fault struct {
 	Trace      [][2]float64
 	Multiplier float64
 	Line       int
+	// Source is the file the fault came from when the case's faults key
+	// names a GeoJSON file ("" for the case file).
+	Source string
 }
 
 // Event is a schedule change to one well at a given time. Unset fields are
@@ -285,6 +291,9 @@ type Model struct {
 	Faults   []Fault
 	Schedule []Event
 	Run      RunSettings
+	// CRS is the coordinate system of the map coordinates, when the case
+	// gives one (crs key or a .prj beside a raster map).
+	CRS CRS
 
 	// Warnings are the problems Load found that do not stop a run (values
 	// outside their usual range, cells made inactive by NODATA, ...), each

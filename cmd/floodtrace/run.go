@@ -18,6 +18,7 @@ import (
 )
 
 var runFlags struct {
+	rasters     string
 	out         string
 	force       bool
 	streamlines int
@@ -65,6 +66,7 @@ Examples:
 			fs.IntVar(&runFlags.workers, "workers", 0, "goroutines for tracing (default: all cores; results do not depend on it)")
 			fs.StringVar(&runFlags.size, "size", "1920x1080", "picture size WxH")
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
+			fs.StringVar(&runFlags.rasters, "rasters", runfolder.RastersASC, "raster format: asc (GIS ASCII grids) or tif (GeoTIFF: float32, Deflate, tiled)")
 			runFlags.frames = framesValue(runfolder.FramesAuto)
 			fs.Var(&runFlags.frames, "frames", "saturation maps kept for the animation: auto (up to 40, fewer on very large grids), none, or a count from 1 to 1000")
 
@@ -92,6 +94,9 @@ func runRun(args []string) error {
 	}
 	if runFlags.format != "png" && runFlags.format != "svg" {
 		return usageError{fmt.Sprintf("--format must be png or svg, not %q", runFlags.format)}
+	}
+	if runFlags.rasters != runfolder.RastersASC && runFlags.rasters != runfolder.RastersTIF {
+		return usageError{fmt.Sprintf("--rasters must be asc or tif, not %q", runFlags.rasters)}
 	}
 	if runFlags.noPictures {
 		if runFlags.pictures != "all" && runFlags.pictures != "none" {
@@ -131,6 +136,7 @@ func runRun(args []string) error {
 	if err != nil {
 		return err
 	}
+	res.Rasters = runFlags.rasters
 	logf("writing %s", runFlags.out)
 	if err := res.WriteData(d); err != nil {
 		return err
