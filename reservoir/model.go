@@ -164,11 +164,14 @@ type Well struct {
 	// UnitSystem.Atmospheric by package pressure at solve time, not here.
 	MaxBHP float64
 	MinBHP float64
-	Radius float64
-	Skin   float64
-	Open   float64 // day the well opens; 0 = from the start
-	Shut   bool    // shut in (no flow)
-	Line   int     // line in the case file, for messages
+	// MinRate and MaxRate bound the rate floodtrace balance may give an
+	// injector (0 = no bound given); a run does not use them.
+	MinRate, MaxRate float64
+	Radius           float64
+	Skin             float64
+	Open             float64 // day the well opens; 0 = from the start
+	Shut             bool    // shut in (no flow)
+	Line             int     // line in the case file, for messages
 }
 
 // Fluids holds the fluid properties. Formation volume factors are 1: all
