@@ -150,3 +150,7 @@ func ratio(a, b float64) float64 {
 	}
 	return a / b
 }
+
+// InjectorRate returns the rate of the named well at the run's first
+// pressure solve, from the well log (0 when there is no such well).
+func (r *Result) InjectorRate(name string) float64 { return r.rateAt(name, 0) }
