@@ -243,6 +243,8 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	logf("current rates: objective %.6g", cur.Objective)
 	best := cur
 	step := s.MaxStep
+	var grad []float64
+	var gradAt *Forecast
 	for it := 1; it <= s.MaxIterations && step >= MinStep; it++ {
 		// Upper bounds the forecast showed: an injector held at max_bhp
 		// cannot take more than it achieved.
@@ -259,11 +261,17 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 			return project(y, lo, bhi, total)
 		}
 		props := [][]float64{projB(reallocate(best, s.Exponent, step))}
-		grad, nfd, err := fc.gradient(best, lo, bhi, s.Workers)
-		if err != nil {
-			return nil, err
+		// The gradient is that of the best rates: computed again only
+		// when a round moved them.
+		nfd := 0
+		if gradAt != best {
+			g, n, err := fc.gradient(best, lo, bhi, s.Workers)
+			if err != nil {
+				return nil, err
+			}
+			grad, gradAt, nfd = g, best, n
+			res.Forecasts += nfd
 		}
-		res.Forecasts += nfd
 		if g := gradientStepRates(best.Rates, grad, step, !s.FreeTotal); g != nil {
 			props = append(props, projB(g))
 		}

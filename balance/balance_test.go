@@ -147,3 +147,54 @@ func TestBadInput(t *testing.T) {
 	// A horizon before the end of history cannot be checked yet: cases
 	// have no history on this branch.
 }
+
+func TestProject(t *testing.T) {
+	for _, c := range []struct {
+		name      string
+		y, lo, hi []float64
+		total     float64
+		want      []float64
+	}{
+		// The Euclidean projection onto {sum = total} within the box
+		// (definition): an equal shift, then clipping and a new shift.
+		{"shift", []float64{10, 20}, []float64{0, 0}, []float64{100, 100}, 40, []float64{15, 25}},
+		{"clip low", []float64{1, 50}, []float64{5, 5}, []float64{100, 100}, 40, []float64{5, 35}},
+		{"clip high", []float64{90, 10, 10}, []float64{0, 0, 0}, []float64{50, 50, 50}, 90, []float64{50, 20, 20}},
+	} {
+		got := project(c.y, c.lo, c.hi, c.total)
+		for j := range got {
+			if math.Abs(got[j]-c.want[j]) > 1e-9 {
+				t.Errorf("%s: project = %v, want %v", c.name, got, c.want)
+				break
+			}
+		}
+	}
+}
+
+func TestFreeTotalWithinLimits(t *testing.T) {
+	m := thief(t)
+	res, err := Balance(m, Settings{FreeTotal: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, in := range res.Injectors {
+		w := m.Wells[in.Well]
+		if in.RateRecommended < w.MinRate*(1-1e-12) || in.RateRecommended > w.MaxRate*(1+1e-12) {
+			t.Errorf("%s: recommended %g outside [%g, %g]", in.Name, in.RateRecommended, w.MinRate, w.MaxRate)
+		}
+	}
+	if !(res.Recommended.Objective >= res.Now.Objective) {
+		t.Errorf("recommended %g below current %g", res.Recommended.Objective, res.Now.Objective)
+	}
+	t.Logf("free total: %g -> %g, oil %g -> %g", res.TotalNow, res.TotalRecommended, res.Now.Objective, res.Recommended.Objective)
+	// All producers on rate control: the total cannot move.
+	for i := range m.Wells {
+		if m.Wells[i].Type == reservoir.Producer {
+			m.Wells[i].Control, m.Wells[i].Rate = reservoir.RateControl, 100
+		}
+	}
+	var ie *reservoir.InputError
+	if _, err := Balance(m, Settings{FreeTotal: true}); !errors.As(err, &ie) || !strings.Contains(err.Error(), "BHP control") {
+		t.Errorf("free total with every well on rate control: %v", err)
+	}
+}
