@@ -144,10 +144,10 @@ func printBalance(r *balance.Result) {
 	}
 	gain := r.Recommended.Objective - r.Now.Objective
 	if r.Improved {
-		fmt.Fprintf(stdout, "oil at day %g: %.6g %s now, %.6g recommended (%+.4g, %+.2f%%); total injection %.1f -> %.1f %s\n", r.Horizon,
+		fmt.Fprintf(stdout, "oil at day %g: %.0f %s now, %.0f recommended (%+.0f, %+.2f%%); total injection %.1f -> %.1f %s\n", r.Horizon,
 			r.Now.Objective, vol, r.Recommended.Objective, gain, 100*gain/r.Now.Objective, r.TotalNow, r.TotalRecommended, rate)
 	} else {
-		fmt.Fprintf(stdout, "no rates found that beat the current ones (oil at day %g: %.6g %s); keep the current rates\n", r.Horizon, r.Now.Objective, vol)
+		fmt.Fprintf(stdout, "no rates found that beat the current ones (oil at day %g: %.0f %s); keep the current rates\n", r.Horizon, r.Now.Objective, vol)
 	}
 	for _, p := range r.Flagged {
 		fmt.Fprintf(stdout, "FLAG: producer %s mostly cycles water (oil %.3f of the water reaching it), fed by %v: a candidate for a rate cut, a shut-in or a conformance job\n", p.Name, p.Efficiency, p.Injectors)

@@ -64,7 +64,7 @@ func TestBalanceCommand(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, e)
 	}
 	for _, f := range []string{runfolder.BalanceFile, runfolder.BalanceJSONFile, runfolder.BalanceForecastFile, runfolder.BalancedCaseFile,
-		"charts/balance_efficiency.png", "charts/balance_oil_rate.png", "charts/balance_water_cut.png", "maps/balance_pairs_now.png", "maps/balance_pairs_recommended.png"} {
+		"report.html", "charts/balance_efficiency.png", "charts/balance_oil_rate.png", "charts/balance_water_cut.png", "maps/balance_pairs_now.png", "maps/balance_pairs_recommended.png"} {
 		if st, err := os.Stat(filepath.Join(out, f)); err != nil || st.Size() == 0 {
 			t.Errorf("%s missing or empty (%v)", f, err)
 		}
