@@ -64,9 +64,10 @@ const (
 	// times it.
 	DefaultLowFactor  = 0.1
 	DefaultHighFactor = 3.0
-	// FlagEfficiency is the producer efficiency (oil per unit of water
-	// that reaches it over the horizon) below which a producer is flagged
-	// as mostly cycling water.
+	// FlagEfficiency is the producer efficiency (its oil over the
+	// injected water reaching it, over the last report interval before
+	// the horizon of the forecast at the current rates) below which a producer is
+	// flagged as mostly cycling water.
 	FlagEfficiency = 0.05
 	// gradientStep is the relative rate change of the finite differences.
 	gradientStep = 0.05
@@ -121,8 +122,8 @@ type Iteration struct {
 	Forecasts int
 }
 
-// FlaggedProducer is a producer that mostly cycles water over the
-// horizon: a candidate for a rate cut, a shut-in or a conformance job (a
+// FlaggedProducer is a producer that mostly cycles water by the horizon
+// at the current rates (over the last report interval of their forecast): a candidate for a rate cut, a shut-in or a conformance job (a
 // flag for the engineer; balance changes no producer).
 type FlaggedProducer struct {
 	Name       string
@@ -332,7 +333,7 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	for _, k := range adj {
 		res.TotalRecommended += res.Injectors[k].RateRecommended
 	}
-	res.Flagged = flagProducers(best.Eff, best.Run)
+	res.Flagged = flagProducers(cur.Run.Efficiencies(cur.Run.RunWindow()), cur.Run)
 	return res, nil
 }
 
@@ -550,7 +551,7 @@ func injectorEfficiency(e *flood.Efficiencies, name string) float64 {
 }
 
 // flagProducers returns the producers whose oil over the water reaching
-// them over the horizon is below FlagEfficiency, with the injectors that
+// them over e's window is below FlagEfficiency, with the injectors that
 // feed them (largest water rate first).
 func flagProducers(e *flood.Efficiencies, r *flood.Result) []FlaggedProducer {
 	var out []FlaggedProducer

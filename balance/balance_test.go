@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"floodtrace/flood"
 	"floodtrace/reservoir"
 )
 
@@ -198,5 +199,42 @@ func TestFreeTotalWithinLimits(t *testing.T) {
 	var ie *reservoir.InputError
 	if _, err := Balance(m, Settings{FreeTotal: true}); !errors.As(err, &ie) || !strings.Contains(err.Error(), "BHP control") {
 		t.Errorf("free total with every well on rate control: %v", err)
+	}
+}
+
+func TestFlagProducers(t *testing.T) {
+	r := &flood.Result{Producers: []flood.Producer{{Name: "P-1"}, {Name: "P-2"}}}
+	e := &flood.Efficiencies{ProducerOil: []float64{2, 40}, ProducerInflow: []float64{100, 100},
+		Pairs: []flood.PairEfficiency{{Injector: "I-1", Producer: "P-1", WaterRate: 30}, {Injector: "I-2", Producer: "P-1", WaterRate: 70}, {Injector: "I-1", Producer: "P-2", WaterRate: 100}}}
+	got := flagProducers(e, r)
+	// P-1 makes 0.02 of the water reaching it (below FlagEfficiency 0.05),
+	// P-2 0.4: only P-1, with its injectors largest water rate first.
+	if len(got) != 1 || got[0].Name != "P-1" || math.Abs(got[0].Efficiency-0.02) > 1e-12 || strings.Join(got[0].Injectors, ",") != "I-2,I-1" {
+		t.Errorf("flagged %+v, want P-1 (0.02) fed by I-2, I-1", got)
+	}
+}
+
+func TestThiefProducerFlagged(t *testing.T) {
+	m := thief(t)
+	// By day 500 P-1 has watered out through the streak (measured: oil
+	// 0.031 of the water reaching it over days 450-500) while P-2 still
+	// makes 0.098.
+	m.Run.End, m.Run.ReportEvery = 500, 50
+	res, err := Balance(m, Settings{MaxIterations: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, f := range res.Flagged {
+		t.Logf("flagged %s (%.3f) fed by %v", f.Name, f.Efficiency, f.Injectors)
+		if f.Name == "P-1" && len(f.Injectors) > 0 && f.Injectors[0] == "I-1" {
+			found = true
+		}
+		if f.Name == "P-2" {
+			t.Errorf("P-2, the producer of the swept side, flagged")
+		}
+	}
+	if !found {
+		t.Errorf("P-1, at the end of the streak, not flagged with I-1 first: %+v", res.Flagged)
 	}
 }

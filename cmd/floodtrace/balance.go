@@ -44,7 +44,8 @@ Rate-controlled injectors are adjusted within their min_rate and max_rate (a
 tenth and three times the current rate where the case gives none); an injector
 that reaches its max_bhp in the forecast is held at the rate it takes there.
 The total injection stays the same unless --total free. Producers whose oil is
-below 0.05 of the water reaching them are flagged with the injectors that feed
+below 0.05 of the water reaching them by the horizon at the current rates are
+flagged with the injectors that feed
 them (candidates for a rate cut, a shut-in or a conformance job).
 
 DIR receives balance.csv, balance.json, balance_forecast.csv,
