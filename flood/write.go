@@ -153,6 +153,25 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 			return err
 		}
 	}
+	if len(r.Allocation) > 0 {
+		e := r.Efficiencies(r.RunWindow())
+		if err := csv(runfolder.PairsFile, func(w *bufio.Writer) {
+			w.WriteString(runfolder.Header(runfolder.PairsColumns))
+			for _, p := range e.Pairs {
+				fmt.Fprintf(w, "%s,%s,%s,%s,%s\n", p.Injector, p.Producer, runfolder.Num(p.WaterRate), runfolder.Num(p.AttributedOil), runfolder.Num(p.Efficiency))
+			}
+		}); err != nil {
+			return err
+		}
+		if err := csv(runfolder.InjectorsFile, func(w *bufio.Writer) {
+			w.WriteString(runfolder.Header(runfolder.InjectorsColumns))
+			for _, in := range e.Injectors {
+				fmt.Fprintf(w, "%s,%s,%s,%s\n", in.Name, runfolder.Num(in.Rate), runfolder.Num(in.Efficiency), runfolder.Num(in.AttributedOil))
+			}
+		}); err != nil {
+			return err
+		}
+	}
 	// The F-Phi curve and the sweep curve have different lengths: one
 	// file each, each with its own header.
 	pairs := func(name string, cols []string, x, y []float64) error {

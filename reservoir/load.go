@@ -564,7 +564,7 @@ func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {
 	}
 }
 
-var wellKeys = []string{"name", "type", "x", "y", "rate", "bhp", "max_bhp", "min_bhp", "radius", "skin", "open", "max_water_cut", "min_oil_rate"}
+var wellKeys = []string{"name", "type", "x", "y", "rate", "bhp", "max_bhp", "min_bhp", "min_rate", "max_rate", "radius", "skin", "open", "max_water_cut", "min_oil_rate"}
 
 func (d *decoder) readWells(m *Model, top *section) {
 	items := d.list(top, "wells")
@@ -659,10 +659,46 @@ func (d *decoder) readWells(m *Model, top *section) {
 		}
 		w.MaxWaterCut = d.limited(s, "max_water_cut", 0, limWaterCut, nil)
 		w.MinOilRate = d.limited(s, "min_oil_rate", 0, limOilRate, nil)
+		d.readRateLimits(s, &w)
 		w.Radius = d.limited(s, "radius", w.Radius, limRadius, nil)
 		w.Skin = d.limited(s, "skin", 0, limSkin, nil)
 		w.Open = d.limited(s, "open", 0, limTime, nil)
 		m.Wells = append(m.Wells, w)
+	}
+}
+
+// readRateLimits reads an injector's min_rate and max_rate, the range
+// floodtrace balance may set its rate in: both within the accepted rate
+// range, min_rate not above max_rate, and a rate control inside them.
+func (d *decoder) readRateLimits(s *section, w *Well) {
+	if !s.has("min_rate") && !s.has("max_rate") {
+		return
+	}
+	if w.Type == Producer {
+		key := "min_rate"
+		if !s.has(key) {
+			key = "max_rate"
+		}
+		d.fail(s, s.keys[key], "%s is an injector limit (the range floodtrace balance may set the injection rate in); a producer takes bhp or rate", key)
+		return
+	}
+	before := d.nErrs()
+	w.MinRate = d.limited(s, "min_rate", 0, limRate, positiveRate)
+	w.MaxRate = d.limited(s, "max_rate", 0, limRate, positiveRate)
+	if d.nErrs() != before {
+		return
+	}
+	if w.MinRate > 0 && w.MaxRate > 0 && w.MinRate > w.MaxRate {
+		d.fail(s, s.vals["min_rate"], "min_rate = %g is above max_rate = %g", w.MinRate, w.MaxRate)
+		return
+	}
+	if w.Control == RateControl && w.Rate > 0 {
+		if w.MinRate > 0 && w.Rate < w.MinRate {
+			d.fail(s, s.vals["rate"], "rate = %g is below its min_rate %g", w.Rate, w.MinRate)
+		}
+		if w.MaxRate > 0 && w.Rate > w.MaxRate {
+			d.fail(s, s.vals["rate"], "rate = %g is above its max_rate %g", w.Rate, w.MaxRate)
+		}
 	}
 }
 

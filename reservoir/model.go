@@ -164,10 +164,13 @@ type Well struct {
 	// UnitSystem.Atmospheric by package pressure at solve time, not here.
 	MaxBHP float64
 	MinBHP float64
-	Radius float64
-	Skin   float64
-	Open   float64 // day the well opens; 0 = from the start
-	Shut   bool    // shut in (no flow)
+	// MinRate and MaxRate bound the rate floodtrace balance may give an
+	// injector (0 = no bound given); a run does not use them.
+	MinRate, MaxRate float64
+	Radius           float64
+	Skin             float64
+	Open             float64 // day the well opens; 0 = from the start
+	Shut             bool    // shut in (no flow)
 	// MaxWaterCut and MinOilRate are a producer's economic limits (0 =
 	// none given; RunSettings gives defaults): the producer is shut in
 	// once its water cut reaches MaxWaterCut or its oil rate falls below

@@ -144,7 +144,7 @@ var Limits = []Limit{
 		Field: Bound{1, 20, 1, 8}, Metric: Bound{1, 20, 1, 8}, Positive: true},
 	limMobileRange: {Name: "mobile saturation range, 1 - swc - sor", Keys: "`relperm` (Corey or table)",
 		Field: Bound{0, 1, 0.1, 1}, Metric: Bound{0, 1, 0.1, 1}, Positive: true},
-	limRate: {Name: "well rate", Keys: "well `rate`, event `rate`", UnitField: "bbl/day", UnitMetric: "m3/day",
+	limRate: {Name: "well rate", Keys: "well `rate`, `min_rate`, `max_rate`, event `rate`", UnitField: "bbl/day", UnitMetric: "m3/day",
 		Field: Bound{0.01, 1e6, 1, 1e5}, Metric: Bound{0.001, 1.6e5, 0.1, 1.6e4}, Positive: true},
 	limBHP: {Name: "bottom-hole pressure and its limits", Keys: "well `bhp`, `max_bhp`, `min_bhp`, event `bhp`", UnitField: "psi", UnitMetric: "bar",
 		Field: Bound{0, 3e4, 14.7, 2e4}, Metric: Bound{0, 2000, 1.01325, 1400}, Positive: true},

@@ -13,6 +13,8 @@ const (
 	ProducersFile       = "producers.csv"
 	FieldFile           = "field.csv"
 	AllocationFile      = "allocation.csv"
+	PairsFile           = "pairs.csv"
+	InjectorsFile       = "injectors.csv"
 	EffectiveCurvesFile = "effective_curves.csv"
 	FPhiFile            = "f_phi.csv"
 	SweepFile           = "sweep.csv"
@@ -58,6 +60,8 @@ const (
 	ColF                  = "F"
 	ColTD                 = "tD"
 	ColSweep              = "sweep"
+	ColAttributedOilRate  = "attributed_oil_rate"
+	ColEfficiency         = "efficiency"
 )
 
 // The column headers of the CSV files, in file order.
@@ -67,6 +71,8 @@ var (
 	FieldColumns           = []string{ColTime, ColPVI, ColWaterCut, ColOilRate, ColWaterRate, ColCumOil, ColCumWater, ColRecoveryFactor}
 	AllocationColumns      = []string{ColTime, ColInjector, ColProducer, ColRate, ColFractionOfInjector, ColFractionOfProducer, ColPoreVolume}
 	EffectiveCurvesColumns = []string{ColTime, ColWell, ColAvgWaterSaturation, ColWaterCut}
+	PairsColumns           = []string{ColInjector, ColProducer, ColWaterRate, ColAttributedOilRate, ColEfficiency}
+	InjectorsColumns       = []string{ColInjector, ColRate, ColEfficiency, ColAttributedOilRate}
 	FPhiColumns            = []string{ColPhi, ColF}
 	SweepColumns           = []string{ColTD, ColSweep}
 )
