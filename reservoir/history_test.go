@@ -1,0 +1,152 @@
+package reservoir
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+	"time"
+)
+
+// historyModel is a small model with one injector, one producer that
+// opens on day 10 and a conversion of the injector to a producer on day
+// 400, starting on 2020-01-01 (a leap year).
+func historyModel() *Model {
+	return &Model{
+		Wells: []Well{
+			{Name: "I-1", Type: Injector},
+			{Name: "P-1", Type: Producer, Open: 10},
+		},
+		Schedule:  []Event{{Time: 400, Well: "I-1", Convert: Producer, Rate: math.NaN(), BHP: math.NaN()}},
+		Run:       RunSettings{End: 1000},
+		StartDate: time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC),
+	}
+}
+
+// TestDayOf: calendar arithmetic (common practice: the Gregorian calendar;
+// 2020 is a leap year, 2100 is not).
+func TestDayOf(t *testing.T) {
+	start := time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		date string
+		want float64
+	}{
+		{"2020-01-01", 0},
+		{"2020-01-31", 30},
+		{"2020-02-29", 59}, // leap day
+		{"2020-03-01", 60},
+		{"2020-12-31", 365},
+		{"2021-01-01", 366},
+		{"2021-03-01", 425}, // 366 + 59: February 2021 has 28 days
+	} {
+		got, err := DayOf(start, tc.date)
+		if err != nil || got != tc.want {
+			t.Errorf("DayOf(%s) = %g, %v; want %g", tc.date, got, err, tc.want)
+		}
+		m := &Model{StartDate: start}
+		if back := m.Date(got); back != tc.date {
+			t.Errorf("Date(%g) = %s, want %s", got, back, tc.date)
+		}
+	}
+	for _, bad := range []string{"2021-02-29", "2100-02-29", "2020-13-01", "2019-12-31"} {
+		if _, err := DayOf(start, bad); err == nil {
+			t.Errorf("DayOf(%s): no error", bad)
+		}
+	}
+	if _, err := DayOf(time.Time{}, "2020-01-31"); err == nil || !strings.Contains(err.Error(), "start_date") {
+		t.Errorf("a date without a start date: %v", err)
+	}
+}
+
+// TestParseHistory: periods of different length (month ends of a leap
+// year), periods starting where the well's previous row ended or at its
+// opening day, blanks as NaN, a conversion period with both kinds.
+func TestParseHistory(t *testing.T) {
+	m := historyModel()
+	data := "well,date,oil,water,injected,bhp\n" +
+		"P-1,2020-01-31,100,1,,\n" +
+		"I-1,2020-01-31,,,3000,3100\n" +
+		"P-1,2020-02-29,200,,,900\n" +
+		"I-1,2020-02-29,,,2900,\n" +
+		"I-1,2021-03-01,50,10,40000,\n" + // day 425: converted on day 400
+		"P-1,2020-03-31,300,5,,\n"
+	rows, err := ParseHistory("h.csv", []byte(data), m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []struct {
+		well       string
+		start, end float64
+	}{{"P-1", 10, 30}, {"I-1", 0, 30}, {"P-1", 30, 59}, {"I-1", 30, 59}, {"I-1", 59, 425}, {"P-1", 59, 90}}
+	if len(rows) != len(want) {
+		t.Fatalf("%d rows, want %d", len(rows), len(want))
+	}
+	for i, w := range want {
+		r := rows[i]
+		if r.Well != w.well || r.Start != w.start || r.End != w.end || r.Line != i+2 {
+			t.Errorf("row %d: %s [%g, %g) line %d; want %s [%g, %g) line %d", i, r.Well, r.Start, r.End, r.Line, w.well, w.start, w.end, i+2)
+		}
+	}
+	if !math.IsNaN(rows[2].Water) || rows[2].BHP != 900 || !math.IsNaN(rows[0].Injected) {
+		t.Errorf("blanks: %+v %+v", rows[2], rows[0])
+	}
+}
+
+// TestParseHistoryRefusals: each refusal names the file, the line and the
+// column.
+func TestParseHistoryRefusals(t *testing.T) {
+	for _, tc := range []struct{ name, data, want string }{
+		{"unknown well", "well,day,oil\nP-9,20,1\n", "h.csv:2: column well: unknown well"},
+		{"producer injects", "well,day,oil,injected\nP-1,20,1,5\n", "h.csv:2: column injected"},
+		{"injector produces", "well,day,oil,injected\nI-1,20,1,5\n", "h.csv:2: column oil"},
+		{"negative", "well,day,oil,bhp\nP-1,20,1,-5\n", "h.csv:2: column bhp: -5 is negative"},
+		{"order", "well,day,oil\nP-1,40,1\nP-1,30,1\n", "h.csv:3: column day"},
+		{"before opening", "well,day,oil\nP-1,5,1\n", "not after the well opens (day 10)"},
+		{"past end", "well,day,oil\nP-1,1001,1\n", "h.csv:2: column day: day 1001 is past the end"},
+		{"both times", "well,day,date\n", "h.csv:1: the header gives both date and day"},
+		{"no time", "well,oil\n", "h.csv:1: the header has no date"},
+		{"quote", "well,day,oil\nP-1,20,\"1\n", "h.csv:"},
+		{"binary", "well,day\x00", "not a text file"},
+		{"no rows", "well,day\n", "no row"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseHistory("h.csv", []byte(tc.data), historyModel())
+			var ie *InputError
+			if !errors.As(err, &ie) || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("error %v, want an InputError containing %q", err, tc.want)
+			}
+		})
+	}
+}
+
+// FuzzParseHistory: any text gives rows or an *InputError, never a panic,
+// and the rows it accepts obey the file's rules.
+func FuzzParseHistory(f *testing.F) {
+	f.Add("well,date,oil,water,injected,bhp\nP-1,2020-01-31,100,1,,\nI-1,2020-02-29,,,3000,3100\n")
+	f.Add("well,day,oil\nP-1,20,1\nP-1,30,2\n")
+	f.Add("well,day,oil,injected\nI-1,420,1,5\n")
+	f.Add("\ufeffwell,day\n\"P-1\",1e400\n")
+	f.Fuzz(func(t *testing.T, data string) {
+		m := historyModel()
+		rows, err := ParseHistory("h.csv", []byte(data), m)
+		if err != nil {
+			var ie *InputError
+			if !errors.As(err, &ie) {
+				t.Fatalf("error of type %T: %v", err, err)
+			}
+			return
+		}
+		last := map[string]float64{}
+		for _, r := range rows {
+			if m.WellIndex(r.Well) < 0 || !(r.End > r.Start) || r.End > m.Run.End || r.Start < last[r.Well] {
+				t.Fatalf("accepted a bad row %+v", r)
+			}
+			for _, v := range []float64{r.Oil, r.Water, r.Injected, r.BHP} {
+				if v < 0 || math.IsInf(v, 0) {
+					t.Fatalf("accepted value %g in %+v", v, r)
+				}
+			}
+			last[r.Well] = r.End
+		}
+	})
+}
