@@ -51,6 +51,17 @@ func (m *Model) Date(t float64) string {
 	return m.StartDate.AddDate(0, 0, int(math.Floor(t+1e-9))).Format(DateLayout)
 }
 
+// PeriodEndDate returns the date of a history period that ends at day t:
+// the day before t, since a history date is the end of its day (a period
+// ending 2019-01-31 ends at the start of 2019-02-01). "" without
+// start_date.
+func (m *Model) PeriodEndDate(t float64) string {
+	if math.IsNaN(t) {
+		return ""
+	}
+	return m.Date(t - 1)
+}
+
 // readStartDate reads start_date at the top level.
 func (d *decoder) readStartDate(m *Model, top *section) {
 	if !top.has("start_date") {

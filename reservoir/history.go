@@ -36,7 +36,9 @@ type History struct {
 	Line  int          // line of history: in the case file
 }
 
-// HistoryRow is one row of a history file: one well over one period.
+// HistoryRow is one row of a history file: one well over one period. A
+// date is the end of its day: a period ending 2019-01-31 with start_date
+// 2019-01-01 ends on day 31.
 // Volumes are surface volumes over the period in the case's units (bbl or
 // m3), NaN when not measured (a blank); BHP is the observed average
 // bottom-hole pressure, NaN when blank.
@@ -258,7 +260,7 @@ func ParseHistory(path string, data []byte, m *Model) ([]HistoryRow, error) {
 			if err != nil {
 				return nil, fail(line, "date", "%s", strings.TrimPrefix(err.Error(), "is "))
 			}
-			row.End = day
+			row.End = day + 1 // the end of the day
 		} else {
 			v, err := strconv.ParseFloat(tv, 64)
 			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {

@@ -59,8 +59,10 @@ func TestDayOf(t *testing.T) {
 }
 
 // TestParseHistory: periods of different length (month ends of a leap
-// year), periods starting where the well's previous row ended or at its
-// opening day, blanks as NaN, a conversion period with both kinds.
+// year; a date is the end of its day, so 2020-01-31 ends day 31 and
+// 2020-02-29 day 60), periods starting where the well's previous row
+// ended or at its opening day, blanks as NaN, a conversion period with
+// both kinds.
 func TestParseHistory(t *testing.T) {
 	m := historyModel()
 	data := "well,date,oil,water,injected,bhp\n" +
@@ -77,7 +79,7 @@ func TestParseHistory(t *testing.T) {
 	want := []struct {
 		well       string
 		start, end float64
-	}{{"P-1", 10, 30}, {"I-1", 0, 30}, {"P-1", 30, 59}, {"I-1", 30, 59}, {"I-1", 59, 425}, {"P-1", 59, 90}}
+	}{{"P-1", 10, 31}, {"I-1", 0, 31}, {"P-1", 31, 60}, {"I-1", 31, 60}, {"I-1", 60, 426}, {"P-1", 60, 91}}
 	if len(rows) != len(want) {
 		t.Fatalf("%d rows, want %d", len(rows), len(want))
 	}

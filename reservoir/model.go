@@ -215,7 +215,12 @@ type Event struct {
 	Shut    bool
 	Reopen  bool
 	Convert WellType // "" or the new type of the well
-	Line    int
+	// SetLimit sets the well's BHP limit to Limit (0: none): MinBHP of a
+	// producer, MaxBHP of an injector. Case files do not give it; a run
+	// driven by a production history does.
+	SetLimit bool
+	Limit    float64
+	Line     int
 }
 
 // RunSettings controls a run.
