@@ -83,3 +83,12 @@ func BenchmarkHistory(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkHistoryPlan: turning 2400 rows of monthly history into
+// schedule events (grouping included).
+func BenchmarkHistoryPlan(b *testing.B) {
+	m := historyBenchModel(b, 0.2)
+	for b.Loop() {
+		historyModel(m)
+	}
+}

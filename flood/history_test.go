@@ -8,7 +8,9 @@ import (
 	"strings"
 	"testing"
 
+	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 )
 
 // historyCase is a small two-well case (invented) whose producer is
@@ -312,5 +314,115 @@ func TestHistoryGrouping(t *testing.T) {
 	}
 	if p.rates[2][1] != 0 || p.rates[0][0] != 120 {
 		t.Errorf("rates %v", p.rates)
+	}
+}
+
+// TestHistoryControlsAndLimits: with drive: controls the case's own
+// controls run over the history (no rate groups), and an injector held at
+// its max_bhp is reported with the periods affected.
+func TestHistoryControlsAndLimits(t *testing.T) {
+	dir := t.TempDir()
+	base := historyCase(t, dir, "start_date: 2020-01-01\n")
+	a, err := Run(base, Settings{Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	historyFromRun(t, a, filepath.Join(dir, "history.csv"), 6, true)
+	m := historyCase(t, dir, "start_date: 2020-01-01\nhistory: {file: history.csv, drive: controls}\n")
+	m.Schedule = nil
+	m.Wells[1].Control, m.Wells[1].BHP = reservoir.BHPControl, 500
+	m.Wells[0].MaxBHP = 520 // far below the pressure 600 bbl/day needs
+	r, err := Run(m, Settings{Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	h := r.History
+	if h.Groups != 0 || h.Drive != reservoir.DriveControls {
+		t.Errorf("groups %d, drive %s", h.Groups, h.Drive)
+	}
+	var inj HistoryWell
+	for _, w := range h.Wells {
+		if w.Name == "I-1" {
+			inj = w
+		}
+	}
+	if len(inj.LimitPeriods) != 6 || inj.LimitPeriods[0] != [2]float64{0, 31} {
+		t.Errorf("I-1 limit periods %v, want the 6 months from [0 31]", inj.LimitPeriods)
+	}
+	// The model injects less than observed: a negative cumulative error.
+	if !(inj.CumWaterError < -0.1) {
+		t.Errorf("I-1 cumulative water error %g", inj.CumWaterError)
+	}
+	// Absolute pressures here: the model BHP is the limit it was held at.
+	if math.IsNaN(h.Match[1].ModBHP) || math.Abs(h.Match[1].ModBHP-520) > 1e-6 {
+		t.Errorf("I-1 model BHP %g, want its limit 520", h.Match[1].ModBHP)
+	}
+}
+
+// TestHistoryFiles: with start_date every time_days column has a date
+// beside it, match.csv has the columns of docs/OUTPUTS.md and one row per
+// history row, and summary.json the history object with dates.
+func TestHistoryFiles(t *testing.T) {
+	dir := t.TempDir()
+	base := historyCase(t, dir, "start_date: 2020-01-01\n")
+	a, err := Run(base, Settings{Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	historyFromRun(t, a, filepath.Join(dir, "history.csv"), 6, true)
+	m := historyCase(t, dir, "start_date: 2020-01-01\nhistory: {file: history.csv}\n")
+	r, err := Run(m, Settings{Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out")
+	d, err := outdir.Open(out, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := r.WriteData(d); err != nil {
+		t.Fatal(err)
+	}
+	if err := r.WriteSummary(d); err != nil {
+		t.Fatal(err)
+	}
+	if err := d.Close(); err != nil {
+		t.Fatal(err)
+	}
+	read := func(name string) []string {
+		b, err := os.ReadFile(filepath.Join(out, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return strings.Split(strings.TrimSpace(string(b)), "\n")
+	}
+	for _, f := range []struct {
+		name string
+		cols []string
+	}{{runfolder.WellsFile, runfolder.WellsColumns}, {runfolder.ProducersFile, runfolder.ProducersColumns},
+		{runfolder.FieldFile, runfolder.FieldColumns}, {runfolder.EffectiveCurvesFile, runfolder.EffectiveCurvesColumns},
+		{runfolder.AllocationFile, runfolder.AllocationColumns}} {
+		lines := read(f.name)
+		if lines[0]+"\n" != runfolder.Header(runfolder.WithDate(f.cols)) || !strings.HasPrefix(lines[0], "time_days,date,") {
+			t.Errorf("%s header %q", f.name, lines[0])
+		}
+		if !strings.HasPrefix(lines[1], "0,2020-01-01,") && !strings.HasPrefix(lines[1], "1,2020-01-02,") {
+			t.Errorf("%s first row %q", f.name, lines[1])
+		}
+	}
+	match := read(runfolder.MatchFile)
+	if match[0]+"\n" != runfolder.Header(runfolder.MatchColumns) || len(match) != 1+12 {
+		t.Errorf("match.csv: header %q, %d lines", match[0], len(match))
+	}
+	// February 2020 ends on day 60 (leap year).
+	if !strings.HasPrefix(match[3], "P-1,2020-02-29,60,") {
+		t.Errorf("match.csv row 3 %q", match[3])
+	}
+	s, err := runfolder.ReadSummary(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.StartDate != "2020-01-01" || s.History == nil || s.History.EndDate != "2020-06-30" || s.History.EndDays != 182 || len(s.History.Wells) != 2 {
+		t.Errorf("summary: start %q, history %+v", s.StartDate, s.History)
 	}
 }
