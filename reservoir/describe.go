@@ -107,7 +107,7 @@ func Describe(m *Model) string {
 		fmt.Fprintf(&b, "  start date  %s (day 0)\n", m.StartDate.Format(DateLayout))
 	}
 	if h := m.History; h != nil {
-		fmt.Fprintf(&b, "  history     %d rows to day %g (%s), drive: %s\n", len(h.Rows), h.End(), m.Date(h.End()), h.Drive)
+		fmt.Fprintf(&b, "  history     %d rows to day %g (%s), drive: %s\n", len(h.Rows), h.End(), m.PeriodEndDate(h.End()), h.Drive)
 	}
 	fmt.Fprintf(&b, "  fluids      water %g %s, oil %g %s (viscosity ratio oil/water %.3g)\n",
 		m.Fluids.WaterViscosity, visc, m.Fluids.OilViscosity, visc, m.Fluids.OilViscosity/m.Fluids.WaterViscosity)

@@ -152,3 +152,28 @@ func FuzzParseHistory(f *testing.F) {
 		}
 	})
 }
+
+// TestDescribeSurfaceOOIP: check gives the oil in place in reservoir and
+// surface volumes (surface = reservoir / Bo, the definition of the
+// formation volume factor, common practice), the start date and the
+// history.
+func TestDescribeSurfaceOOIP(t *testing.T) {
+	m := loadGood(t, "matrix_metric")
+	m.Fluids.OilFVF = 1.25
+	m.StartDate = time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC)
+	m.History = &History{Drive: DriveRates, Rows: []HistoryRow{{Well: "PRD-1", End: 31}}}
+	s := Describe(m)
+	if got, want := m.OOIPSurface(), m.OOIP()/1.25; got != want {
+		t.Errorf("surface OOIP %g, want %g", got, want)
+	}
+	for _, want := range []string{
+		"OOIP        105805 m3 (reservoir volume",
+		"84644.4 standard m3 (surface volume, oil formation volume factor 1.25)",
+		"start date  2020-01-01 (day 0)",
+		"history     1 rows to day 31 (2020-01-31), drive: rates",
+	} {
+		if !strings.Contains(s, want) {
+			t.Errorf("description lacks %q:\n%s", want, s)
+		}
+	}
+}
