@@ -220,15 +220,19 @@ func limitOf(w reservoir.Well) float64 {
 // injectors' rates are scaled to the production (the production is the
 // better measured), and a warning gives the range of the factors;
 // match.csv shows the injected water of the model beside the observed.
-func historyModel(m *reservoir.Model) (*reservoir.Model, []string) {
+//
+// A group in which the wells produce but none injects (or the reverse)
+// cannot be balanced: it is refused (*reservoir.InputError naming the
+// history file and the period).
+func historyModel(m *reservoir.Model) (*reservoir.Model, []string, error) {
 	h := m.History
 	if h == nil || h.Drive == reservoir.DriveControls || len(h.Rows) == 0 {
-		return m, nil
+		return m, nil, nil
 	}
 	hend := h.End()
 	orig, err := newWellSchedule(m)
 	if err != nil {
-		return m, nil // refused later, by the run's own schedule check
+		return m, nil, nil // refused later, by the run's own schedule check
 	}
 	var warns []string
 	var evs []reservoir.Event
@@ -250,6 +254,18 @@ func historyModel(m *reservoir.Model) (*reservoir.Model, []string) {
 			} else {
 				prod += p.rates[g][i]
 			}
+		}
+		if (prod > 0) != (inj > 0) {
+			tb := p.bounds[ab[1]]
+			what := "the producers produce but no injector injects"
+			if inj > 0 {
+				what = "the injectors inject but no producer produces"
+			}
+			when := fmt.Sprintf("from day %g to day %g", ta, tb)
+			if d := m.Date(ta); d != "" {
+				when += fmt.Sprintf(" (%s to %s)", d, m.PeriodEndDate(tb))
+			}
+			return nil, nil, &reservoir.InputError{Path: h.File, Msg: fmt.Sprintf("history: %s %s: the model is incompressible, so production must be balanced by injection in every period (primary production or a period of injection alone cannot be driven by rates; use history.drive: controls)", when, what)}
 		}
 		if prod > 0 && inj > 0 && math.Abs(inj-prod) > 1e-9*prod {
 			f := prod / inj
@@ -328,7 +344,7 @@ func historyModel(m *reservoir.Model) (*reservoir.Model, []string) {
 	})
 	mm := *m
 	mm.Schedule = evs
-	return &mm, warns
+	return &mm, warns, nil
 }
 
 // wellSpan is a well's state from one pressure solve to the next.

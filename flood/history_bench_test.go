@@ -89,6 +89,8 @@ func BenchmarkHistory(b *testing.B) {
 func BenchmarkHistoryPlan(b *testing.B) {
 	m := historyBenchModel(b, 0.2)
 	for b.Loop() {
-		historyModel(m)
+		if _, _, err := historyModel(m); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

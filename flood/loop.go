@@ -104,7 +104,10 @@ func drive(e stepper, tl *timeline) error {
 // its end (and the warnings saying so), the fractional flow and its flux
 // table, the well schedule and the residual oil saturation.
 func stepperInputs(m *reservoir.Model) (_ *reservoir.Model, late []string, ff *transport.FracFlow, fl *transport.Flux, sched *WellSchedule, sor float64, err error) {
-	m, hwarn := historyModel(m)
+	m, hwarn, err := historyModel(m)
+	if err != nil {
+		return nil, nil, nil, nil, nil, 0, err
+	}
 	m, late = withinRun(m)
 	late = append(hwarn, late...)
 	ff = transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)

@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -142,7 +143,71 @@ func (d *decoder) loadHistory(m *Model) error {
 		return err
 	}
 	h.Rows = rows
+	if h.Drive == DriveRates {
+		return checkBalance(h.File, m, rows)
+	}
 	return nil
+}
+
+// checkBalance refuses a history that drives the wells by rates over a
+// stretch of time in which wells produce but none injects, or the
+// reverse: the model is incompressible, so it cannot give both their
+// observed rates. The message names the line of a row of that stretch.
+func checkBalance(path string, m *Model, rows []HistoryRow) error {
+	ts := []float64{0}
+	for _, r := range rows {
+		ts = append(ts, r.Start, r.End)
+	}
+	slices.Sort(ts)
+	ts = slices.Compact(ts)
+	// Count, per stretch between consecutive period bounds, the rows that
+	// produce and the rows that inject over it (difference arrays).
+	dp, di := make([]int, len(ts)), make([]int, len(ts))
+	for _, r := range rows {
+		a, _ := slices.BinarySearch(ts, r.Start)
+		b, _ := slices.BinarySearch(ts, r.End)
+		d := dp
+		v := zeroNaN(r.Oil) + zeroNaN(r.Water)
+		if typeAt(m, m.WellIndex(r.Well), r.Start) == Injector {
+			d, v = di, zeroNaN(r.Injected)
+		}
+		if v > 0 {
+			d[a]++
+			d[b]--
+		}
+	}
+	np, ni := 0, 0
+	for k := 0; k+1 < len(ts); k++ {
+		np, ni = np+dp[k], ni+di[k]
+		if (np > 0) == (ni > 0) {
+			continue
+		}
+		a, b := ts[k], ts[k+1]
+		line := 0
+		for _, r := range rows {
+			if r.Start <= a && r.End >= b {
+				line = r.Line
+				break
+			}
+		}
+		what := "wells produce but no injector injects"
+		if ni > 0 {
+			what = "injectors inject but no producer produces"
+		}
+		when := fmt.Sprintf("from day %g to day %g", a, b)
+		if !m.StartDate.IsZero() {
+			when += fmt.Sprintf(" (%s to %s)", m.Date(a), m.PeriodEndDate(b))
+		}
+		return &InputError{Path: path, Line: line, Msg: fmt.Sprintf("%s %s: with history.drive: rates the incompressible model must balance production with injection in every period (primary production, or injection alone, cannot be driven by rates; use history.drive: controls)", when, what)}
+	}
+	return nil
+}
+
+func zeroNaN(v float64) float64 {
+	if math.IsNaN(v) {
+		return 0
+	}
+	return v
 }
 
 // historyColumns are the columns a history file may have.
