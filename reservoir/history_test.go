@@ -3,6 +3,7 @@ package reservoir
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -175,5 +176,46 @@ func TestDescribeSurfaceOOIP(t *testing.T) {
 		if !strings.Contains(s, want) {
 			t.Errorf("description lacks %q:\n%s", want, s)
 		}
+	}
+}
+
+// TestCaseDates: with start_date, run.end, snapshots, update times, a
+// well's opening and event times given as dates load as the same day
+// numbers (2020 is a leap year: 2020-03-01 is day 60, 2021-01-01 day 366;
+// Gregorian calendar, common practice).
+func TestCaseDates(t *testing.T) {
+	body := func(start, end, snaps, upd, open, when string) string {
+		return start + `title: dates
+units: field
+grid: {nx: 10, ny: 8, dx: 100, dy: 100}
+rock: {perm: 150, porosity: 0.2, thickness: 25}
+fluids: {water_viscosity: 0.5, oil_viscosity: 3, initial_water_saturation: 0.2}
+relperm:
+  corey: {swc: 0.2, sor: 0.25, krw_max: 0.35, kro_max: 0.9, nw: 2.5, no: 2}
+wells:
+  - {name: I-1, type: injector, x: 150, y: 150, rate: 1000, max_bhp: 4000}
+  - {name: P-1, type: producer, x: 850, y: 650, bhp: 800, open: ` + open + `}
+  - {name: P-2, type: producer, x: 850, y: 150, bhp: 800}
+schedule:
+  - {time: ` + when + `, well: P-1, bhp: 700}
+run: {end: ` + end + `, snapshots: [` + snaps + `], update_times: [` + upd + `]}
+`
+	}
+	byDate, err := Parse("d.yaml", []byte(body("start_date: 2020-01-01\n", "2022-01-01", "2020-03-01, 2021-01-01", "2020-02-29", "2020-01-31", "2021-01-01")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	byDay, err := Parse("d.yaml", []byte(body("", "731", "60, 366", "59", "30", "366")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if byDate.Run.End != byDay.Run.End || !slices.Equal(byDate.Run.Snapshots, byDay.Run.Snapshots) ||
+		!slices.Equal(byDate.Run.UpdateTimes, byDay.Run.UpdateTimes) || byDate.Wells[1].Open != byDay.Wells[1].Open ||
+		byDate.Schedule[0].Time != byDay.Schedule[0].Time {
+		t.Errorf("by date %+v %v %v, by day %+v %v %v", byDate.Run, byDate.Wells[1].Open, byDate.Schedule[0].Time,
+			byDay.Run, byDay.Wells[1].Open, byDay.Schedule[0].Time)
+	}
+	if byDate.Run.End != 731 || byDate.Schedule[0].Time != 366 {
+		t.Errorf("end %g, event %g; want 731 and 366", byDate.Run.End, byDate.Schedule[0].Time)
 	}
 }
