@@ -36,6 +36,11 @@ type book struct {
 	limits        bool // the case has economic limits
 	limitShut     bool // a producer was shut at its limit at the last stop
 	ended         bool // the field limit ended the run at the last stop
+	// The cumulative water and liquid of each producer at the period ends
+	// of the history (histT), for match.csv.
+	histT        []float64
+	histW, histL [][]float64
+	nextHist     int
 }
 
 func newBook(m *reservoir.Model, sched *WellSchedule, engine Engine) book {
@@ -115,6 +120,11 @@ func (b *book) setupWells(nt int) {
 	b.perW, b.perL = make([]float64, np), make([]float64, np)
 	b.cumW, b.cumL = make([]float64, np), make([]float64, np)
 	b.rate = make([]float64, np)
+	b.histT = historyTimes(m)
+	b.histW, b.histL = make([][]float64, np), make([][]float64, np)
+	for p := range np {
+		b.histW[p], b.histL[p] = make([]float64, len(b.histT)), make([]float64, len(b.histT))
+	}
 }
 
 // atStop records what is due at time t: the report values (volumes of the
@@ -153,6 +163,12 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 			b.limitShut = b.checkLimits(t, fieldWC, fieldL > 0)
 		}
 	}
+	for ; b.nextHist < len(b.histT) && b.histT[b.nextHist] <= t*(1+1e-12); b.nextHist++ {
+		for p := range r.Producers {
+			b.histW[p][b.nextHist] = b.cumW[p] + b.perW[p]
+			b.histL[p][b.nextHist] = b.cumL[p] + b.perL[p]
+		}
+	}
 	if slices.Contains(snaps, t) {
 		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: b.cumInj / r.PoreVolume, Sw: cellMap(b.m.Active, b.sw)})
 	}
@@ -170,6 +186,7 @@ func (b *book) finish() {
 	}
 	r := b.r
 	fillField(r)
+	r.History = b.historyResult()
 	produced := b.otherProduced
 	for p := range r.Producers {
 		produced += b.cumW[p]

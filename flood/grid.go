@@ -191,7 +191,7 @@ func (g *gridRun) run() error {
 	nt := len(tl.reports)
 	r.PVI = make([]float64, nt)
 	g.setupWells(nt)
-	if g.sched.HasChanges(end) {
+	if g.sched.HasChanges(end) && m.History == nil {
 		g.warn(fmt.Sprintf("the case has %d schedule event(s) and well opening(s): the grid engine re-solves the pressure at each", len(changes)))
 	}
 
@@ -290,7 +290,7 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		if w.Shut {
 			rate = 0
 		}
-		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP})
+		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP, Limit: w.LimitReached, Relative: w.Relative})
 		g.limitFlag(wi, w)
 		if w.Shut || w.Q == 0 {
 			continue

@@ -31,6 +31,7 @@ func newTimeline(m *reservoir.Model, frames int, solves []float64) *timeline {
 		tl.frames = append(tl.frames, tl.reports[k])
 	}
 	tl.stops = append(append(slices.Clone(tl.reports), tl.snaps...), tl.frames...)
+	tl.stops = append(tl.stops, historyTimes(m)...)
 	slices.Sort(tl.stops)
 	tl.stops = slices.Compact(tl.stops)
 	tl.solves = []float64{0}
@@ -122,7 +123,12 @@ func drive(e stepper, tl *timeline) error {
 // its end (and the warnings saying so), the fractional flow and its flux
 // table, the well schedule and the residual oil saturation.
 func stepperInputs(m *reservoir.Model) (_ *reservoir.Model, late []string, ff *transport.FracFlow, fl *transport.Flux, sched *WellSchedule, sor float64, err error) {
+	m, hwarn, err := historyModel(m)
+	if err != nil {
+		return nil, nil, nil, nil, nil, 0, err
+	}
 	m, late = withinRun(m)
+	late = append(hwarn, late...)
 	ff = transport.NewFracFlow(m.RelPerm, m.Fluids.WaterViscosity, m.Fluids.OilViscosity)
 	if err := ff.Validate(); err != nil {
 		return nil, nil, nil, nil, nil, 0, fmt.Errorf("fractional flow: %w", err)

@@ -90,6 +90,10 @@ type WellRecord struct {
 	Control reservoir.Control
 	Rate    float64 // positive
 	BHP     float64
+	// Limit is true when the solve held a rate-controlled well at its BHP
+	// limit; Relative when its pressures are relative (every well of its
+	// region rate-controlled, see pressure.WellResult).
+	Limit, Relative bool
 }
 
 // Result is a finished run.
@@ -139,6 +143,9 @@ type Result struct {
 	// run.field_max_water_cut, or every producer was shut in at its
 	// limit; 0 when they did not.
 	FieldLimitDay float64
+	// History compares the run with the case's production history; nil
+	// without one.
+	History *HistoryResult
 	// Warnings are messages for the user: the case's own (Model.Warnings)
 	// first, then those of the run.
 	Warnings []string
@@ -183,7 +190,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	// Events and openings after the end change nothing, not even the mode.
 	// RunUpdates drops them again and warns.
 	mm, late := withinRun(m)
-	if needsUpdates(mm) {
+	if needsUpdates(mm) || mm.History != nil {
 		return RunUpdates(m, s, s.Updates)
 	}
 	orig := m

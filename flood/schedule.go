@@ -132,6 +132,13 @@ func (s *WellSchedule) AtInto(ws []reservoir.Well, t float64) {
 		if !math.IsNaN(e.BHP) {
 			w.Control, w.BHP = reservoir.BHPControl, e.BHP
 		}
+		if e.SetLimit {
+			if w.Type == reservoir.Injector {
+				w.MaxBHP, w.MinBHP = e.Limit, 0
+			} else {
+				w.MinBHP, w.MaxBHP = e.Limit, 0
+			}
+		}
 	}
 	for i := range ws {
 		if ws[i].Open > t && !reopened[i] {

@@ -263,7 +263,7 @@ func (u *updateRun) run() error {
 	r.PVI = make([]float64, nt)
 	u.setupWells(nt)
 
-	if u.sched.HasChanges(end) {
+	if u.sched.HasChanges(end) && m.History == nil {
 		opening := 0
 		for _, w := range m.Wells {
 			if w.Open > 0 && w.Open <= end {
@@ -318,7 +318,7 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 		if w.Shut {
 			rate = 0
 		}
-		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP})
+		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP, Limit: w.LimitReached, Relative: w.Relative})
 	}
 	return sol, nil
 }

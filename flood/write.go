@@ -81,8 +81,12 @@ func (r *Result) Summary() *runfolder.Summary {
 		s.EndDays = F(r.FieldLimitDay)
 	}
 	for _, sn := range r.Snapshots {
-		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: runfolder.RasterName(runfolder.SnapshotName(sn.Time), r.Rasters)})
+		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: runfolder.RasterName(runfolder.SnapshotName(sn.Time), r.Rasters), Date: m.Date(sn.Time)})
 	}
+	if !m.StartDate.IsZero() {
+		s.StartDate, s.EndDate = m.Date(0), m.Date(m.Run.End)
+	}
+	s.History = r.historySummary()
 	return s
 }
 
@@ -90,6 +94,20 @@ func (r *Result) Summary() *runfolder.Summary {
 // the pictures) into d.
 func (r *Result) WriteData(d *outdir.Dir) error {
 	m := r.Model
+	// With start_date every time_days column has a date column beside it.
+	dated := !m.StartDate.IsZero()
+	hdr := func(cols []string) string {
+		if dated {
+			cols = runfolder.WithDate(cols)
+		}
+		return runfolder.Header(cols)
+	}
+	day := func(t float64) string {
+		if dated {
+			return runfolder.Num(t) + "," + m.Date(t)
+		}
+		return runfolder.Num(t)
+	}
 	csv := func(name string, body func(w *bufio.Writer)) error {
 		return d.Create(name, func(w io.Writer) error {
 			bw := bufio.NewWriter(w)
@@ -98,19 +116,19 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 		})
 	}
 	if err := csv(runfolder.WellsFile, func(w *bufio.Writer) {
-		w.WriteString(runfolder.Header(runfolder.WellsColumns))
+		w.WriteString(hdr(runfolder.WellsColumns))
 		for _, x := range r.WellRates() {
-			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", runfolder.Num(x.Time), x.Well, x.Type, x.Control, runfolder.Num(x.Rate),
+			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", day(x.Time), x.Well, x.Type, x.Control, runfolder.Num(x.Rate),
 				runfolder.Num(x.Oil), runfolder.Num(x.Water), runfolder.Num(x.BHP))
 		}
 	}); err != nil {
 		return err
 	}
 	if err := csv(runfolder.ProducersFile, func(w *bufio.Writer) {
-		w.WriteString(runfolder.Header(runfolder.ProducersColumns))
+		w.WriteString(hdr(runfolder.ProducersColumns))
 		for k, t := range r.Times {
 			for _, p := range r.Producers {
-				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", runfolder.Num(t), runfolder.Num(r.PVI[k]), p.Name, runfolder.Num(p.WaterCut[k]), runfolder.Num(p.OilRate[k]),
+				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", day(t), runfolder.Num(r.PVI[k]), p.Name, runfolder.Num(p.WaterCut[k]), runfolder.Num(p.OilRate[k]),
 					runfolder.Num(p.WaterRate[k]), runfolder.Num(p.CumOil[k]), runfolder.Num(p.CumWater[k]))
 			}
 		}
@@ -118,19 +136,19 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 		return err
 	}
 	if err := csv(runfolder.FieldFile, func(w *bufio.Writer) {
-		w.WriteString(runfolder.Header(runfolder.FieldColumns))
+		w.WriteString(hdr(runfolder.FieldColumns))
 		for k, t := range r.Times {
-			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", runfolder.Num(t), runfolder.Num(r.PVI[k]), runfolder.Num(r.FieldWaterCut[k]), runfolder.Num(r.FieldOilRate[k]),
+			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", day(t), runfolder.Num(r.PVI[k]), runfolder.Num(r.FieldWaterCut[k]), runfolder.Num(r.FieldOilRate[k]),
 				runfolder.Num(r.FieldWaterRate[k]), runfolder.Num(r.FieldCumOil[k]), runfolder.Num(r.FieldCumWater[k]), runfolder.Num(r.RecoveryFactor[k]))
 		}
 	}); err != nil {
 		return err
 	}
 	if err := csv(runfolder.EffectiveCurvesFile, func(w *bufio.Writer) {
-		w.WriteString(runfolder.Header(runfolder.EffectiveCurvesColumns))
+		w.WriteString(hdr(runfolder.EffectiveCurvesColumns))
 		for k, t := range r.Times {
 			for _, p := range r.Producers {
-				fmt.Fprintf(w, "%s,%s,%s,%s\n", runfolder.Num(t), p.Name, runfolder.Num(p.AvgSw[k]), runfolder.Num(p.WaterCut[k]))
+				fmt.Fprintf(w, "%s,%s,%s,%s\n", day(t), p.Name, runfolder.Num(p.AvgSw[k]), runfolder.Num(p.WaterCut[k]))
 			}
 		}
 	}); err != nil {
@@ -138,14 +156,14 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	}
 	if r.Trace != nil {
 		if err := csv(runfolder.AllocationFile, func(w *bufio.Writer) {
-			w.WriteString(runfolder.Header(runfolder.AllocationColumns))
+			w.WriteString(hdr(runfolder.AllocationColumns))
 			for _, b := range r.Allocation {
 				for k, p := range b.Pairs {
 					pv := p.PoreVolume
 					if k < len(b.PoreVolumes) {
 						pv = b.PoreVolumes[k]
 					}
-					fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s\n", runfolder.Num(b.Time), m.Wells[p.Injector].Name, m.Wells[p.Producer].Name, runfolder.Num(p.Rate),
+					fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s\n", day(b.Time), m.Wells[p.Injector].Name, m.Wells[p.Producer].Name, runfolder.Num(p.Rate),
 						runfolder.Num(p.FractionOfInjector), runfolder.Num(p.FractionOfProducer), runfolder.Num(pv))
 				}
 			}
@@ -167,6 +185,24 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 			w.WriteString(runfolder.Header(runfolder.InjectorsColumns))
 			for _, in := range e.Injectors {
 				fmt.Fprintf(w, "%s,%s,%s,%s\n", in.Name, runfolder.Num(in.Rate), runfolder.Num(in.Efficiency), runfolder.Num(in.AttributedOil))
+			}
+		}); err != nil {
+			return err
+		}
+	}
+	if h := r.History; h != nil {
+		if err := csv(runfolder.MatchFile, func(w *bufio.Writer) {
+			w.WriteString(runfolder.Header(runfolder.MatchColumns))
+			for _, x := range h.Match {
+				fmt.Fprintf(w, "%s,%s,%s", x.Well, m.PeriodEndDate(x.End), runfolder.Num(x.End))
+				for _, v := range []float64{x.ObsWaterCut, x.ModWaterCut, x.ObsOilRate, x.ModOilRate, x.ObsWaterRate, x.ModWaterRate,
+					x.ObsCumOil, x.ModCumOil, x.ObsCumWater, x.ModCumWater, x.ObsBHP, x.ModBHP} {
+					w.WriteByte(',')
+					if !math.IsNaN(v) && !math.IsInf(v, 0) {
+						w.WriteString(runfolder.Num(v))
+					}
+				}
+				w.WriteByte('\n')
 			}
 		}); err != nil {
 			return err

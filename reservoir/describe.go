@@ -98,6 +98,17 @@ func Describe(m *Model) string {
 	pv := m.TotalPoreVolume()
 	fmt.Fprintf(&b, "  pore volume %.6g %s\n", pv, vol)
 	fmt.Fprintf(&b, "  OOIP        %.6g %s (reservoir volume, initial water saturation %g)\n", m.OOIP(), vol, m.Fluids.InitialSw)
+	surf := "stock-tank bbl"
+	if m.Units == Metric {
+		surf = "standard m3"
+	}
+	fmt.Fprintf(&b, "              %.6g %s (surface volume, oil formation volume factor %g)\n", m.OOIPSurface(), surf, m.Fluids.Bo())
+	if !m.StartDate.IsZero() {
+		fmt.Fprintf(&b, "  start date  %s (day 0)\n", m.StartDate.Format(DateLayout))
+	}
+	if h := m.History; h != nil {
+		fmt.Fprintf(&b, "  history     %d rows to day %g (%s), drive: %s\n", len(h.Rows), h.End(), m.PeriodEndDate(h.End()), h.Drive)
+	}
 	fmt.Fprintf(&b, "  fluids      water %g %s, oil %g %s (viscosity ratio oil/water %.3g)\n",
 		m.Fluids.WaterViscosity, visc, m.Fluids.OilViscosity, visc, m.Fluids.OilViscosity/m.Fluids.WaterViscosity)
 	switch rp := m.RelPerm.(type) {

@@ -238,14 +238,6 @@ func WellsCSVNodes(data []byte, path string) (*yaml.Node, error) {
 	return seq, nil
 }
 
-func csvError(path string, err error) error {
-	var pe *csv.ParseError
-	if errors.As(err, &pe) {
-		return &InputError{Path: path, Line: pe.Line, Msg: pe.Err.Error(), Err: err}
-	}
-	return &InputError{Path: path, Msg: err.Error(), Err: err}
-}
-
 // FaultsGeoJSONNodes turns a GeoJSON FeatureCollection of LineString
 // features (properties name and multiplier) into the faults list of a
 // case.

@@ -58,7 +58,7 @@ func TestGISInputErrors(t *testing.T) {
 		{"csv short row", func() error {
 			_, err := WellsCSVNodes([]byte("name,type,x,y,rate\nI,injector,1,2,100\nP,producer,3\n"), "w.csv")
 			return err
-		}, "w.csv:3: wrong number of fields"},
+		}, "w.csv:3: column 1: wrong number of fields"},
 		{"csv header only", func() error { _, err := WellsCSVNodes([]byte("name,type,x,y\n"), "w.csv"); return err }, "no wells"},
 	}
 	for _, c := range cases {

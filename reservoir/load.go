@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+	"time"
 	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
@@ -103,6 +104,7 @@ type decoder struct {
 	errs         collector
 	units        UnitSystem // of the case, once read
 	warns        []string   // warnings, in the order found
+	start        time.Time  // start_date (day 0), zero when not given
 }
 
 // propSpec is a rock property given as a number or a map path.
@@ -184,6 +186,9 @@ func (d *decoder) decode(data []byte) (*Model, error) {
 	if err := d.errs.err(); err != nil {
 		return nil, err
 	}
+	if err := d.loadHistory(m); err != nil {
+		return nil, err
+	}
 	m.Warnings = d.warns
 	return m, nil
 }
@@ -199,7 +204,7 @@ func firstInvalidUTF8(b []byte) int {
 	return len(b)
 }
 
-var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs"}
+var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history"}
 
 // firstPass reads every section of the YAML into the model without
 // touching map files or allocating per-cell arrays (except the relative
@@ -240,6 +245,7 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 			d.fail(top, v, "crs must be EPSG:n with n from 1 to 32766 (the map coordinates' EPSG code), found %s", yamldoc.Describe(v))
 		}
 	}
+	d.readStartDate(m, top)
 	d.readRun(m, top)
 	if top.has("grid") {
 		rc.gridNode = top.keys["grid"]
@@ -286,6 +292,9 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	if top.has("schedule") {
 		d.readSchedule(m, top)
 	}
+	if top.has("history") {
+		d.readHistorySpec(m, top)
+	}
 	return rc
 }
 
@@ -295,7 +304,7 @@ func (d *decoder) readRun(m *Model, top *section) {
 	if top.vals["run"] != nil {
 		s = d.section(top.vals["run"], "run", "", []string{"end", "report_every", "snapshots", "streamlines", "pressure_updates", "update_times", "max_water_cut", "min_oil_rate", "field_max_water_cut"}, nil)
 	}
-	r.End = d.limited(s, "end", r.End, limEnd, nil)
+	r.End = d.when(s, "end", r.End, limEnd)
 	r.MaxWaterCut = d.limited(s, "max_water_cut", 0, limWaterCut, nil)
 	r.MinOilRate = d.limited(s, "min_oil_rate", 0, limOilRate, nil)
 	r.FieldMaxWaterCut = d.limited(s, "field_max_water_cut", 0, limWaterCut, nil)
@@ -321,7 +330,7 @@ func (d *decoder) readRun(m *Model, top *section) {
 	}
 	r.PressureUpdates = int(d.integer(s, "pressure_updates", 1, 1, 100_000))
 	if s.has("update_times") {
-		ts, nodes := d.numbers(s, "update_times")
+		ts, nodes := d.times(s, "update_times")
 		for i, t := range ts {
 			switch {
 			case !(t > 0 && t < r.End):
@@ -338,7 +347,7 @@ func (d *decoder) readRun(m *Model, top *section) {
 	}
 	r.Snapshots = []float64{r.End}
 	if s.has("snapshots") {
-		ts, nodes := d.numbers(s, "snapshots")
+		ts, nodes := d.times(s, "snapshots")
 		for i, t := range ts {
 			if !(t >= 0 && t <= r.End) {
 				d.fail(s, nodes[i], "run.snapshots: %g is outside the run [0, %g]", t, r.End)
@@ -477,7 +486,7 @@ func propUnusual(u UnitSystem, key string, v float64) string {
 }
 
 func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
-	s := d.section(n, "fluids", "", []string{"water_viscosity", "oil_viscosity", "initial_water_saturation"},
+	s := d.section(n, "fluids", "", []string{"water_viscosity", "oil_viscosity", "initial_water_saturation", "oil_fvf", "water_fvf"},
 		[]string{"water_viscosity", "oil_viscosity"})
 	if s == nil {
 		return
@@ -490,6 +499,8 @@ func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
 		rc.swiNode = s.vals["initial_water_saturation"]
 		f.InitialSw = d.num(s, "initial_water_saturation", 0, inRange(0, 1, false, true))
 	}
+	f.OilFVF = d.num(s, "oil_fvf", 1, fvfCheck)
+	f.WaterFVF = d.num(s, "water_fvf", 1, fvfCheck)
 }
 
 func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {
@@ -662,7 +673,7 @@ func (d *decoder) readWells(m *Model, top *section) {
 		d.readRateLimits(s, &w)
 		w.Radius = d.limited(s, "radius", w.Radius, limRadius, nil)
 		w.Skin = d.limited(s, "skin", 0, limSkin, nil)
-		w.Open = d.limited(s, "open", 0, limTime, nil)
+		w.Open = d.when(s, "open", 0, limTime)
 		m.Wells = append(m.Wells, w)
 	}
 }
@@ -760,7 +771,7 @@ func (d *decoder) readSchedule(m *Model, top *section) {
 			continue
 		}
 		e := Event{Rate: math.NaN(), BHP: math.NaN(), Line: it.Line}
-		e.Time = d.limited(s, "time", 0, limTime, nil)
+		e.Time = d.when(s, "time", 0, limTime)
 		e.Well = d.str(s, "well")
 		if s.has("well") && m.WellIndex(e.Well) < 0 {
 			msg := fmt.Sprintf("schedule: unknown well %q", e.Well)

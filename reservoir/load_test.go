@@ -172,7 +172,7 @@ func TestLoadMatrixMetricCase(t *testing.T) {
 	if c, ok := m.RelPerm.(Corey); !ok || c != (Corey{Swc: 0.18, Sor: 0.22, KrwMax: 0.3, KroMax: 0.85, Nw: 3, No: 2}) {
 		t.Errorf("relperm %#v", m.RelPerm)
 	}
-	if m.Fluids != (Fluids{WaterViscosity: 0.4, OilViscosity: 1.6, InitialSw: 0.22}) {
+	if m.Fluids != (Fluids{WaterViscosity: 0.4, OilViscosity: 1.6, InitialSw: 0.22, OilFVF: 1, WaterFVF: 1}) {
 		t.Errorf("fluids %+v", m.Fluids)
 	}
 	// Placement rules of DESIGN.md section 4: a point on a face goes to

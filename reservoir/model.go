@@ -1,6 +1,9 @@
 package reservoir
 
-import "math"
+import (
+	"math"
+	"time"
+)
 
 // UnitSystem names the units of a case. Field units are ft, md, cp,
 // bbl/day, psi and days; metric units are m, mD, cP, m3/day, bar and days.
@@ -182,12 +185,16 @@ type Well struct {
 	Source string
 }
 
-// Fluids holds the fluid properties. Formation volume factors are 1: all
-// volumes are reservoir volumes.
+// Fluids holds the fluid properties. The run works in reservoir volumes;
+// the formation volume factors (reservoir volume per surface volume,
+// fluids.oil_fvf and fluids.water_fvf, 1 when not given) convert the
+// surface volumes of a history and report the oil in place at the surface.
 type Fluids struct {
 	WaterViscosity float64
 	OilViscosity   float64
 	InitialSw      float64
+	OilFVF         float64
+	WaterFVF       float64
 }
 
 // RelPerm gives water and oil relative permeability against water
@@ -222,7 +229,12 @@ type Event struct {
 	Shut    bool
 	Reopen  bool
 	Convert WellType // "" or the new type of the well
-	Line    int
+	// SetLimit sets the well's BHP limit to Limit (0: none): MinBHP of a
+	// producer, MaxBHP of an injector. Case files do not give it; a run
+	// driven by a production history does.
+	SetLimit bool
+	Limit    float64
+	Line     int
 }
 
 // RunSettings controls a run.
@@ -297,6 +309,13 @@ type Model struct {
 	// CRS is the coordinate system of the map coordinates, when the case
 	// gives one (crs key or a .prj beside a raster map).
 	CRS CRS
+
+	// StartDate is the calendar date of day 0 (start_date); the zero time
+	// when the case gives none.
+	StartDate time.Time
+	// History is the case's production history (history:), nil when
+	// none.
+	History *History
 
 	// Warnings are the problems Load found that do not stop a run (values
 	// outside their usual range, cells made inactive by NODATA, ...), each

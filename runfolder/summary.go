@@ -72,6 +72,10 @@ type Summary struct {
 	Faults     []Fault    `json:"faults"`
 	Engine     string     `json:"engine"`
 	EndDays    Float      `json:"end_days"`
+	// StartDate and EndDate are the calendar dates of day 0 and of the
+	// end, when the case gives start_date.
+	StartDate  string     `json:"start_date,omitempty"`
+	EndDate    string     `json:"end_date,omitempty"`
 	PoreVolume Float      `json:"pore_volume"`
 	OOIP       Float      `json:"ooip"`
 	Producers  []Producer `json:"producers"`
@@ -84,7 +88,10 @@ type Summary struct {
 	Streamlines       int        `json:"streamlines"`
 	PressureSolver    Solver     `json:"pressure_solver"`
 	Snapshots         []Snapshot `json:"snapshots"`
-	Warnings          []string   `json:"warnings"`
+	// History compares the run with the case's production history; absent
+	// without one.
+	History  *History `json:"history,omitempty"`
+	Warnings []string `json:"warnings"`
 	// FieldLimitDays is the day the field water cut reached
 	// run.field_max_water_cut and the run ended (EndDays is then that
 	// day); absent when it did not.
@@ -178,6 +185,7 @@ type Snapshot struct {
 	TimeDays Float  `json:"time_days"`
 	PVI      Float  `json:"pvi"`
 	File     string `json:"file"`
+	Date     string `json:"date,omitempty"`
 }
 
 // Encode returns the content of summary.json: indented JSON and a final

@@ -234,6 +234,7 @@ func printRunSummary(r *flood.Result) {
 			fmt.Fprintf(stdout, "CAUTION: injector %s reached its max_bhp (fracture or permit limit) and runs at that pressure at %.4g %s; check the limit against local regulations\n", in.Name, in.Rate, rate)
 		}
 	}
+	printHistory(r)
 	for _, w := range r.Warnings {
 		fmt.Fprintf(stderr, "warning: %s\n", w)
 	}
