@@ -9,7 +9,8 @@ import (
 	"image/color"
 	"image/gif"
 	"math"
-	"path/filepath"
+
+	"floodtrace/internal/parallel"
 )
 
 // animationPalette returns the fixed 256-colour palette of the saturation
@@ -128,38 +129,54 @@ func (r *run) animation() error {
 		r.rep.note("no saturation frame: no animation")
 		return nil
 	}
-	pal := animationPalette(SaturationColors)
-	q := newQuantizer(pal)
-	anim := &gif.GIF{LoopCount: 0}
 	idx := pickFrames(len(files), r.opt.Frames)
+	type frame struct{ path, subtitle string }
+	frames := make([]frame, len(idx))
 	for n, i := range idx {
 		f := files[i]
-		v, err := readASC(f.Path, r.scene.Grid)
-		if err != nil {
-			return err
-		}
-		s := r.scene
-		s.Subtitle = "Water saturation · " + timeLabel(f.Day, r.pviAt(f.Day))
-		img, err := DrawField(s, v, r.satSc, r.opt.GIFWidth, r.opt.GIFHeight)
-		if err != nil {
-			return fmt.Errorf("render: %s: %w", f.Path, err)
-		}
-		anim.Image = append(anim.Image, q.convert(img))
-		delay := 35
-		if n == len(idx)-1 {
-			delay = 300 // hold the last frame
-		}
-		anim.Delay = append(anim.Delay, delay)
-		anim.Disposal = append(anim.Disposal, gif.DisposalNone)
+		frames[n] = frame{f.Path, "Water saturation · " + timeLabel(f.Day, r.pviAt(f.Day))}
 	}
-	var b bytes.Buffer
-	if err := gif.EncodeAll(&b, anim); err != nil {
-		return fmt.Errorf("render: encoding saturation.gif: %w", err)
+	s, sc, w, h := r.scene, r.satSc, r.opt.GIFWidth, r.opt.GIFHeight
+	draw := func() ([]byte, error) {
+		pal := animationPalette(SaturationColors)
+		anim := &gif.GIF{LoopCount: 0, Image: make([]*image.Paletted, len(frames)),
+			Delay: make([]int, len(frames)), Disposal: make([]byte, len(frames))}
+		errs := make([]error, len(frames))
+		qs := make([]*quantizer, parallel.Workers(0))
+		parallel.Each(len(frames), len(qs), 1, func(wk, n int) {
+			if qs[wk] == nil {
+				qs[wk] = newQuantizer(pal)
+			}
+			v, err := readASC(frames[n].path, s.Grid)
+			if err != nil {
+				errs[n] = err
+				return
+			}
+			fs := s
+			fs.Subtitle = frames[n].subtitle
+			img, err := DrawField(fs, v, sc, w, h)
+			if err != nil {
+				errs[n] = fmt.Errorf("render: %s: %w", frames[n].path, err)
+				return
+			}
+			anim.Image[n] = qs[wk].convert(img)
+			anim.Delay[n] = 35
+			if n == len(frames)-1 {
+				anim.Delay[n] = 300 // hold the last frame
+			}
+			anim.Disposal[n] = gif.DisposalNone
+		})
+		for _, err := range errs {
+			if err != nil {
+				return nil, err
+			}
+		}
+		var b bytes.Buffer
+		if err := gif.EncodeAll(&b, anim); err != nil {
+			return nil, fmt.Errorf("render: encoding saturation.gif: %w", err)
+		}
+		return b.Bytes(), nil
 	}
-	if err := writeFileAtomic(filepath.Join(r.dir, runfolder.AnimationFile), b.Bytes()); err != nil {
-		return err
-	}
-	r.rep.Files = append(r.rep.Files, runfolder.AnimationFile)
-	r.gif = runfolder.AnimationFile
+	r.pics = append(r.pics, picture{kind: animationPicture, rel: runfolder.AnimationFile, draw: draw})
 	return nil
 }
