@@ -165,8 +165,9 @@ func WriteChart(wr io.Writer, c Chart, w, h int, format string) error {
 		return err
 	}
 	if format == "png" {
-		_, err := cv.WriteTo(wr)
-		return err
+		// The maps' encoder, not the canvas's default (slower, with the
+		// best compression).
+		return writePNG(wr, cv.(vgimg.PngCanvas).Image())
 	}
 	var b bytes.Buffer
 	if _, err := cv.WriteTo(&b); err != nil {

@@ -454,7 +454,7 @@ var pngEncoder = png.Encoder{CompressionLevel: png.BestSpeed}
 // encodePNG encodes the picture of file rel.
 func encodePNG(rel string, img image.Image) ([]byte, error) {
 	var b bytes.Buffer
-	if err := pngEncoder.Encode(&b, img); err != nil {
+	if err := writePNG(&b, img); err != nil {
 		return nil, fmt.Errorf("render: encoding %s: %w", rel, err)
 	}
 	return b.Bytes(), nil
