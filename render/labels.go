@@ -19,9 +19,12 @@ func (c *mapCanvas) text(s string, face font.Face, size, x, y, ax float64, vcent
 	if vcenter {
 		y += 0.36 * size
 	}
-	c.dc.SetFontFace(face)
-	c.dc.SetColor(col)
-	c.dc.DrawString(s, x-ax*w, y)
+	// The glyph masks go straight onto the picture (no clip is set when
+	// text is drawn, and the canvas is never transformed): the same dot
+	// as gg's DrawString, without its per-glyph bilinear resampling.
+	d := font.Drawer{Dst: c.img, Src: image.NewUniform(col), Face: face,
+		Dot: fixed.Point26_6{X: fixed.Int26_6((x - ax*w) * 64), Y: fixed.Int26_6(y * 64)}}
+	d.DrawString(s)
 	return w
 }
 
