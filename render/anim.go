@@ -82,10 +82,18 @@ func (q *quantizer) convert(img *image.RGBA) *image.Paletted {
 	b := img.Bounds()
 	out := image.NewPaletted(b, q.pal)
 	for y := b.Min.Y; y < b.Max.Y; y++ {
-		src := img.Pix[img.PixOffset(b.Min.X, y):]
-		dst := out.Pix[out.PixOffset(b.Min.X, y):]
-		for x := 0; x < b.Dx(); x++ {
-			dst[x] = q.index(src[4*x], src[4*x+1], src[4*x+2])
+		src := img.Pix[img.PixOffset(b.Min.X, y):][:4*b.Dx()]
+		dst := out.Pix[out.PixOffset(b.Min.X, y):][:b.Dx()]
+		// Runs of one colour (cells, page, legend) reuse the last index.
+		lr, lg, lb := src[0]+1, src[1], src[2] // differs from the first pixel
+		var li uint8
+		for x := range dst {
+			p := src[4*x : 4*x+3]
+			if p[0] != lr || p[1] != lg || p[2] != lb {
+				lr, lg, lb = p[0], p[1], p[2]
+				li = q.index(lr, lg, lb)
+			}
+			dst[x] = li
 		}
 	}
 	return out

@@ -190,7 +190,18 @@ func (r *run) addMap(rel, caption, input string, draw func() (*image.RGBA, error
 // core count. The first error in that order is returned.
 func (r *run) drawPictures() error {
 	errs := make([]error, len(r.pics))
-	parallel.Each(len(r.pics), 0, 1, func(_, i int) {
+	// The animation, the longest and itself parallel, starts first, so
+	// that its serial encoding overlaps the other pictures.
+	order := make([]int, 0, len(r.pics))
+	for pass := range 2 {
+		for i, p := range r.pics {
+			if (p.kind == animationPicture) == (pass == 0) {
+				order = append(order, i)
+			}
+		}
+	}
+	parallel.Each(len(order), 0, 1, func(_, k int) {
+		i := order[k]
 		p := r.pics[i]
 		b, err := p.draw()
 		if err == nil {
