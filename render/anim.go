@@ -220,6 +220,7 @@ func encodeAnimation(s Scene, sc Scale, paths, subs []string, w, h int) ([]byte,
 			return
 		}
 		anim.Image[i] = qs[wk].convert(img)
+		recycle(img)
 		anim.Delay[i] = 35
 		if i == n-1 {
 			anim.Delay[i] = 300 // hold the last frame
@@ -274,7 +275,8 @@ func layeredFrame(s Scene, values []float64, sc Scale, layer *image.RGBA, f *fac
 	if err != nil {
 		return nil, err
 	}
-	img := &image.RGBA{Pix: bytes.Clone(layer.Pix), Stride: layer.Stride, Rect: layer.Rect}
+	img := &image.RGBA{Pix: pixels(len(layer.Pix)), Stride: layer.Stride, Rect: layer.Rect}
+	copy(img.Pix, layer.Pix)
 	c := &mapCanvas{img: img, l: l, f: f, s: s}
 	c.fillCells(cellColours(s, values, sc))
 	r := l.Map

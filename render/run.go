@@ -180,6 +180,7 @@ func (r *run) addMap(rel, caption, input string, draw func() (*image.RGBA, error
 		if err != nil {
 			return nil, fmt.Errorf("render: %s: %w", input, err)
 		}
+		defer recycle(img)
 		return encodePNG(rel, img)
 	}})
 }
