@@ -80,14 +80,23 @@ func fmtSci(v float64) string {
 	return strconv.FormatFloat(v, 'e', 2, 64)
 }
 
-// dataURI embeds a written file as the attribute src="data:...". The
-// base64 text needs no escaping; passing it as a URL would have the
-// template check every byte of several megabytes.
+// dataURI embeds a written file as the attribute src="data:..."; the
+// pictures drawPictures drew are embedded already.
 func (r *run) dataURI(rel string) (template.HTMLAttr, error) {
+	if src, ok := r.embedded[rel]; ok {
+		return src, nil
+	}
 	b, err := os.ReadFile(filepath.Join(r.dir, rel))
 	if err != nil {
 		return "", fmt.Errorf("render: %w", err)
 	}
+	return embed(rel, b), nil
+}
+
+// embed returns the file rel holding b as the attribute src="data:...".
+// The base64 text needs no escaping; passing it as a URL would have the
+// template check every byte of several megabytes.
+func embed(rel string, b []byte) template.HTMLAttr {
 	mime := "image/png"
 	switch strings.ToLower(filepath.Ext(rel)) {
 	case ".svg":
@@ -95,7 +104,7 @@ func (r *run) dataURI(rel string) (template.HTMLAttr, error) {
 	case ".gif":
 		mime = "image/gif"
 	}
-	return template.HTMLAttr(`src="data:` + mime + ";base64," + base64.StdEncoding.EncodeToString(b) + `"`), nil
+	return template.HTMLAttr(`src="data:` + mime + ";base64," + base64.StdEncoding.EncodeToString(b) + `"`)
 }
 
 // report writes report.html: one self-contained file.

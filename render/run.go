@@ -3,6 +3,7 @@ package render
 import (
 	"bytes"
 	"fmt"
+	"html/template"
 	"image"
 	"image/png"
 	"io"
@@ -91,6 +92,9 @@ type run struct {
 	// pics are the pictures the steps prepared, drawn together by
 	// drawPictures.
 	pics []picture
+	// embedded holds the drawn pictures as report src attributes, by
+	// path (see embed).
+	embedded map[string]template.HTMLAttr
 	// the raster read last (see readASC)
 	lastPath string
 	lastVals []float64
@@ -191,6 +195,7 @@ func (r *run) addMap(rel, caption, input string, draw func() (*image.RGBA, error
 // core count. The first error in that order is returned.
 func (r *run) drawPictures() error {
 	errs := make([]error, len(r.pics))
+	srcs := make([]template.HTMLAttr, len(r.pics))
 	// The animation, the longest and itself parallel, starts first, so
 	// that its serial encoding overlaps the other pictures.
 	order := make([]int, 0, len(r.pics))
@@ -208,6 +213,9 @@ func (r *run) drawPictures() error {
 		if err == nil {
 			err = writeFileAtomic(filepath.Join(r.dir, p.rel), b)
 		}
+		if err == nil && !r.opt.Minimal {
+			srcs[i] = embed(p.rel, b) // for the report
+		}
 		errs[i] = err
 	})
 	for i, p := range r.pics {
@@ -215,6 +223,12 @@ func (r *run) drawPictures() error {
 			return errs[i]
 		}
 		r.rep.Files = append(r.rep.Files, p.rel)
+		if srcs[i] != "" {
+			if r.embedded == nil {
+				r.embedded = map[string]template.HTMLAttr{}
+			}
+			r.embedded[p.rel] = srcs[i]
+		}
 		switch p.kind {
 		case mapPicture:
 			r.maps = append(r.maps, figure{p.rel, p.caption})
@@ -503,21 +517,30 @@ func (r *run) streamlineMap() error {
 		r.rep.note("streamlines.geojson missing: no streamline map")
 		return nil
 	}
-	lines, err := readStreamlines(p)
-	if err != nil {
-		return err
-	}
-	tot := make([]float64, len(lines))
-	for i, l := range lines {
-		tot[i] = l.TotalTOF
-	}
-	sc := logScale(Scale{Label: "Total time of flight", Unit: "days, injector to producer, log scale", Log: true, Map: &TimeOfFlightColors}, tot, nil)
-	s := r.scene
-	s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
-	w, h := r.opt.Width, r.opt.Height
-	r.addMap(filepath.Join(runfolder.MapsDir, "streamlines.png"),
-		"Streamlines from injectors to producers, coloured by their total time of flight (log scale).", p,
-		func() (*image.RGBA, error) { return drawStreamlines(s, lines, sc, w, h) })
+	// The lines are read with the drawing, in parallel with the other
+	// pictures.
+	s, w, h := r.scene, r.opt.Width, r.opt.Height
+	rel := filepath.Join(runfolder.MapsDir, "streamlines.png")
+	r.pics = append(r.pics, picture{kind: mapPicture, rel: rel,
+		caption: "Streamlines from injectors to producers, coloured by their total time of flight (log scale).",
+		draw: func() ([]byte, error) {
+			lines, err := readStreamlines(p)
+			if err != nil {
+				return nil, err
+			}
+			tot := make([]float64, len(lines))
+			for i, l := range lines {
+				tot[i] = l.TotalTOF
+			}
+			sc := logScale(Scale{Label: "Total time of flight", Unit: "days, injector to producer, log scale", Log: true, Map: &TimeOfFlightColors}, tot, nil)
+			s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
+			img, err := drawStreamlines(s, lines, sc, w, h)
+			if err != nil {
+				return nil, fmt.Errorf("render: %s: %w", p, err)
+			}
+			defer recycle(img)
+			return encodePNG(rel, img)
+		}})
 	return nil
 }
 
