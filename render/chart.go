@@ -161,7 +161,7 @@ func WriteChart(wr io.Writer, c Chart, w, h int, format string) error {
 	} else {
 		cv = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(wpt, hpt), vgimg.UseDPI(dpi))}
 	}
-	if err := drawChart(draw.New(cv), c, float64(hpt)/810); err != nil {
+	if err := drawChart(draw.New(cv), c, float64(hpt)/810, format == "png"); err != nil {
 		return err
 	}
 	if format == "png" {
@@ -182,8 +182,10 @@ func WriteChart(wr io.Writer, c Chart, w, h int, format string) error {
 }
 
 // drawChart lays the chart out on dc; k scales every length (1 at
-// 1440x810 points, i.e. 1920x1080 pixels).
-func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
+// 1440x810 points, i.e. 1920x1080 pixels). On a raster canvas, which
+// starts white, the page is not filled again (each fill rasterises the
+// whole picture).
+func drawChart(dc draw.Canvas, c Chart, k float64, raster bool) (err error) {
 	defer func() {
 		// gonum/plot panics on some degenerate input; report it instead.
 		if r := recover(); r != nil {
@@ -192,8 +194,10 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 	}()
 	L := func(v float64) vg.Length { return vg.Length(v * k) }
 	ink, soft := colInk, colInkSoft
-	dc.SetColor(colWhite)
-	dc.Fill(dc.Rectangle.Path())
+	if !raster {
+		dc.SetColor(colWhite)
+		dc.Fill(dc.Rectangle.Path())
+	}
 
 	W := dc.Max.X - dc.Min.X
 	margin := L(26)
@@ -214,6 +218,9 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 	// Lines.
 	p := plot.New()
 	p.BackgroundColor = color.Transparent
+	if raster {
+		p.BackgroundColor = nil // a transparent fill changes no pixel
+	}
 	tick := text.Style{Color: ink, Font: chartFont(L(14), false), Handler: plot.DefaultTextHandler}
 	lab := text.Style{Color: ink, Font: chartFont(L(16), false), Handler: plot.DefaultTextHandler}
 	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
