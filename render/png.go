@@ -55,14 +55,25 @@ func encodeRGBA(w io.Writer, m *image.RGBA) error {
 		return err
 	}
 	n := bpp * wd
-	cur, prev, out := make([]byte, n), make([]byte, n), make([]byte, n+1)
+	cur, out := make([]byte, n), make([]byte, n+1)
+	var prevSrc []byte
 	for y := range ht {
 		src := m.Pix[m.PixOffset(b.Min.X, b.Min.Y+y):][:4*wd]
-		if opaque {
-			for x := range wd {
-				copy(cur[3*x:3*x+3], src[4*x:4*x+3])
+		switch {
+		case prevSrc != nil && bytes.Equal(src, prevSrc):
+			out[0] = 2 // up: the row repeats the row above, all zeros
+			clear(out[1:])
+		case opaque:
+			// Sub, straight from the RGBA row.
+			out[0] = 1
+			o := out[1:]
+			o[0], o[1], o[2] = src[0], src[1], src[2]
+			for x := 1; x < wd; x++ {
+				p, q := src[4*x:4*x+3], src[4*x-4:4*x-1]
+				d := o[3*x : 3*x+3]
+				d[0], d[1], d[2] = p[0]-q[0], p[1]-q[1], p[2]-q[2]
 			}
-		} else {
+		default:
 			for x := range wd {
 				// Unpremultiply, as image/png does for *image.RGBA.
 				p := src[4*x : 4*x+4]
@@ -81,21 +92,16 @@ func encodeRGBA(w io.Writer, m *image.RGBA) error {
 					c[3] = p[3]
 				}
 			}
-		}
-		if y > 0 && bytes.Equal(cur, prev) {
-			out[0] = 2 // up: all zeros
-			clear(out[1:])
-		} else {
 			out[0] = 1 // sub
-			copy(out[1:1+bpp], cur[:bpp])
-			for i := bpp; i < n; i++ {
-				out[1+i] = cur[i] - cur[i-bpp]
+			copy(out[1:5], cur[:4])
+			for i := 4; i < n; i++ {
+				out[1+i] = cur[i] - cur[i-4]
 			}
 		}
 		if _, err := zw.Write(out); err != nil {
 			return err
 		}
-		cur, prev = prev, cur
+		prevSrc = src
 	}
 	if err := zw.Close(); err != nil {
 		return err
