@@ -5,6 +5,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"sync"
 
 	"github.com/fogleman/gg"
 )
@@ -58,7 +59,7 @@ func newMapCanvas(s Scene, w, h int) (*mapCanvas, error) {
 	if err != nil {
 		return nil, err
 	}
-	img := image.NewRGBA(image.Rect(0, 0, w, h))
+	img := &image.RGBA{Pix: pixels(4 * w * h), Stride: 4 * w, Rect: image.Rect(0, 0, w, h)}
 	// Opaque white: the bytes are all 255; fill by doubling copies.
 	if len(img.Pix) > 0 {
 		img.Pix[0] = 255
@@ -68,6 +69,28 @@ func newMapCanvas(s Scene, w, h int) (*mapCanvas, error) {
 	}
 	c := &mapCanvas{img: img, dc: gg.NewContextForRGBA(img), l: l, f: newFaces(), s: s}
 	return c, nil
+}
+
+// pixelPool recycles the pixel buffers of pictures a run has encoded
+// (see recycle): memory touched for the first time is slow to get, and a
+// run draws many pictures of one size.
+var pixelPool sync.Pool
+
+// pixels returns a buffer of n bytes, of undefined content.
+func pixels(n int) []byte {
+	if p, ok := pixelPool.Get().(*[]byte); ok && cap(*p) >= n {
+		return (*p)[:n]
+	}
+	return make([]byte, n)
+}
+
+// recycle hands the pixels of img, which nothing uses any more, back to
+// pixels.
+func recycle(img *image.RGBA) {
+	if img != nil && cap(img.Pix) > 0 {
+		p := img.Pix[:0]
+		pixelPool.Put(&p)
+	}
 }
 
 func (c *mapCanvas) active(k int) bool { return c.s.Active == nil || c.s.Active[k] }

@@ -142,16 +142,6 @@ func cleanXY(x, y []float64) plotter.XYs {
 	return out
 }
 
-// lineChart draws c into a w x h pixel file at path, "png" (default) or
-// "svg"; the file is written atomically.
-func lineChart(path string, c Chart, w, h int, format string) error {
-	var buf bytes.Buffer
-	if err := WriteChart(&buf, c, w, h, format); err != nil {
-		return err
-	}
-	return writeFileAtomic(path, buf.Bytes())
-}
-
 var svgSize = regexp.MustCompile(`<svg width="[0-9.e+-]+pt" height="[0-9.e+-]+pt"`)
 
 // WriteChart draws c as a w x h pixel picture in the format ("png" or
@@ -178,12 +168,13 @@ func WriteChart(wr io.Writer, c Chart, w, h int, format string) error {
 	} else {
 		cv = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(wpt, hpt), vgimg.UseDPI(dpi))}
 	}
-	if err := drawChart(draw.New(cv), c, float64(hpt)/810); err != nil {
+	if err := drawChart(draw.New(cv), c, float64(hpt)/810, format == "png"); err != nil {
 		return err
 	}
 	if format == "png" {
-		_, err := cv.WriteTo(wr)
-		return err
+		// The maps' encoder, not the canvas's default (slower, with the
+		// best compression).
+		return writePNG(wr, cv.(vgimg.PngCanvas).Image())
 	}
 	var b bytes.Buffer
 	if _, err := cv.WriteTo(&b); err != nil {
@@ -198,8 +189,10 @@ func WriteChart(wr io.Writer, c Chart, w, h int, format string) error {
 }
 
 // drawChart lays the chart out on dc; k scales every length (1 at
-// 1440x810 points, i.e. 1920x1080 pixels).
-func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
+// 1440x810 points, i.e. 1920x1080 pixels). On a raster canvas, which
+// starts white, the page is not filled again (each fill rasterises the
+// whole picture).
+func drawChart(dc draw.Canvas, c Chart, k float64, raster bool) (err error) {
 	defer func() {
 		// gonum/plot panics on some degenerate input; report it instead.
 		if r := recover(); r != nil {
@@ -208,8 +201,10 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 	}()
 	L := func(v float64) vg.Length { return vg.Length(v * k) }
 	ink, soft := colInk, colInkSoft
-	dc.SetColor(colWhite)
-	dc.Fill(dc.Rectangle.Path())
+	if !raster {
+		dc.SetColor(colWhite)
+		dc.Fill(dc.Rectangle.Path())
+	}
 
 	W := dc.Max.X - dc.Min.X
 	margin := L(26)
@@ -230,6 +225,9 @@ func drawChart(dc draw.Canvas, c Chart, k float64) (err error) {
 	// Lines.
 	p := plot.New()
 	p.BackgroundColor = color.Transparent
+	if raster {
+		p.BackgroundColor = nil // a transparent fill changes no pixel
+	}
 	tick := text.Style{Color: ink, Font: chartFont(L(14), false), Handler: plot.DefaultTextHandler}
 	lab := text.Style{Color: ink, Font: chartFont(L(16), false), Handler: plot.DefaultTextHandler}
 	for _, ax := range []*plot.Axis{&p.X, &p.Y} {

@@ -65,6 +65,25 @@ func drawField(s Scene, values []float64, sc Scale, ov *Overlay, w, h int) (*ima
 		return nil, err
 	}
 	c.fillCells(cellColours(s, values, sc))
+	c.fieldDecoration(sc, ov, hasNoData(s, values))
+	return c.img, nil
+}
+
+// hasNoData reports whether an active cell holds NaN (drawn hatched, with
+// a legend entry).
+func hasNoData(s Scene, values []float64) bool {
+	for k, v := range values {
+		if (s.Active == nil || s.Active[k]) && math.IsNaN(v) {
+			return true
+		}
+	}
+	return false
+}
+
+// fieldDecoration draws everything of a field map but the cells: the
+// outline, faults, markers of ov, wells and labels over the map, the title
+// block, the legend and the north arrow and scale bar.
+func (c *mapCanvas) fieldDecoration(sc Scale, ov *Overlay, noDataCells bool) {
 	c.outline()
 	c.faults(false)
 	if ov != nil {
@@ -74,22 +93,18 @@ func drawField(s Scene, values []float64, sc Scale, ov *Overlay, w, h int) (*ima
 	c.faultLabels()
 	c.header()
 	noData := ""
-	for k, v := range values {
-		if c.active(k) && math.IsNaN(v) {
-			noData = "No value (no flow)"
-			break
-		}
+	if noDataCells {
+		noData = "No value (no flow)"
 	}
 	if ov != nil {
 		c.overlayLegend(ov, sc, noData)
 		c.northAndScale()
-		return c.img, nil
+		return
 	}
 	c.panelHeading(sc.Label, sc.Unit)
 	c.colourBar(sc)
 	c.symbolLegend(float64(c.l.Bar.Max.Y)+56*c.l.S, c.standardEntries(noData))
 	c.northAndScale()
-	return c.img, nil
 }
 
 // drawPartition draws which well floods (or drains) each cell: part holds

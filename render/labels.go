@@ -19,9 +19,12 @@ func (c *mapCanvas) text(s string, face font.Face, size, x, y, ax float64, vcent
 	if vcenter {
 		y += 0.36 * size
 	}
-	c.dc.SetFontFace(face)
-	c.dc.SetColor(col)
-	c.dc.DrawString(s, x-ax*w, y)
+	// The glyph masks go straight onto the picture (no clip is set when
+	// text is drawn, and the canvas is never transformed): the same dot
+	// as gg's DrawString, without its per-glyph bilinear resampling.
+	d := font.Drawer{Dst: c.img, Src: image.NewUniform(col), Face: face,
+		Dot: fixed.Point26_6{X: fixed.Int26_6((x - ax*w) * 64), Y: fixed.Int26_6(y * 64)}}
+	d.DrawString(s)
 	return w
 }
 
@@ -200,6 +203,14 @@ func (c *mapCanvas) faultLabels() {
 	}
 }
 
+// subtitle draws the scene's subtitle under the title.
+func (c *mapCanvas) subtitle() {
+	s, m := c.l.S, c.l.Margin
+	ssize := math.Max(10, 26*s)
+	sf := c.f.get(regular, ssize)
+	c.text(fitText(c.s.Subtitle, sf, float64(c.l.W)-2*m), sf, ssize, m, m+80*s, 0, false, colInkSoft)
+}
+
 // header draws the title block and the footer.
 func (c *mapCanvas) header() {
 	s, l := c.l.S, c.l
@@ -208,9 +219,7 @@ func (c *mapCanvas) header() {
 	tsize := math.Max(12, 40*s)
 	tf := c.f.get(bold, tsize)
 	c.text(fitText(c.s.Title, tf, maxW), tf, tsize, m, m+38*s, 0, false, colInk)
-	ssize := math.Max(10, 26*s)
-	sf := c.f.get(regular, ssize)
-	c.text(fitText(c.s.Subtitle, sf, maxW), sf, ssize, m, m+80*s, 0, false, colInkSoft)
+	c.subtitle()
 	c.dc.SetColor(colRule)
 	c.dc.SetLineWidth(math.Max(1, 1.5*s))
 	c.dc.DrawLine(m, l.HeaderBottom, float64(l.W)-m, l.HeaderBottom)

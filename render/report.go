@@ -27,7 +27,7 @@ type allocRow struct{ Injector, Producer, Rate, FracInj, FracProd, PV string }
 
 type imgFig struct {
 	Caption string
-	Src     template.URL
+	Src     template.HTMLAttr // src="data:...": the embedded file, base64 (nothing to escape)
 	Alt     string
 }
 
@@ -80,12 +80,23 @@ func fmtSci(v float64) string {
 	return strconv.FormatFloat(v, 'e', 2, 64)
 }
 
-// dataURI embeds a written file.
-func (r *run) dataURI(rel string) (template.URL, error) {
+// dataURI embeds a written file as the attribute src="data:..."; the
+// pictures drawPictures drew are embedded already.
+func (r *run) dataURI(rel string) (template.HTMLAttr, error) {
+	if src, ok := r.embedded[rel]; ok {
+		return src, nil
+	}
 	b, err := os.ReadFile(filepath.Join(r.dir, rel))
 	if err != nil {
 		return "", fmt.Errorf("render: %w", err)
 	}
+	return embed(rel, b), nil
+}
+
+// embed returns the file rel holding b as the attribute src="data:...".
+// The base64 text needs no escaping; passing it as a URL would have the
+// template check every byte of several megabytes.
+func embed(rel string, b []byte) template.HTMLAttr {
 	mime := "image/png"
 	switch strings.ToLower(filepath.Ext(rel)) {
 	case ".svg":
@@ -93,7 +104,7 @@ func (r *run) dataURI(rel string) (template.URL, error) {
 	case ".gif":
 		mime = "image/gif"
 	}
-	return template.URL("data:" + mime + ";base64," + base64.StdEncoding.EncodeToString(b)), nil
+	return template.HTMLAttr(`src="data:` + mime + ";base64," + base64.StdEncoding.EncodeToString(b) + `"`)
 }
 
 // report writes report.html: one self-contained file.
@@ -370,21 +381,21 @@ footer { color: var(--soft); font-size: 12.5px; margin-top: 26px; }
 {{if .Charts}}
 <section id="charts">
 <h2>Charts</h2>
-{{range .Charts}}<figure><img src="{{.Src}}" alt="{{.Alt}}"><figcaption>{{.Caption}}</figcaption></figure>
+{{range .Charts}}<figure><img {{.Src}} alt="{{.Alt}}"><figcaption>{{.Caption}}</figcaption></figure>
 {{end}}</section>
 {{end}}
 
 {{if .Maps}}
 <section id="maps">
 <h2>Maps</h2>
-{{range .Maps}}<figure><img src="{{.Src}}" alt="{{.Alt}}"><figcaption>{{.Caption}}</figcaption></figure>
+{{range .Maps}}<figure><img {{.Src}} alt="{{.Alt}}"><figcaption>{{.Caption}}</figcaption></figure>
 {{end}}</section>
 {{end}}
 
 {{with .Animation}}
 <section id="animation">
 <h2>Saturation over time</h2>
-<figure><img src="{{.Src}}" alt="{{.Alt}}"><figcaption>{{.Caption}}</figcaption></figure>
+<figure><img {{.Src}} alt="{{.Alt}}"><figcaption>{{.Caption}}</figcaption></figure>
 </section>
 {{end}}
 

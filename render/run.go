@@ -3,6 +3,7 @@ package render
 import (
 	"bytes"
 	"fmt"
+	"html/template"
 	"image"
 	"image/png"
 	"io"
@@ -13,6 +14,7 @@ import (
 	"strings"
 
 	"floodtrace/internal/outdir"
+	"floodtrace/internal/parallel"
 	"floodtrace/runfolder"
 )
 
@@ -87,6 +89,12 @@ type run struct {
 	charts []figure
 	maps   []figure
 	gif    string
+	// pics are the pictures the steps prepared, drawn together by
+	// drawPictures.
+	pics []picture
+	// embedded holds the drawn pictures as report src attributes, by
+	// path (see embed).
+	embedded map[string]template.HTMLAttr
 	// the raster read last (see readASC)
 	lastPath string
 	lastVals []float64
@@ -125,16 +133,113 @@ func Run(dir string, opt Options) (*Report, error) {
 			return nil, fmt.Errorf("render: %w", err)
 		}
 	}
-	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.drawCharts, r.animation, r.report}
+	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.drawCharts, r.animation}
 	if opt.Minimal {
 		steps = []func() error{r.saturationMaps}
 	}
+	// The steps read their inputs in order and prepare the pictures;
+	// drawPictures draws them in parallel; the report embeds them all.
 	for _, step := range steps {
 		if err := step(); err != nil {
 			return r.rep, err
 		}
 	}
+	if err := r.drawPictures(); err != nil {
+		return r.rep, err
+	}
+	if !opt.Minimal {
+		if err := r.report(); err != nil {
+			return r.rep, err
+		}
+	}
 	return r.rep, nil
+}
+
+// pictureKind says where the report shows a picture.
+type pictureKind int
+
+const (
+	mapPicture pictureKind = iota
+	chartPicture
+	animationPicture
+)
+
+// picture is one file of the run's pictures: a step prepares it (reads
+// its inputs, in order) and drawPictures draws and writes it.
+type picture struct {
+	kind    pictureKind
+	rel     string // path relative to the run folder
+	caption string
+	// draw returns the encoded file. It may run on any goroutine at the
+	// same time as the other pictures' draw: it reads only what the step
+	// gave it and the run's shared, read-only scene and scales, and keeps
+	// its own font faces.
+	draw func() ([]byte, error)
+}
+
+// addMap prepares a map picture drawn by draw and encoded as PNG.
+func (r *run) addMap(rel, caption, input string, draw func() (*image.RGBA, error)) {
+	r.pics = append(r.pics, picture{kind: mapPicture, rel: rel, caption: caption, draw: func() ([]byte, error) {
+		img, err := draw()
+		if err != nil {
+			return nil, fmt.Errorf("render: %s: %w", input, err)
+		}
+		defer recycle(img)
+		return encodePNG(rel, img)
+	}})
+}
+
+// drawPictures draws the prepared pictures on up to GOMAXPROCS goroutines
+// and writes each to its file, then records them in the order the steps
+// prepared them, so that the report and Report.Files do not depend on the
+// core count. The first error in that order is returned.
+func (r *run) drawPictures() error {
+	errs := make([]error, len(r.pics))
+	srcs := make([]template.HTMLAttr, len(r.pics))
+	// The animation, the longest and itself parallel, starts first, so
+	// that its serial encoding overlaps the other pictures.
+	order := make([]int, 0, len(r.pics))
+	for pass := range 2 {
+		for i, p := range r.pics {
+			if (p.kind == animationPicture) == (pass == 0) {
+				order = append(order, i)
+			}
+		}
+	}
+	parallel.Each(len(order), 0, 1, func(_, k int) {
+		i := order[k]
+		p := r.pics[i]
+		b, err := p.draw()
+		if err == nil {
+			err = writeFileAtomic(filepath.Join(r.dir, p.rel), b)
+		}
+		if err == nil && !r.opt.Minimal {
+			srcs[i] = embed(p.rel, b) // for the report
+		}
+		errs[i] = err
+	})
+	for i, p := range r.pics {
+		if errs[i] != nil {
+			return errs[i]
+		}
+		r.rep.Files = append(r.rep.Files, p.rel)
+		if srcs[i] != "" {
+			if r.embedded == nil {
+				r.embedded = map[string]template.HTMLAttr{}
+			}
+			r.embedded[p.rel] = srcs[i]
+		}
+		switch p.kind {
+		case mapPicture:
+			r.maps = append(r.maps, figure{p.rel, p.caption})
+		case chartPicture:
+			r.charts = append(r.charts, figure{p.rel, p.caption})
+		case animationPicture:
+			r.gif = p.rel
+		}
+	}
+	r.pics = nil
+	return nil
 }
 
 // readASC reads a raster of the run's grid, keeping the last one read:
@@ -372,16 +477,13 @@ func decimalsForDay(d float64) int {
 // the time of the default level, for files about a fifth larger.
 var pngEncoder = png.Encoder{CompressionLevel: png.BestSpeed}
 
-func (r *run) writePNG(rel string, img image.Image) error {
+// encodePNG encodes the picture of file rel.
+func encodePNG(rel string, img image.Image) ([]byte, error) {
 	var b bytes.Buffer
-	if err := pngEncoder.Encode(&b, img); err != nil {
-		return fmt.Errorf("render: encoding %s: %w", rel, err)
+	if err := writePNG(&b, img); err != nil {
+		return nil, fmt.Errorf("render: encoding %s: %w", rel, err)
 	}
-	if err := writeFileAtomic(filepath.Join(r.dir, rel), b.Bytes()); err != nil {
-		return err
-	}
-	r.rep.Files = append(r.rep.Files, rel)
-	return nil
+	return b.Bytes(), nil
 }
 
 func (r *run) saturationMaps() error {
@@ -400,15 +502,11 @@ func (r *run) saturationMaps() error {
 		}
 		s := r.scene
 		s.Subtitle = "Water saturation · " + timeLabel(f.Day, r.pviAt(f.Day))
-		img, err := DrawField(s, v, r.satSc, r.opt.Width, r.opt.Height)
-		if err != nil {
-			return fmt.Errorf("render: %s: %w", f.Path, err)
-		}
 		rel := filepath.Join(runfolder.MapsDir, f.Name+".png")
-		if err := r.writePNG(rel, img); err != nil {
-			return err
-		}
-		r.maps = append(r.maps, figure{rel, "Water saturation at " + timeLabel(f.Day, r.pviAt(f.Day)) + "."})
+		sc, w, h := r.satSc, r.opt.Width, r.opt.Height
+		r.addMap(rel, "Water saturation at "+timeLabel(f.Day, r.pviAt(f.Day))+".", f.Path, func() (*image.RGBA, error) {
+			return DrawField(s, v, sc, w, h)
+		})
 	}
 	return nil
 }
@@ -419,26 +517,30 @@ func (r *run) streamlineMap() error {
 		r.rep.note("streamlines.geojson missing: no streamline map")
 		return nil
 	}
-	lines, err := readStreamlines(p)
-	if err != nil {
-		return err
-	}
-	tot := make([]float64, len(lines))
-	for i, l := range lines {
-		tot[i] = l.TotalTOF
-	}
-	sc := logScale(Scale{Label: "Total time of flight", Unit: "days, injector to producer, log scale", Log: true, Map: &TimeOfFlightColors}, tot, nil)
-	s := r.scene
-	s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
-	img, err := drawStreamlines(s, lines, sc, r.opt.Width, r.opt.Height)
-	if err != nil {
-		return fmt.Errorf("render: %s: %w", p, err)
-	}
+	// The lines are read with the drawing, in parallel with the other
+	// pictures.
+	s, w, h := r.scene, r.opt.Width, r.opt.Height
 	rel := filepath.Join(runfolder.MapsDir, "streamlines.png")
-	if err := r.writePNG(rel, img); err != nil {
-		return err
-	}
-	r.maps = append(r.maps, figure{rel, "Streamlines from injectors to producers, coloured by their total time of flight (log scale)."})
+	r.pics = append(r.pics, picture{kind: mapPicture, rel: rel,
+		caption: "Streamlines from injectors to producers, coloured by their total time of flight (log scale).",
+		draw: func() ([]byte, error) {
+			lines, err := readStreamlines(p)
+			if err != nil {
+				return nil, err
+			}
+			tot := make([]float64, len(lines))
+			for i, l := range lines {
+				tot[i] = l.TotalTOF
+			}
+			sc := logScale(Scale{Label: "Total time of flight", Unit: "days, injector to producer, log scale", Log: true, Map: &TimeOfFlightColors}, tot, nil)
+			s.Subtitle = fmt.Sprintf("Streamlines coloured by total time of flight, injector to producer · %s lines", FormatNumber(float64(len(lines)), 0))
+			img, err := drawStreamlines(s, lines, sc, w, h)
+			if err != nil {
+				return nil, fmt.Errorf("render: %s: %w", p, err)
+			}
+			defer recycle(img)
+			return encodePNG(rel, img)
+		}})
 	return nil
 }
 
@@ -458,15 +560,10 @@ func (r *run) tofMap() error {
 	}
 	s := r.scene
 	s.Subtitle = "Time of flight from the injectors · first pressure solve"
-	img, err := DrawField(s, v, r.tofSc, r.opt.Width, r.opt.Height)
-	if err != nil {
-		return fmt.Errorf("render: %s: %w", p, err)
-	}
-	rel := filepath.Join(runfolder.MapsDir, "tof.png")
-	if err := r.writePNG(rel, img); err != nil {
-		return err
-	}
-	r.maps = append(r.maps, figure{rel, "Time of flight from the injectors: days for injected water to reach each cell (log scale)."})
+	sc, w, h := r.tofSc, r.opt.Width, r.opt.Height
+	r.addMap(filepath.Join(runfolder.MapsDir, "tof.png"),
+		"Time of flight from the injectors: days for injected water to reach each cell (log scale).", p,
+		func() (*image.RGBA, error) { return DrawField(s, v, sc, w, h) })
 	return nil
 }
 
@@ -500,15 +597,10 @@ func (r *run) partitionMaps() error {
 		}
 		s := r.scene
 		s.Subtitle = pm.sub
-		img, err := drawPartition(s, part, names, pm.title, r.opt.Width, r.opt.Height)
-		if err != nil {
-			return fmt.Errorf("render: %s: %w", p, err)
-		}
-		rel := filepath.Join(runfolder.MapsDir, pm.file+".png")
-		if err := r.writePNG(rel, img); err != nil {
-			return err
-		}
-		r.maps = append(r.maps, figure{rel, pm.caption})
+		title, w, h := pm.title, r.opt.Width, r.opt.Height
+		r.addMap(filepath.Join(runfolder.MapsDir, pm.file+".png"), pm.caption, p, func() (*image.RGBA, error) {
+			return drawPartition(s, part, names, title, w, h)
+		})
 	}
 	return nil
 }
@@ -536,15 +628,9 @@ func (r *run) pressureMap() error {
 	}
 	s := r.scene
 	s.Subtitle = "Pressure · first solve"
-	img, err := DrawField(s, v, sc, r.opt.Width, r.opt.Height)
-	if err != nil {
-		return fmt.Errorf("render: %s: %w", p, err)
-	}
-	rel := filepath.Join(runfolder.MapsDir, "pressure.png")
-	if err := r.writePNG(rel, img); err != nil {
-		return err
-	}
-	r.maps = append(r.maps, figure{rel, "Pressure at the first solve (" + r.sum.UnitLabels.Pressure + ")."})
+	w, h := r.opt.Width, r.opt.Height
+	r.addMap(filepath.Join(runfolder.MapsDir, "pressure.png"), "Pressure at the first solve ("+r.sum.UnitLabels.Pressure+").", p,
+		func() (*image.RGBA, error) { return DrawField(s, v, sc, w, h) })
 	return nil
 }
 

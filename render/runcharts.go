@@ -3,6 +3,7 @@ package render
 import (
 	"floodtrace/runfolder"
 
+	"bytes"
 	"fmt"
 	"math"
 	"path/filepath"
@@ -105,11 +106,14 @@ func (r *run) limitCaption() string {
 
 func (r *run) chart(name string, c Chart, caption string) error {
 	rel := filepath.Join(runfolder.ChartsDir, name+"."+r.opt.Format)
-	if err := lineChart(filepath.Join(r.dir, rel), c, r.opt.Width, r.opt.Height, r.opt.Format); err != nil {
-		return fmt.Errorf("render: %s: %w", rel, err)
-	}
-	r.rep.Files = append(r.rep.Files, rel)
-	r.charts = append(r.charts, figure{rel, caption})
+	w, h, format := r.opt.Width, r.opt.Height, r.opt.Format
+	r.pics = append(r.pics, picture{kind: chartPicture, rel: rel, caption: caption, draw: func() ([]byte, error) {
+		var b bytes.Buffer
+		if err := WriteChart(&b, c, w, h, format); err != nil {
+			return nil, fmt.Errorf("render: %s: %w", rel, err)
+		}
+		return b.Bytes(), nil
+	}})
 	return nil
 }
 

@@ -46,3 +46,16 @@ func BenchmarkStageRender(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkRunPictures times Run on the synthetic run folder of the tests
+// (every map, chart, the animation and the report at the default sizes),
+// at GOMAXPROCS as given by -cpu: the pictures are drawn in parallel.
+func BenchmarkRunPictures(b *testing.B) {
+	dir := b.TempDir()
+	newSynthCase().write(b, dir)
+	for b.Loop() {
+		if _, err := Run(dir, Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -1,0 +1,73 @@
+package render
+
+import (
+	"bytes"
+	"image"
+	"image/color"
+	"image/png"
+	"testing"
+)
+
+// TestEncodeRGBARoundTrip checks the run's PNG encoder against the
+// standard library's decoder (PNG specification, W3C 2003): the decoded
+// picture has the same pixels, for an opaque picture (written as RGB),
+// one with translucent and transparent pixels (RGBA, straight alpha, as
+// image/png writes it) and a picture whose bounds do not start at 0.
+func TestEncodeRGBARoundTrip(t *testing.T) {
+	pattern := func(r image.Rectangle, alpha func(x, y int) uint8) *image.RGBA {
+		m := image.NewRGBA(r)
+		for y := r.Min.Y; y < r.Max.Y; y++ {
+			for x := r.Min.X; x < r.Max.X; x++ {
+				a := alpha(x, y)
+				// Rows repeat in pairs (the "up" filter) and runs of 3 pixels
+				// share a colour (the "sub" filter).
+				c := color.NRGBA{uint8(x / 3 * 37), uint8(y / 2 * 11), uint8((x/3 + y/2) * 5), a}
+				m.Set(x, y, c)
+			}
+		}
+		return m
+	}
+	for _, tc := range []struct {
+		name string
+		img  *image.RGBA
+	}{
+		{"opaque", pattern(image.Rect(0, 0, 37, 20), func(x, y int) uint8 { return 255 })},
+		{"translucent", pattern(image.Rect(0, 0, 23, 17), func(x, y int) uint8 { return uint8((x * 29) % 256) })},
+		{"offset", pattern(image.Rect(5, 7, 30, 19), func(x, y int) uint8 { return 255 })},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var b bytes.Buffer
+			if err := writePNG(&b, tc.img); err != nil {
+				t.Fatal(err)
+			}
+			got, err := png.Decode(&b)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var want bytes.Buffer
+			if err := png.Encode(&want, tc.img); err != nil {
+				t.Fatal(err)
+			}
+			ref, err := png.Decode(&want)
+			if err != nil {
+				t.Fatal(err)
+			}
+			r := tc.img.Bounds()
+			if got.Bounds().Dx() != r.Dx() || got.Bounds().Dy() != r.Dy() {
+				t.Fatalf("decoded %v, want %v", got.Bounds(), r)
+			}
+			if got.ColorModel() != ref.ColorModel() {
+				t.Errorf("colour model differs from image/png's")
+			}
+			for y := range r.Dy() {
+				for x := range r.Dx() {
+					g := got.At(got.Bounds().Min.X+x, got.Bounds().Min.Y+y)
+					w := ref.At(ref.Bounds().Min.X+x, ref.Bounds().Min.Y+y)
+					if g != w {
+						t.Fatalf("pixel (%d,%d): %v, image/png gives %v", x, y, g, w)
+					}
+				}
+			}
+		})
+	}
+}
