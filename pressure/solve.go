@@ -55,16 +55,14 @@ import (
 //
 // The linear system is solved by preconditioned conjugate gradients
 // (sparse.CG) with the preconditioner of Settings (by default
-// DefaultPreconditioner: incomplete Cholesky on small systems, smoothed
-// aggregation algebraic multigrid on large ones).
+// GridPreconditioner: incomplete Cholesky on small systems, the
+// structured multigrid on large ones, and smoothed aggregation algebraic
+// multigrid on large ones the structured multigrid cannot take or does
+// not solve in SMGMaxIterations).
 func Solve(in Input, s Settings) (*Solution, error) {
 	pb, err := newProblem(in)
 	if err != nil {
 		return nil, err
-	}
-	pre := s.Preconditioner
-	if pre == nil {
-		pre = DefaultPreconditioner
 	}
 	tol := s.Tol
 	if tol <= 0 {
@@ -98,15 +96,11 @@ func Solve(in Input, s Settings) (*Solution, error) {
 			pb.startLevel(ctl, sys, x)
 		}
 		if len(x) > 0 {
-			m, err := pre(sys.A)
-			if err != nil {
-				return nil, &SolverError{Stage: "preconditioner", Unknowns: len(x), Err: err}
-			}
-			res, err := sparse.CG(sys.A, sys.B, x, m, sparse.CGSettings{Tol: tol})
+			res, _, err := pb.linearSolve(sys, x, s.Preconditioner, tol)
 			sol.Iterations += res.Iterations
 			sol.RelResidual = res.RelativeResidual
 			if err != nil {
-				return nil, &SolverError{Stage: "linear solve", Unknowns: len(x), Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
+				return nil, err
 			}
 		}
 		for k := range p {

@@ -84,8 +84,7 @@ func TestSMGSymmetricPositive(t *testing.T) {
 
 // Iterations of CG with SMG to 1e-8 stay flat with grid size on the test
 // fields (the high-contrast, anisotropic and inactive cases of the AMG
-// tests): the bound is the measured count at 1000x1000 plus a few
-// (hypre's PFMG, the method of Ashby and Falgout 1996, takes 19 on a
+// tests): the bound is the largest measured count plus a few (hypre's PFMG, the method of Ashby and Falgout 1996, takes 19 on a
 // log-normal pattern at 1e-10, issue 19). 1000x1000 runs unless -short.
 func TestSMGIterationBounds(t *testing.T) {
 	sizes := []int{100, 300}
@@ -94,9 +93,9 @@ func TestSMGIterationBounds(t *testing.T) {
 	}
 	bound := func(kind amgFieldKind) int {
 		if kind == fieldRough {
-			return 60
+			return 40 // measured 11, 18, 33: outside the issue's list, held to the AMG test's bound
 		}
-		return 30
+		return 20 // measured 6 to 15
 	}
 	var table strings.Builder
 	fmt.Fprintf(&table, "\n%-16s", "field")
