@@ -44,14 +44,15 @@ import (
 // so that it is symmetric by construction. Coarsening stops at
 // SMGCoarsest points or fewer, solved by dense Cholesky factorization.
 //
-// The smoother is four-colour point Gauss-Seidel (the colour of (i, j) is
-// (i mod 2, j mod 2), so no two points of a colour are coupled by a
-// nine-point stencil): one sweep over the colours in order before the
-// coarse correction and one in reverse order after it, which makes the
-// V-cycle a symmetric positive definite operator, as conjugate gradients
-// need. Points of a colour are independent, so each colour is relaxed in
-// parallel through internal/parallel and the result does not depend on
-// the number of cores.
+// The smoother is point Gauss-Seidel in zebra order: the even rows, then
+// the odd rows, each row swept west to east (a nine-point stencil couples
+// a row only to its neighbour rows, so rows of one parity are
+// independent); one such sweep before the coarse correction and its
+// adjoint (odd rows, then even rows, east to west) after it, which makes
+// the V-cycle a symmetric positive definite operator, as conjugate
+// gradients need. The rows of a parity are relaxed in parallel through
+// internal/parallel, and the result does not depend on the number of
+// cores.
 //
 // What it cannot take: a matrix that is not a five-point stencil of the
 // box given (NewSMG returns an error), and systems whose unknowns fill
@@ -76,7 +77,8 @@ const SMGCoarsest = 200
 // coefficients are zero across the box edges and in the padding.
 type smgLevel struct {
 	nx, ny, pad int
-	// The stencil by its lower half: d the diagonal, w the coupling to
+	// The stencil by its lower half: d the diagonal (kept for the set-up
+	// only; the cycle uses the inverse diagonal inv), w the coupling to
 	// (i-1, j), s to (i, j-1), sw to (i-1, j-1), se to (i+1, j-1); the
 	// upper half follows by symmetry. sw and se are nil on the finest
 	// (five-point) level.
@@ -99,33 +101,11 @@ func newSMGLevel(nx, ny int, corners bool) smgLevel {
 }
 
 // coef returns the coupling of point p to its neighbour at offset (ox, oy).
-func (l *smgLevel) coef(p, ox, oy int) float64 {
-	nx := l.nx
-	switch oy*3 + ox {
-	case 0:
-		return l.d[p]
-	case -1:
-		return l.w[p]
-	case 1:
-		return l.w[p+1]
-	case -3:
-		return l.s[p]
-	case 3:
-		return l.s[p+nx]
+func coef(st *[9][]float64, p, ox, oy int) float64 {
+	if a := st[(oy+1)*3+ox+1]; a != nil {
+		return a[p]
 	}
-	if l.sw == nil {
-		return 0
-	}
-	switch oy*3 + ox {
-	case -4:
-		return l.sw[p]
-	case 4:
-		return l.sw[p+nx+1]
-	case -2:
-		return l.se[p]
-	default: // 2: (-1, +1)
-		return l.se[p+nx-1]
-	}
+	return 0
 }
 
 // NewSMG returns the structured multigrid preconditioner of a, the matrix
@@ -198,6 +178,11 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 	if err := h.factorCoarse(); err != nil {
 		return nil, err
 	}
+	// The cycle needs only the inverse diagonal: dropping the diagonal
+	// saves memory traffic in the residual.
+	for k := range h.levels {
+		h.levels[k].d = nil
+	}
 	return h, nil
 }
 
@@ -240,6 +225,7 @@ func (l *smgLevel) weights() {
 	nx, ny := l.nx, l.ny
 	m := len(l.d)
 	l.plo, l.phi = make([]float64, m), make([]float64, m)
+	st := l.stencil()
 	parallel.Each(ny, smgWorkers(l), 0, func(_, j int) {
 		for i := 0; i < nx; i++ {
 			along := i
@@ -252,13 +238,13 @@ func (l *smgLevel) weights() {
 			p := l.pad + j*nx + i
 			var lo, hi, c float64
 			if l.dir == 0 {
-				lo = l.coef(p, -1, -1) + l.coef(p, -1, 0) + l.coef(p, -1, 1)
-				hi = l.coef(p, 1, -1) + l.coef(p, 1, 0) + l.coef(p, 1, 1)
-				c = l.d[p] + l.coef(p, 0, -1) + l.coef(p, 0, 1)
+				lo = coef(&st, p, -1, -1) + coef(&st, p, -1, 0) + coef(&st, p, -1, 1)
+				hi = coef(&st, p, 1, -1) + coef(&st, p, 1, 0) + coef(&st, p, 1, 1)
+				c = l.d[p] + coef(&st, p, 0, -1) + coef(&st, p, 0, 1)
 			} else {
-				lo = l.coef(p, -1, -1) + l.coef(p, 0, -1) + l.coef(p, 1, -1)
-				hi = l.coef(p, -1, 1) + l.coef(p, 0, 1) + l.coef(p, 1, 1)
-				c = l.d[p] + l.coef(p, -1, 0) + l.coef(p, 1, 0)
+				lo = coef(&st, p, -1, -1) + coef(&st, p, 0, -1) + coef(&st, p, 1, -1)
+				hi = coef(&st, p, -1, 1) + coef(&st, p, 0, 1) + coef(&st, p, 1, 1)
+				c = l.d[p] + coef(&st, p, -1, 0) + coef(&st, p, 1, 0)
 			}
 			lo, hi = max(0, -lo), max(0, -hi)
 			// A collapsed row that is not diagonally dominant (possible
@@ -276,99 +262,113 @@ func (l *smgLevel) weights() {
 func (l *smgLevel) coarsen() smgLevel {
 	nx, ny := l.nx, l.ny
 	cnx, cny := nx, ny
+	sa, sc, na := 1, nx, nx // fine strides along and across, points along
 	if l.dir == 0 {
 		cnx = (nx + 1) / 2
 	} else {
 		cny = (ny + 1) / 2
+		sa, sc, na = nx, 1, ny
 	}
 	c := newSMGLevel(cnx, cny, true)
-	// pw returns the weight on the coarse point at along coordinate pa of
-	// fine point p at along coordinate along, or 0.
-	pw := func(p, along, pa int) float64 {
-		if along%2 == 0 {
-			if along/2 == pa {
-				return 1
+	st := l.stencil()
+	// o[da+1][dc+1] is the stencil entry of offset da along and dc across.
+	var o [3][3]int
+	for da := -1; da <= 1; da++ {
+		for dc := -1; dc <= 1; dc++ {
+			ox, oy := da, dc
+			if l.dir == 1 {
+				ox, oy = dc, da
 			}
-			return 0
+			o[da+1][dc+1] = (oy+1)*3 + ox + 1
 		}
-		switch pa {
-		case (along - 1) / 2:
-			return l.plo[p]
-		case (along + 1) / 2:
-			return l.phi[p]
-		}
-		return 0
 	}
+	plo, phi := l.plo, l.phi
 	parallel.Each(cny, smgWorkers(&c), 0, func(_, cj int) {
-		var acc [3][3]float64
 		for ci := 0; ci < cnx; ci++ {
-			acc = [3][3]float64{}
+			// acc[dc+1][dA+1]: the coarse row by offsets across and along.
+			var acc [3][3]float64
 			ca := ci // coarse coordinate along the direction
 			fi, fj := 2*ci, cj
 			if l.dir == 1 {
 				ca = cj
 				fi, fj = ci, 2*cj
 			}
+			p0 := l.pad + fj*nx + fi
 			for m := -1; m <= 1; m++ {
-				ai, aj := fi+m, fj
-				if l.dir == 1 {
-					ai, aj = fi, fj+m
-				}
-				if ai < 0 || ai >= nx || aj < 0 || aj >= ny {
+				fa := 2*ca + m
+				if fa < 0 || fa >= na {
 					continue
 				}
-				pf := l.pad + aj*nx + ai
-				af := ai
-				if l.dir == 1 {
-					af = aj
+				pf := p0 + m*sa
+				wf := 1.0
+				switch m {
+				case -1:
+					wf = phi[pf]
+				case 1:
+					wf = plo[pf]
 				}
-				wf := pw(pf, af, ca)
 				if wf == 0 {
 					continue
 				}
-				for oy := -1; oy <= 1; oy++ {
-					for ox := -1; ox <= 1; ox++ {
-						v := l.coef(pf, ox, oy)
+				for da := -1; da <= 1; da++ {
+					ga := fa + da
+					for dc := -1; dc <= 1; dc++ {
+						a := st[o[da+1][dc+1]]
+						if a == nil {
+							continue
+						}
+						v := a[pf]
 						if v == 0 {
 							continue
 						}
-						gi, gj := ai+ox, aj+oy
-						pg := pf + oy*nx + ox
-						ga := gi
-						if l.dir == 1 {
-							ga = gj
+						v *= wf
+						pg := pf + da*sa + dc*sc
+						if ga%2 == 0 {
+							acc[dc+1][ga/2-ca+1] += v
+							continue
 						}
-						np := 1
-						par := [2]int{ga / 2}
-						wgs := [2]float64{1}
-						if ga%2 != 0 {
-							np = 2
-							par = [2]int{(ga - 1) / 2, (ga + 1) / 2}
-							wgs = [2]float64{l.plo[pg], l.phi[pg]}
-						}
-						for q := 0; q < np; q++ {
-							wg := wgs[q]
-							if wg == 0 {
-								continue
-							}
-							dx, dy := par[q]-ca, gj-cj
-							if l.dir == 1 {
-								dx, dy = gi-ci, par[q]-ca
-							}
-							acc[dy+1][dx+1] += wf * v * wg
+						lo := (ga - 1) / 2
+						acc[dc+1][lo-ca+1] += v * plo[pg]
+						if w := phi[pg]; w != 0 {
+							acc[dc+1][lo-ca+2] += v * w
 						}
 					}
 				}
 			}
+			// Back to (dx, dy): the lower half d, w (-1, 0), s (0, -1),
+			// sw (-1, -1), se (+1, -1).
+			at := func(dx, dy int) float64 {
+				if l.dir == 0 {
+					return acc[dy+1][dx+1]
+				}
+				return acc[dx+1][dy+1]
+			}
 			p := c.pad + cj*cnx + ci
-			c.d[p] = acc[1][1]
-			c.w[p] = acc[1][0]
-			c.s[p] = acc[0][1]
-			c.sw[p] = acc[0][0]
-			c.se[p] = acc[0][2]
+			c.d[p] = at(0, 0)
+			c.w[p] = at(-1, 0)
+			c.s[p] = at(0, -1)
+			c.sw[p] = at(-1, -1)
+			c.se[p] = at(1, -1)
 		}
 	})
 	return c
+}
+
+// stencil returns the nine coefficient arrays of the level: st[(oy+1)*3 +
+// ox+1][p] is the coupling of point p to its neighbour at offset (ox, oy).
+// The upper half are shifted views of the lower half; the corners are nil
+// on a five-point level.
+func (l *smgLevel) stencil() [9][]float64 {
+	nx := l.nx
+	var st [9][]float64
+	st[4] = l.d
+	st[3], st[5] = l.w, l.w[1:]
+	st[1], st[7] = l.s, l.s[nx:]
+	if l.sw != nil {
+		st[0], st[8] = l.sw, l.sw[nx+1:]
+		st[2], st[6] = l.se, l.se[nx-1:]
+	}
+	return st
 }
 
 // smgWorkers runs small levels on the caller's goroutine.
@@ -457,58 +457,89 @@ func (h *SMG) cycle(k int) {
 		return
 	}
 	clear(l.x)
-	for c := 0; c < 4; c++ {
-		l.relax(c)
-	}
+	l.relax(true)
 	l.residual()
 	c := &h.levels[k+1]
 	l.restrict(c)
 	h.cycle(k + 1)
 	l.prolong(c)
-	for c := 3; c >= 0; c-- {
-		l.relax(c)
+	l.relax(false)
+}
+
+// relax runs one Gauss-Seidel sweep in zebra order: the even rows, then
+// the odd ones, each row from west to east (forward); backward is its
+// adjoint, the odd rows and then the even ones, each from east to west.
+// A nine-point stencil couples a row only to the rows next to it, so the
+// rows of one parity are independent and relaxed in parallel.
+func (l *smgLevel) relax(forward bool) {
+	for q := 0; q < 2; q++ {
+		parity := q
+		if !forward {
+			parity = 1 - q
+		}
+		rows := (l.ny - parity + 1) / 2
+		parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
+			l.relaxRow(parity+2*r, forward)
+		})
 	}
 }
 
-// relax runs Gauss-Seidel over the points of colour c: (i mod 2, j mod 2)
-// = (c mod 2, c / 2).
-func (l *smgLevel) relax(c int) {
-	nx, ny := l.nx, l.ny
-	ci, cj := c%2, c/2
-	rows := (ny - cj + 1) / 2
-	x, b, inv, w, s, sw, se := l.x, l.b, l.inv, l.w, l.s, l.sw, l.se
-	parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
-		j := cj + 2*r
-		p0 := l.pad + j*nx
-		if sw == nil {
-			for p := p0 + ci; p < p0+nx; p += 2 {
-				v := b[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx]
-				x[p] = v * inv[p]
+// relaxRow runs Gauss-Seidel along row j. The couplings to the rows
+// either side and to the point not yet relaxed are summed first, so that
+// the chain from one point to the next is one multiply and subtract.
+func (l *smgLevel) relaxRow(j int, forward bool) {
+	nx := l.nx
+	p0 := l.pad + j*nx
+	x := l.x[p0-nx-1 : p0+2*nx+1] // point i of the row at nx+1+i
+	xs, xc, xn := x[:nx+2], x[nx:2*nx+2], x[2*nx:] // rows j-1, j, j+1 from i = -1
+	b, inv := l.b[p0:p0+nx], l.inv[p0:p0+nx]
+	w := l.w[p0 : p0+nx+1] // w[i+1] couples i to i+1
+	s, sn := l.s[p0:p0+nx], l.s[p0+nx:p0+2*nx]
+	if l.sw == nil {
+		if forward {
+			for i := range b {
+				t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - w[i+1]*xc[i+2]
+				xc[i+1] = (t - w[i]*xc[i]) * inv[i]
 			}
 			return
 		}
-		for p := p0 + ci; p < p0+nx; p += 2 {
-			v := b[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx] -
-				sw[p]*x[p-nx-1] - sw[p+nx+1]*x[p+nx+1] - se[p]*x[p-nx+1] - se[p+nx-1]*x[p+nx-1]
-			x[p] = v * inv[p]
+		for i := nx - 1; i >= 0; i-- {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - w[i]*xc[i]
+			xc[i+1] = (t - w[i+1]*xc[i+2]) * inv[i]
 		}
-	})
+		return
+	}
+	sw, ne := l.sw[p0:p0+nx], l.sw[p0+nx+1:p0+2*nx+1]
+	se, nw := l.se[p0:p0+nx], l.se[p0+nx-1:p0+2*nx-1]
+	if forward {
+		for i := range b {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+				ne[i]*xn[i+2] - nw[i]*xn[i] - w[i+1]*xc[i+2]
+			xc[i+1] = (t - w[i]*xc[i]) * inv[i]
+		}
+		return
+	}
+	for i := nx - 1; i >= 0; i-- {
+		t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+			ne[i]*xn[i+2] - nw[i]*xn[i] - w[i]*xc[i]
+		xc[i+1] = (t - w[i+1]*xc[i+2]) * inv[i]
+	}
 }
 
 // residual sets r = b - A x.
 func (l *smgLevel) residual() {
 	nx := l.nx
-	x, b, r, d, w, s, sw, se := l.x, l.b, l.r, l.d, l.w, l.s, l.sw, l.se
+	x, b, r, inv, w, s, sw, se := l.x, l.b, l.r, l.inv, l.w, l.s, l.sw, l.se
 	parallel.Each(l.ny, smgWorkers(l), 0, func(_, j int) {
 		p0 := l.pad + j*nx
 		if sw == nil {
 			for p := p0; p < p0+nx; p++ {
-				r[p] = b[p] - d[p]*x[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx]
+				r[p] = b[p] - x[p]/inv[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx]
 			}
 			return
 		}
 		for p := p0; p < p0+nx; p++ {
-			r[p] = b[p] - d[p]*x[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx] -
+			r[p] = b[p] - x[p]/inv[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx] -
 				sw[p]*x[p-nx-1] - sw[p+nx+1]*x[p+nx+1] - se[p]*x[p-nx+1] - se[p+nx-1]*x[p+nx-1]
 		}
 	})
