@@ -490,7 +490,7 @@ func (l *smgLevel) relax(forward bool) {
 func (l *smgLevel) relaxRow(j int, forward bool) {
 	nx := l.nx
 	p0 := l.pad + j*nx
-	x := l.x[p0-nx-1 : p0+2*nx+1] // point i of the row at nx+1+i
+	x := l.x[p0-nx-1 : p0+2*nx+1]                  // point i of the row at nx+1+i
 	xs, xc, xn := x[:nx+2], x[nx:2*nx+2], x[2*nx:] // rows j-1, j, j+1 from i = -1
 	b, inv := l.b[p0:p0+nx], l.inv[p0:p0+nx]
 	w := l.w[p0 : p0+nx+1] // w[i+1] couples i to i+1
