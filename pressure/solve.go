@@ -520,14 +520,16 @@ func (pb *problem) results(sol *Solution, ctl []control, gauged []bool, q, bhp [
 }
 
 // AMGThreshold is the number of unknowns from which DefaultPreconditioner
-// uses algebraic multigrid instead of incomplete Cholesky.
+// and GridPreconditioner use multigrid instead of incomplete Cholesky.
 const AMGThreshold = 4000
 
 // DefaultPreconditioner is incomplete Cholesky IC(0) (Meijerink and van
 // der Vorst 1977) for systems under AMGThreshold unknowns, where it is
 // cheapest, and smoothed aggregation algebraic multigrid (Vanek, Mandel and
 // Brezina 1996) above, where its iteration count stays nearly flat with
-// grid size.
+// grid size. It is the choice for a matrix given without its grid; Solve
+// uses GridPreconditioner, which puts the structured multigrid in place of
+// the algebraic one where it can.
 func DefaultPreconditioner(a *sparse.CSR) (sparse.Preconditioner, error) {
 	if a.N < AMGThreshold {
 		return sparse.NewIC0(a)
