@@ -6,11 +6,12 @@ import (
 )
 
 // Settings controls a pressure solve. The zero value is a sensible default:
-// relative residual 1e-10 and DefaultPreconditioner.
+// relative residual 1e-10 and GridPreconditioner.
 type Settings struct {
 	Tol float64 // relative residual of the linear solve; 0 = 1e-10
-	// Preconditioner builds the preconditioner; nil = DefaultPreconditioner
-	// (IC(0) on small systems, algebraic multigrid on large ones).
+	// Preconditioner builds the preconditioner; nil = GridPreconditioner
+	// (IC(0) on small systems, structured multigrid on large ones, with
+	// algebraic multigrid as the fall-back).
 	Preconditioner sparse.PreconditionerFunc
 }
 

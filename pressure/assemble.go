@@ -268,46 +268,7 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 			sys.Unknown[u] = k
 		}
 	}
-	a := &sparse.CSR{N: nu, RowPtr: make([]int, nu+1)}
-	var nt [4]float64
-	var nl [4]int
-	nnz := 0
-	for u, k := range sys.Unknown {
-		nnz++
-		c := pb.neighbours(k, &nt, &nl)
-		for q := 0; q < c; q++ {
-			if sys.Index[nl[q]] >= 0 {
-				nnz++
-			}
-		}
-		a.RowPtr[u+1] = nnz
-	}
-	a.Col = make([]int, nnz)
-	a.Val = make([]float64, nnz)
-	diagPos := make([]int, nu)
-	for u, k := range sys.Unknown {
-		p := a.RowPtr[u]
-		d := 0.0
-		dp := -1
-		c := pb.neighbours(k, &nt, &nl)
-		for q := 0; q < c; q++ {
-			t, l := nt[q], nl[q]
-			d += t
-			if l > k && dp < 0 {
-				dp = p
-				p++
-			}
-			if v := sys.Index[l]; v >= 0 {
-				a.Col[p], a.Val[p] = v, -t
-				p++
-			}
-		}
-		if dp < 0 {
-			dp = p
-		}
-		a.Col[dp], a.Val[dp] = u, d
-		diagPos[u] = dp
-	}
+	a, diagPos := pb.matrix(sys)
 	sys.B = make([]float64, nu)
 	for w := range pb.wells {
 		c := ctl[w]

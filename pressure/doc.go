@@ -15,5 +15,8 @@
 //
 // References: Peaceman (1978, 1983) for the well model; Meijerink and van
 // der Vorst (1977) and Gustafsson (1978) for the incomplete Cholesky
-// preconditioners of package sparse.
+// preconditioners of package sparse; Schaffer (1998), Ashby and Falgout
+// (1996) and Dendy (1982) for its structured multigrid, the default on
+// large grids (GridPreconditioner); Vanek, Mandel and Brezina (1996) for
+// its algebraic multigrid, the fall-back.
 package pressure

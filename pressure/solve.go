@@ -55,16 +55,14 @@ import (
 //
 // The linear system is solved by preconditioned conjugate gradients
 // (sparse.CG) with the preconditioner of Settings (by default
-// DefaultPreconditioner: incomplete Cholesky on small systems, smoothed
-// aggregation algebraic multigrid on large ones).
+// GridPreconditioner: incomplete Cholesky on small systems, the
+// structured multigrid on large ones, and smoothed aggregation algebraic
+// multigrid on large ones the structured multigrid cannot take or does
+// not solve in SMGMaxIterations).
 func Solve(in Input, s Settings) (*Solution, error) {
 	pb, err := newProblem(in)
 	if err != nil {
 		return nil, err
-	}
-	pre := s.Preconditioner
-	if pre == nil {
-		pre = DefaultPreconditioner
 	}
 	tol := s.Tol
 	if tol <= 0 {
@@ -98,15 +96,11 @@ func Solve(in Input, s Settings) (*Solution, error) {
 			pb.startLevel(ctl, sys, x)
 		}
 		if len(x) > 0 {
-			m, err := pre(sys.A)
-			if err != nil {
-				return nil, &SolverError{Stage: "preconditioner", Unknowns: len(x), Err: err}
-			}
-			res, err := sparse.CG(sys.A, sys.B, x, m, sparse.CGSettings{Tol: tol})
+			res, _, err := pb.linearSolve(sys, x, s.Preconditioner, tol)
 			sol.Iterations += res.Iterations
 			sol.RelResidual = res.RelativeResidual
 			if err != nil {
-				return nil, &SolverError{Stage: "linear solve", Unknowns: len(x), Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
+				return nil, err
 			}
 		}
 		for k := range p {
@@ -526,14 +520,16 @@ func (pb *problem) results(sol *Solution, ctl []control, gauged []bool, q, bhp [
 }
 
 // AMGThreshold is the number of unknowns from which DefaultPreconditioner
-// uses algebraic multigrid instead of incomplete Cholesky.
+// and GridPreconditioner use multigrid instead of incomplete Cholesky.
 const AMGThreshold = 4000
 
 // DefaultPreconditioner is incomplete Cholesky IC(0) (Meijerink and van
 // der Vorst 1977) for systems under AMGThreshold unknowns, where it is
 // cheapest, and smoothed aggregation algebraic multigrid (Vanek, Mandel and
 // Brezina 1996) above, where its iteration count stays nearly flat with
-// grid size.
+// grid size. It is the choice for a matrix given without its grid; Solve
+// uses GridPreconditioner, which puts the structured multigrid in place of
+// the algebraic one where it can.
 func DefaultPreconditioner(a *sparse.CSR) (sparse.Preconditioner, error) {
 	if a.N < AMGThreshold {
 		return sparse.NewIC0(a)

@@ -52,16 +52,18 @@ func BenchmarkStageAssemble(b *testing.B) {
 }
 
 // BenchmarkStagePreconditioner times the set-up of the default
-// preconditioner (IC(0) below AMGThreshold unknowns, AMG above).
+// preconditioner (GridPreconditioner: IC(0) below AMGThreshold unknowns,
+// the structured multigrid above).
 func BenchmarkStagePreconditioner(b *testing.B) {
 	for _, n := range stageSizes {
 		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
-			sys, err := Assemble(Input{Model: stageModel(b, n)})
+			m := stageModel(b, n)
+			sys, err := Assemble(Input{Model: m})
 			if err != nil {
 				b.Fatal(err)
 			}
 			for b.Loop() {
-				if _, err := DefaultPreconditioner(sys.A); err != nil {
+				if _, _, err := GridPreconditioner(sys, m.Grid); err != nil {
 					b.Fatal(err)
 				}
 			}
@@ -75,11 +77,12 @@ func BenchmarkStagePreconditioner(b *testing.B) {
 func BenchmarkStageSolve(b *testing.B) {
 	for _, n := range stageSizes {
 		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
-			sys, err := Assemble(Input{Model: stageModel(b, n)})
+			m := stageModel(b, n)
+			sys, err := Assemble(Input{Model: m})
 			if err != nil {
 				b.Fatal(err)
 			}
-			pre, err := DefaultPreconditioner(sys.A)
+			pre, _, err := GridPreconditioner(sys, m.Grid)
 			if err != nil {
 				b.Fatal(err)
 			}

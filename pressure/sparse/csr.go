@@ -3,6 +3,8 @@ package sparse
 import (
 	"fmt"
 	"sort"
+
+	"floodtrace/internal/parallel"
 )
 
 // CSR is a square matrix in compressed sparse row form. Column indices in
@@ -62,9 +64,24 @@ func FromTriplets(n int, ts []Triplet) (*CSR, error) {
 	return a, nil
 }
 
-// MulVec sets dst = A*x.
+// mulVecPieces is the number of row ranges MulVec splits a large matrix
+// into; every row is summed in the same order whatever the split.
+const mulVecPieces = 32
+
+// MulVec sets dst = A*x. Matrices of 1<<15 rows or more are multiplied in
+// parallel over fixed row ranges (internal/parallel); each row is summed
+// in column order, so the result is the same for any core count.
 func (a *CSR) MulVec(dst, x []float64) {
-	for i := 0; i < a.N; i++ {
+	if a.N < 1<<15 {
+		a.mulRows(dst, x, 0, a.N)
+		return
+	}
+	parallel.Pieces(a.N, mulVecPieces, procs(), func(_, lo, hi int) { a.mulRows(dst, x, lo, hi) })
+}
+
+// mulRows sets rows [lo, hi) of dst = A*x.
+func (a *CSR) mulRows(dst, x []float64, lo, hi int) {
+	for i := lo; i < hi; i++ {
 		s := 0.0
 		for p := a.RowPtr[i]; p < a.RowPtr[i+1]; p++ {
 			s += a.Val[p] * x[a.Col[p]]

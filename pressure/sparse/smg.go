@@ -1,0 +1,605 @@
+package sparse
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+
+	"floodtrace/internal/parallel"
+)
+
+// SMG is a structured semi-coarsening multigrid V-cycle used as a
+// preconditioner for conjugate gradients on the five-point two-point flux
+// matrix of a Cartesian grid. It follows the semi-coarsening multigrid of
+// Schaffer (1998, "A semicoarsening multigrid method for elliptic partial
+// differential equations with highly discontinuous and anisotropic
+// coefficients", SIAM J. Sci. Comput. 20) in the form of the parallel
+// PFMG of Ashby and Falgout (1996, "A parallel multigrid preconditioned
+// conjugate gradient algorithm for groundwater flow simulations", Nucl.
+// Sci. Eng. 124), with the operator-dependent interpolation and Galerkin
+// coarse operators of the black-box multigrid of Dendy (1982, "Black box
+// multigrid", J. Comput. Phys. 48).
+//
+// The grid. The unknowns are embedded in the nx by ny box of the grid;
+// box cells that are not unknowns (inactive, unconnected or gauge cells)
+// become decoupled rows with diagonal 1 and right-hand side 0, so they
+// stay 0 on every level. Faults of multiplier 0 are zero couplings, and
+// well terms sit on the diagonal: both enter the operator-dependent
+// interpolation, which is what makes the method cope with them.
+//
+// Set-up, level by level: the coarsening direction is x or y, whichever
+// carries the larger sum of coupling magnitudes (the strong direction;
+// Schaffer 1998 and Ashby and Falgout 1996 coarsen one direction at a
+// time so that anisotropy is followed level by level); every second line
+// across that direction is kept. A fine point between two coarse points
+// is interpolated from them with weights from its stencil collapsed
+// across the coarsening direction (Schaffer 1998; Dendy 1982):
+// w_lo = -a_lo/a_c, w_hi = -a_hi/a_c, where a_lo sums the couplings on the
+// lower side, a_hi on the upper side and a_c is the diagonal plus the
+// couplings across (so a cell held by a well or cut off by a fault gets
+// weights summing to less than one, or zero). The coarse operator is the
+// Galerkin product P^T A P, a nine-point stencil, stored by its lower half
+// so that it is symmetric by construction. Coarsening stops at
+// SMGCoarsest points or fewer, solved by dense Cholesky factorization.
+//
+// The smoother is point Gauss-Seidel in zebra order: the even rows, then
+// the odd rows, each row swept west to east (a nine-point stencil couples
+// a row only to its neighbour rows, so rows of one parity are
+// independent); one such sweep before the coarse correction and its
+// adjoint (odd rows, then even rows, east to west) after it, which makes
+// the V-cycle a symmetric positive definite operator, as conjugate
+// gradients need. The rows of a parity are relaxed in parallel through
+// internal/parallel, and the result does not depend on the number of
+// cores.
+//
+// What it cannot take: a matrix that is not a five-point stencil of the
+// box given (NewSMG returns an error), and systems whose unknowns fill
+// little of the box (the cycle works on every box cell); callers keep
+// algebraic multigrid for those (see pressure.Solve).
+//
+// An SMG uses internal work space: one SMG must not be applied from
+// several goroutines at once.
+type SMG struct {
+	levels []smgLevel
+	cells  []int // box cell of each unknown
+	chol   *mat.Cholesky
+	cb, cx *mat.VecDense
+}
+
+// SMGCoarsest is the largest number of points of the coarsest SMG level.
+const SMGCoarsest = 200
+
+// smgLevel is one level of the hierarchy on an nx by ny box. Arrays are
+// padded by pad = nx+2 entries on both sides, so that point (i, j) is at
+// pad + j*nx + i and every neighbour index of a grid point is in range;
+// coefficients are zero across the box edges and in the padding.
+type smgLevel struct {
+	nx, ny, pad int
+	// The stencil by its lower half: d the diagonal (kept for the set-up
+	// only; the cycle uses the inverse diagonal inv), w the coupling to
+	// (i-1, j), s to (i, j-1), sw to (i-1, j-1), se to (i+1, j-1); the
+	// upper half follows by symmetry. sw and se are nil on the finest
+	// (five-point) level.
+	d, inv, w, s, sw, se []float64
+	dir                  int       // coarsening direction to the next level: 0 x, 1 y
+	plo, phi             []float64 // interpolation weights of the fine points between coarse ones
+	x, b, r              []float64
+}
+
+func newSMGLevel(nx, ny int, corners bool) smgLevel {
+	pad := nx + 2
+	m := nx*ny + 2*pad
+	l := smgLevel{nx: nx, ny: ny, pad: pad,
+		d: make([]float64, m), inv: make([]float64, m), w: make([]float64, m), s: make([]float64, m),
+		x: make([]float64, m), b: make([]float64, m), r: make([]float64, m)}
+	if corners {
+		l.sw, l.se = make([]float64, m), make([]float64, m)
+	}
+	return l
+}
+
+// coef returns the coupling of point p to its neighbour at offset (ox, oy).
+func coef(st *[9][]float64, p, ox, oy int) float64 {
+	if a := st[(oy+1)*3+ox+1]; a != nil {
+		return a[p]
+	}
+	return 0
+}
+
+// NewSMG returns the structured multigrid preconditioner of a, the matrix
+// over the unknowns of an nx by ny grid whose unknown u is box cell
+// cells[u] (cells numbered j*nx + i). a must be symmetric positive
+// definite and couple each unknown only to its four box neighbours.
+func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
+	if nx < 1 || ny < 1 {
+		return nil, fmt.Errorf("sparse: SMG: grid %d x %d is empty", nx, ny)
+	}
+	if len(cells) != a.N {
+		return nil, fmt.Errorf("sparse: SMG: %d cells for a matrix of order %d", len(cells), a.N)
+	}
+	fine := newSMGLevel(nx, ny, false)
+	for k := 0; k < nx*ny; k++ {
+		fine.d[fine.pad+k] = math.NaN() // marks cells that are not unknowns
+	}
+	for _, k := range cells {
+		if k < 0 || k >= nx*ny {
+			return nil, fmt.Errorf("sparse: SMG: cell %d is outside the %d x %d grid", k, nx, ny)
+		}
+		if p := fine.pad + k; !math.IsNaN(fine.d[p]) {
+			return nil, fmt.Errorf("sparse: SMG: cell %d is given twice", k)
+		} else {
+			fine.d[p] = 0
+		}
+	}
+	for u, k := range cells {
+		p := fine.pad + k
+		ki, kj := k%nx, k/nx
+		for q := a.RowPtr[u]; q < a.RowPtr[u+1]; q++ {
+			l := cells[a.Col[q]]
+			di, dj := l%nx-ki, l/nx-kj
+			v := a.Val[q]
+			switch {
+			case di == 0 && dj == 0:
+				fine.d[p] = v
+			case di == -1 && dj == 0:
+				fine.w[p] = v
+			case di == 0 && dj == -1:
+				fine.s[p] = v
+			case (di == 1 && dj == 0) || (di == 0 && dj == 1):
+				// the upper half, taken from the neighbour's row
+			default:
+				return nil, fmt.Errorf("sparse: SMG: row %d (cell %d) couples to cell %d, not a box neighbour", u, k, l)
+			}
+		}
+		if !(fine.d[p] > 0) || math.IsInf(fine.d[p], 0) {
+			return nil, fmt.Errorf("sparse: SMG: diagonal entry %d (cell %d) is %g, not positive", u, k, fine.d[p])
+		}
+	}
+	for k := 0; k < nx*ny; k++ {
+		if p := fine.pad + k; math.IsNaN(fine.d[p]) {
+			fine.d[p] = 1
+		}
+	}
+	h := &SMG{cells: cells}
+	h.levels = append(h.levels, fine)
+	for {
+		l := &h.levels[len(h.levels)-1]
+		l.finish()
+		if l.nx*l.ny <= SMGCoarsest || (l.nx == 1 && l.ny == 1) {
+			break
+		}
+		l.dir = l.direction()
+		l.weights()
+		c := l.coarsen()
+		h.levels = append(h.levels, c)
+	}
+	if err := h.factorCoarse(); err != nil {
+		return nil, err
+	}
+	// The cycle needs only the inverse diagonal: dropping the diagonal
+	// saves memory traffic in the residual.
+	for k := range h.levels {
+		h.levels[k].d = nil
+	}
+	return h, nil
+}
+
+// finish sets the inverse diagonal.
+func (l *smgLevel) finish() {
+	for k := 0; k < l.nx*l.ny; k++ {
+		p := l.pad + k
+		l.inv[p] = 1 / l.d[p]
+	}
+}
+
+// direction picks the coarsening direction: the one with the larger sum
+// of coupling magnitudes (corner couplings count for both).
+func (l *smgLevel) direction() int {
+	if l.nx == 1 {
+		return 1
+	}
+	if l.ny == 1 {
+		return 0
+	}
+	var mx, my float64
+	for k := 0; k < l.nx*l.ny; k++ {
+		p := l.pad + k
+		c := 0.0
+		if l.sw != nil {
+			c = math.Abs(l.sw[p]) + math.Abs(l.se[p])
+		}
+		mx += math.Abs(l.w[p]) + c
+		my += math.Abs(l.s[p]) + c
+	}
+	if mx >= my {
+		return 0
+	}
+	return 1
+}
+
+// weights sets the interpolation weights of the points with an odd
+// coordinate along the coarsening direction from their collapsed stencil.
+func (l *smgLevel) weights() {
+	nx, ny := l.nx, l.ny
+	m := len(l.d)
+	l.plo, l.phi = make([]float64, m), make([]float64, m)
+	st := l.stencil()
+	parallel.Each(ny, smgWorkers(l), 0, func(_, j int) {
+		for i := 0; i < nx; i++ {
+			along := i
+			if l.dir == 1 {
+				along = j
+			}
+			if along%2 == 0 {
+				continue
+			}
+			p := l.pad + j*nx + i
+			var lo, hi, c float64
+			if l.dir == 0 {
+				lo = coef(&st, p, -1, -1) + coef(&st, p, -1, 0) + coef(&st, p, -1, 1)
+				hi = coef(&st, p, 1, -1) + coef(&st, p, 1, 0) + coef(&st, p, 1, 1)
+				c = l.d[p] + coef(&st, p, 0, -1) + coef(&st, p, 0, 1)
+			} else {
+				lo = coef(&st, p, -1, -1) + coef(&st, p, 0, -1) + coef(&st, p, 1, -1)
+				hi = coef(&st, p, -1, 1) + coef(&st, p, 0, 1) + coef(&st, p, 1, 1)
+				c = l.d[p] + coef(&st, p, -1, 0) + coef(&st, p, 1, 0)
+			}
+			lo, hi = max(0, -lo), max(0, -hi)
+			// A collapsed row that is not diagonally dominant (possible
+			// on coarse levels) interpolates with weights summing to 1.
+			c = max(c, lo+hi)
+			if c > 0 {
+				l.plo[p], l.phi[p] = lo/c, hi/c
+			}
+		}
+	})
+}
+
+// coarsen returns the next level: every second line across the coarsening
+// direction, with the Galerkin operator P^T A P.
+func (l *smgLevel) coarsen() smgLevel {
+	nx, ny := l.nx, l.ny
+	cnx, cny := nx, ny
+	sa, sc, na := 1, nx, nx // fine strides along and across, points along
+	if l.dir == 0 {
+		cnx = (nx + 1) / 2
+	} else {
+		cny = (ny + 1) / 2
+		sa, sc, na = nx, 1, ny
+	}
+	c := newSMGLevel(cnx, cny, true)
+	st := l.stencil()
+	// o[da+1][dc+1] is the stencil entry of offset da along and dc across.
+	var o [3][3]int
+	for da := -1; da <= 1; da++ {
+		for dc := -1; dc <= 1; dc++ {
+			ox, oy := da, dc
+			if l.dir == 1 {
+				ox, oy = dc, da
+			}
+			o[da+1][dc+1] = (oy+1)*3 + ox + 1
+		}
+	}
+	plo, phi := l.plo, l.phi
+	parallel.Each(cny, smgWorkers(&c), 0, func(_, cj int) {
+		for ci := 0; ci < cnx; ci++ {
+			// acc[dc+1][dA+1]: the coarse row by offsets across and along.
+			var acc [3][3]float64
+			ca := ci // coarse coordinate along the direction
+			fi, fj := 2*ci, cj
+			if l.dir == 1 {
+				ca = cj
+				fi, fj = ci, 2*cj
+			}
+			p0 := l.pad + fj*nx + fi
+			for m := -1; m <= 1; m++ {
+				fa := 2*ca + m
+				if fa < 0 || fa >= na {
+					continue
+				}
+				pf := p0 + m*sa
+				wf := 1.0
+				switch m {
+				case -1:
+					wf = phi[pf]
+				case 1:
+					wf = plo[pf]
+				}
+				if wf == 0 {
+					continue
+				}
+				for da := -1; da <= 1; da++ {
+					ga := fa + da
+					for dc := -1; dc <= 1; dc++ {
+						a := st[o[da+1][dc+1]]
+						if a == nil {
+							continue
+						}
+						v := a[pf]
+						if v == 0 {
+							continue
+						}
+						v *= wf
+						pg := pf + da*sa + dc*sc
+						if ga%2 == 0 {
+							acc[dc+1][ga/2-ca+1] += v
+							continue
+						}
+						lo := (ga - 1) / 2
+						acc[dc+1][lo-ca+1] += v * plo[pg]
+						if w := phi[pg]; w != 0 {
+							acc[dc+1][lo-ca+2] += v * w
+						}
+					}
+				}
+			}
+			// Back to (dx, dy): the lower half d, w (-1, 0), s (0, -1),
+			// sw (-1, -1), se (+1, -1).
+			at := func(dx, dy int) float64 {
+				if l.dir == 0 {
+					return acc[dy+1][dx+1]
+				}
+				return acc[dx+1][dy+1]
+			}
+			p := c.pad + cj*cnx + ci
+			c.d[p] = at(0, 0)
+			c.w[p] = at(-1, 0)
+			c.s[p] = at(0, -1)
+			c.sw[p] = at(-1, -1)
+			c.se[p] = at(1, -1)
+		}
+	})
+	return c
+}
+
+// stencil returns the nine coefficient arrays of the level: st[(oy+1)*3 +
+// ox+1][p] is the coupling of point p to its neighbour at offset (ox, oy).
+// The upper half are shifted views of the lower half; the corners are nil
+// on a five-point level.
+func (l *smgLevel) stencil() [9][]float64 {
+	nx := l.nx
+	var st [9][]float64
+	st[4] = l.d
+	st[3], st[5] = l.w, l.w[1:]
+	st[1], st[7] = l.s, l.s[nx:]
+	if l.sw != nil {
+		st[0], st[8] = l.sw, l.sw[nx+1:]
+		st[2], st[6] = l.se, l.se[nx-1:]
+	}
+	return st
+}
+
+// smgWorkers runs small levels on the caller's goroutine.
+func smgWorkers(l *smgLevel) int {
+	if l.nx*l.ny < 1<<14 {
+		return 1
+	}
+	return procs()
+}
+
+// factorCoarse factors the coarsest level with gonum's dense Cholesky.
+func (h *SMG) factorCoarse() error {
+	l := &h.levels[len(h.levels)-1]
+	n := l.nx * l.ny
+	sym := mat.NewSymDense(n, nil)
+	for k := 0; k < n; k++ {
+		p := l.pad + k
+		i, j := k%l.nx, k/l.nx
+		sym.SetSym(k, k, l.d[p])
+		if i > 0 {
+			sym.SetSym(k, k-1, l.w[p])
+		}
+		if j > 0 {
+			sym.SetSym(k, k-l.nx, l.s[p])
+			if l.sw != nil && i > 0 {
+				sym.SetSym(k, k-l.nx-1, l.sw[p])
+			}
+			if l.se != nil && i+1 < l.nx {
+				sym.SetSym(k, k-l.nx+1, l.se[p])
+			}
+		}
+	}
+	var ch mat.Cholesky
+	if ok := ch.Factorize(sym); !ok {
+		return fmt.Errorf("sparse: SMG: coarsest matrix (order %d) is not positive definite", n)
+	}
+	h.chol = &ch
+	h.cb = mat.NewVecDense(n, nil)
+	h.cx = mat.NewVecDense(n, nil)
+	return nil
+}
+
+// Levels returns the number of levels, the finest included.
+func (h *SMG) Levels() int { return len(h.levels) }
+
+// String describes the hierarchy: the level sizes and the direction each
+// was coarsened in.
+func (h *SMG) String() string {
+	var b strings.Builder
+	for i, l := range h.levels {
+		if i > 0 {
+			b.WriteString([...]string{" -x-> ", " -y-> "}[h.levels[i-1].dir])
+		}
+		fmt.Fprintf(&b, "%dx%d", l.nx, l.ny)
+	}
+	return b.String()
+}
+
+// Apply sets dst = M^-1 r for one V-cycle M^-1 started from zero. dst and
+// r may be the same slice. It panics if their lengths differ from the
+// order of the matrix.
+func (h *SMG) Apply(dst, r []float64) {
+	if len(dst) != len(h.cells) || len(r) != len(h.cells) {
+		panic(fmt.Sprintf("sparse: SMG.Apply with vectors of length %d and %d for a matrix of order %d", len(dst), len(r), len(h.cells)))
+	}
+	f := &h.levels[0]
+	for u, k := range h.cells {
+		f.b[f.pad+k] = r[u]
+	}
+	h.cycle(0)
+	for u, k := range h.cells {
+		dst[u] = f.x[f.pad+k]
+	}
+}
+
+// cycle runs the V-cycle on level k from x = 0: x = M_k^-1 b.
+func (h *SMG) cycle(k int) {
+	l := &h.levels[k]
+	if k == len(h.levels)-1 {
+		n := l.nx * l.ny
+		copy(h.cb.RawVector().Data, l.b[l.pad:l.pad+n])
+		// The only possible error is a condition-number warning; the
+		// solution is still the best available, so it is used.
+		_ = h.chol.SolveVecTo(h.cx, h.cb)
+		copy(l.x[l.pad:l.pad+n], h.cx.RawVector().Data)
+		return
+	}
+	clear(l.x)
+	l.relax(true)
+	l.residual()
+	c := &h.levels[k+1]
+	l.restrict(c)
+	h.cycle(k + 1)
+	l.prolong(c)
+	l.relax(false)
+}
+
+// relax runs one Gauss-Seidel sweep in zebra order: the even rows, then
+// the odd ones, each row from west to east (forward); backward is its
+// adjoint, the odd rows and then the even ones, each from east to west.
+// A nine-point stencil couples a row only to the rows next to it, so the
+// rows of one parity are independent and relaxed in parallel.
+func (l *smgLevel) relax(forward bool) {
+	for q := 0; q < 2; q++ {
+		parity := q
+		if !forward {
+			parity = 1 - q
+		}
+		rows := (l.ny - parity + 1) / 2
+		parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
+			l.relaxRow(parity+2*r, forward)
+		})
+	}
+}
+
+// relaxRow runs Gauss-Seidel along row j. The couplings to the rows
+// either side and to the point not yet relaxed are summed first, so that
+// the chain from one point to the next is one multiply and subtract.
+func (l *smgLevel) relaxRow(j int, forward bool) {
+	nx := l.nx
+	p0 := l.pad + j*nx
+	x := l.x[p0-nx-1 : p0+2*nx+1]                  // point i of the row at nx+1+i
+	xs, xc, xn := x[:nx+2], x[nx:2*nx+2], x[2*nx:] // rows j-1, j, j+1 from i = -1
+	b, inv := l.b[p0:p0+nx], l.inv[p0:p0+nx]
+	w := l.w[p0 : p0+nx+1] // w[i+1] couples i to i+1
+	s, sn := l.s[p0:p0+nx], l.s[p0+nx:p0+2*nx]
+	if l.sw == nil {
+		if forward {
+			for i := range b {
+				t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - w[i+1]*xc[i+2]
+				xc[i+1] = (t - w[i]*xc[i]) * inv[i]
+			}
+			return
+		}
+		for i := nx - 1; i >= 0; i-- {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - w[i]*xc[i]
+			xc[i+1] = (t - w[i+1]*xc[i+2]) * inv[i]
+		}
+		return
+	}
+	sw, ne := l.sw[p0:p0+nx], l.sw[p0+nx+1:p0+2*nx+1]
+	se, nw := l.se[p0:p0+nx], l.se[p0+nx-1:p0+2*nx-1]
+	if forward {
+		for i := range b {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+				ne[i]*xn[i+2] - nw[i]*xn[i] - w[i+1]*xc[i+2]
+			xc[i+1] = (t - w[i]*xc[i]) * inv[i]
+		}
+		return
+	}
+	for i := nx - 1; i >= 0; i-- {
+		t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+			ne[i]*xn[i+2] - nw[i]*xn[i] - w[i]*xc[i]
+		xc[i+1] = (t - w[i+1]*xc[i+2]) * inv[i]
+	}
+}
+
+// residual sets r = b - A x.
+func (l *smgLevel) residual() {
+	nx := l.nx
+	x, b, r, inv, w, s, sw, se := l.x, l.b, l.r, l.inv, l.w, l.s, l.sw, l.se
+	parallel.Each(l.ny, smgWorkers(l), 0, func(_, j int) {
+		p0 := l.pad + j*nx
+		if sw == nil {
+			for p := p0; p < p0+nx; p++ {
+				r[p] = b[p] - x[p]/inv[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx]
+			}
+			return
+		}
+		for p := p0; p < p0+nx; p++ {
+			r[p] = b[p] - x[p]/inv[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx] -
+				sw[p]*x[p-nx-1] - sw[p+nx+1]*x[p+nx+1] - se[p]*x[p-nx+1] - se[p+nx-1]*x[p+nx-1]
+		}
+	})
+}
+
+// restrict sets the coarse right-hand side c.b = P^T r.
+func (l *smgLevel) restrict(c *smgLevel) {
+	nx, ny := l.nx, l.ny
+	r, plo, phi := l.r, l.plo, l.phi
+	st := 1 // fine stride along the coarsening direction
+	if l.dir == 1 {
+		st = nx
+	}
+	parallel.Each(c.ny, smgWorkers(c), 0, func(_, cj int) {
+		for ci := 0; ci < c.nx; ci++ {
+			fi, fj, along, n := 2*ci, cj, 2*ci, nx
+			if l.dir == 1 {
+				fi, fj, along, n = ci, 2*cj, 2*cj, ny
+			}
+			p := l.pad + fj*nx + fi
+			v := r[p]
+			if along > 0 {
+				v += phi[p-st] * r[p-st]
+			}
+			if along+1 < n {
+				v += plo[p+st] * r[p+st]
+			}
+			c.b[c.pad+cj*c.nx+ci] = v
+		}
+	})
+}
+
+// prolong adds the interpolated coarse correction: x += P c.x.
+func (l *smgLevel) prolong(c *smgLevel) {
+	nx := l.nx
+	x, plo, phi, cx := l.x, l.plo, l.phi, c.x
+	parallel.Each(l.ny, smgWorkers(l), 0, func(_, j int) {
+		p0 := l.pad + j*nx
+		if l.dir == 0 {
+			q0 := c.pad + j*c.nx
+			for i := 0; i < nx; i++ {
+				p := p0 + i
+				if i%2 == 0 {
+					x[p] += cx[q0+i/2]
+				} else {
+					x[p] += plo[p]*cx[q0+i/2] + phi[p]*cx[q0+i/2+1]
+				}
+			}
+			return
+		}
+		q0 := c.pad + (j/2)*c.nx
+		if j%2 == 0 {
+			for i := 0; i < nx; i++ {
+				x[p0+i] += cx[q0+i]
+			}
+			return
+		}
+		for i := 0; i < nx; i++ {
+			p := p0 + i
+			x[p] += plo[p]*cx[q0+i] + phi[p]*cx[q0+c.nx+i]
+		}
+	})
+}

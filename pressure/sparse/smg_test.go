@@ -1,0 +1,195 @@
+package sparse
+
+import (
+	"fmt"
+	"math"
+	"runtime"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// The SMG-preconditioned CG solution must agree with gonum's dense
+// Cholesky solution (the external reference: LAPACK dpotrf/dpotrs through
+// gonum) on small grids of every test field, odd and even sizes, and
+// grids one cell wide.
+func TestSMGMatchesDenseCholesky(t *testing.T) {
+	tests := []struct {
+		kind   amgFieldKind
+		nx, ny int
+	}{
+		{fieldLogNormal1, 24, 24},
+		{fieldLogNormal25, 31, 17},
+		{fieldChannel1e6, 40, 30},
+		{fieldAnisotropic, 33, 20},
+		{fieldInactive, 40, 40},
+		{fieldRough, 25, 26},
+		{fieldLogNormal2, 1, 60},
+		{fieldLogNormal2, 70, 1},
+	}
+	for _, tc := range tests {
+		t.Run(fmt.Sprintf("%v-%dx%d", tc.kind, tc.nx, tc.ny), func(t *testing.T) {
+			a, b, cells := newAMGProblem(tc.kind, tc.nx, tc.ny, 2).assemble()
+			var ch mat.Cholesky
+			if !ch.Factorize(amgDense(a)) {
+				t.Fatal("dense Cholesky failed")
+			}
+			want := mat.NewVecDense(a.N, nil)
+			if err := ch.SolveVecTo(want, mat.NewVecDense(a.N, b)); err != nil {
+				t.Fatal(err)
+			}
+			h, err := NewSMG(a, tc.nx, tc.ny, cells)
+			if err != nil {
+				t.Fatal(err)
+			}
+			x := make([]float64, a.N)
+			res, err := CG(a, b, x, h, CGSettings{Tol: 1e-12, MaxIter: 200})
+			if err != nil {
+				t.Fatalf("%v after %d iterations", err, res.Iterations)
+			}
+			// Residual 1e-12 and condition numbers up to about 1e8 for
+			// these fields: 1e-6 is a few times the measured error (at
+			// most 2e-7, on the 1e6 channels).
+			if d := amgRelDiff(x, want.RawVector().Data); d > 1e-6 {
+				t.Errorf("relative difference to dense Cholesky %.3g after %d iterations (%v)", d, res.Iterations, h)
+			}
+		})
+	}
+}
+
+// The V-cycle is a symmetric positive definite operator: (M^-1 u, v) =
+// (u, M^-1 v) to round-off and (M^-1 u, u) > 0 for random vectors, on
+// fields with inactive cells, faults and strong contrast.
+func TestSMGSymmetricPositive(t *testing.T) {
+	for _, kind := range []amgFieldKind{fieldInactive, fieldChannel1e6, fieldAnisotropic} {
+		a, _, cells := newAMGProblem(kind, 45, 38, 4).assemble()
+		h, err := NewSMG(a, 45, 38, cells)
+		if err != nil {
+			t.Fatal(err)
+		}
+		u, v := amgRandomVector(a.N, 1), amgRandomVector(a.N, 2)
+		mu, mv := make([]float64, a.N), make([]float64, a.N)
+		h.Apply(mu, u)
+		h.Apply(mv, v)
+		uv, vu := dot(mu, v), dot(u, mv)
+		if math.Abs(uv-vu) > 1e-10*math.Sqrt(dot(mu, mu)*dot(v, v)) {
+			t.Errorf("%v: (Mu, v) = %.15g, (u, Mv) = %.15g", kind, uv, vu)
+		}
+		if dot(mu, u) <= 0 || dot(mv, v) <= 0 {
+			t.Errorf("%v: not positive: %g %g", kind, dot(mu, u), dot(mv, v))
+		}
+	}
+}
+
+// Iterations of CG with SMG to 1e-8 stay flat with grid size on the test
+// fields (the high-contrast, anisotropic and inactive cases of the AMG
+// tests): the bound is the largest measured count plus a few (hypre's PFMG, the method of Ashby and Falgout 1996, takes 19 on a
+// log-normal pattern at 1e-10, issue 19). 1000x1000 runs unless -short.
+func TestSMGIterationBounds(t *testing.T) {
+	sizes := []int{100, 300}
+	if !testing.Short() {
+		sizes = append(sizes, 1000)
+	}
+	bound := func(kind amgFieldKind) int {
+		if kind == fieldRough {
+			return 40 // measured 11, 18, 33: outside the issue's list, held to the AMG test's bound
+		}
+		return 20 // measured 6 to 15
+	}
+	var table strings.Builder
+	fmt.Fprintf(&table, "\n%-16s", "field")
+	for _, s := range sizes {
+		fmt.Fprintf(&table, " %9dx%-5d", s, s)
+	}
+	table.WriteString("   (CG iterations to 1e-8 / levels)\n")
+	// At 1000x1000 the fields the others bound are left out to keep the
+	// test short: the log-normal ones of standard deviation 1 and 2 share
+	// the seed and correlation of the 2.5 field, the 1e3 channels those of
+	// the 1e6 ones.
+	skip := func(kind amgFieldKind, s int) bool {
+		return s >= 1000 && (kind == fieldLogNormal1 || kind == fieldLogNormal2 || kind == fieldChannel1e3 || kind == fieldRough)
+	}
+	for _, kind := range amgFieldKinds {
+		fmt.Fprintf(&table, "%-16s", kind)
+		for _, s := range sizes {
+			if skip(kind, s) {
+				fmt.Fprintf(&table, " %15s", "-")
+				continue
+			}
+			a, b, cells := newAMGProblem(kind, s, s, 1).assemble()
+			h, err := NewSMG(a, s, s, cells)
+			if err != nil {
+				t.Fatalf("%v %d: %v", kind, s, err)
+			}
+			x := make([]float64, a.N)
+			res, err := CG(a, b, x, h, CGSettings{Tol: 1e-8, MaxIter: 300})
+			if err != nil {
+				t.Errorf("%v %dx%d: %v after %d iterations", kind, s, s, err, res.Iterations)
+			}
+			fmt.Fprintf(&table, " %9d/%-5d", res.Iterations, h.Levels())
+			if res.Iterations > bound(kind) {
+				t.Errorf("%v %dx%d: %d iterations, want <= %d (%v)", kind, s, s, res.Iterations, bound(kind), h)
+			}
+		}
+		table.WriteString("\n")
+	}
+	t.Log(table.String())
+}
+
+// The same solve gives bit-identical results for GOMAXPROCS 1 and 4.
+func TestSMGDeterministic(t *testing.T) {
+	a, b, cells := newAMGProblem(fieldLogNormal25, 300, 300, 9).assemble()
+	run := func(p int) ([]float64, CGResult) {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(p))
+		h, err := NewSMG(a, 300, 300, cells)
+		if err != nil {
+			t.Fatal(err)
+		}
+		x := make([]float64, a.N)
+		res, err := CG(a, b, x, h, CGSettings{Tol: 1e-10})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return x, res
+	}
+	x1, r1 := run(1)
+	x4, r4 := run(4)
+	if r1 != r4 {
+		t.Fatalf("GOMAXPROCS 1: %+v; GOMAXPROCS 4: %+v", r1, r4)
+	}
+	for i := range x1 {
+		if math.Float64bits(x1[i]) != math.Float64bits(x4[i]) {
+			t.Fatalf("x[%d] = %v with GOMAXPROCS 1 but %v with 4", i, x1[i], x4[i])
+		}
+	}
+}
+
+// NewSMG refuses what it cannot take with an error naming the problem.
+func TestSMGBadInput(t *testing.T) {
+	a, _, cells := newAMGProblem(fieldLogNormal1, 10, 10, 1).assemble()
+	bad := append([]int(nil), cells...)
+	bad[3] = bad[2]
+	far, _ := FromTriplets(2, []Triplet{{0, 0, 2}, {0, 1, -1}, {1, 0, -1}, {1, 1, 2}})
+	neg, _ := FromTriplets(1, []Triplet{{0, 0, -1}})
+	tests := []struct {
+		name   string
+		a      *CSR
+		nx, ny int
+		cells  []int
+		want   string
+	}{
+		{"empty grid", a, 0, 10, cells, "empty"},
+		{"count", a, 10, 10, cells[1:], "cells for a matrix"},
+		{"outside", a, 5, 5, cells, "outside"},
+		{"twice", a, 10, 10, bad, "twice"},
+		{"not neighbours", far, 4, 4, []int{0, 5}, "not a box neighbour"},
+		{"negative diagonal", neg, 1, 1, []int{0}, "not positive"},
+	}
+	for _, tc := range tests {
+		_, err := NewSMG(tc.a, tc.nx, tc.ny, tc.cells)
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: error %v, want one containing %q", tc.name, err, tc.want)
+		}
+	}
+}
