@@ -142,6 +142,16 @@ func cleanXY(x, y []float64) plotter.XYs {
 	return out
 }
 
+// lineChart draws c into a w x h pixel file at path, "png" (default) or
+// "svg"; the file is written atomically.
+func lineChart(path string, c Chart, w, h int, format string) error {
+	var buf bytes.Buffer
+	if err := WriteChart(&buf, c, w, h, format); err != nil {
+		return err
+	}
+	return writeFileAtomic(path, buf.Bytes())
+}
+
 var svgSize = regexp.MustCompile(`<svg width="[0-9.e+-]+pt" height="[0-9.e+-]+pt"`)
 
 // WriteChart draws c as a w x h pixel picture in the format ("png" or
