@@ -127,6 +127,11 @@ type rawCase struct {
 	swiNode   *yaml.Node
 	relNode   *yaml.Node
 	wellsNode *yaml.Node
+	// fluidsNode is the fluids section and densityNodes its density
+	// values, for the gravity checks (checkGravity).
+	fluidsNode   *yaml.Node
+	densityNodes []*yaml.Node
+	depthNode    *yaml.Node // rock.depth, if given
 }
 
 // parseYAML returns the root of the single YAML document in data
@@ -171,6 +176,10 @@ func (d *decoder) decode(data []byte) (*Model, error) {
 		return nil, err
 	}
 	d.loadRock(rc)
+	if err := d.errs.err(); err != nil {
+		return nil, err
+	}
+	d.checkGravity(rc)
 	if err := d.errs.err(); err != nil {
 		return nil, err
 	}
@@ -375,7 +384,7 @@ func (d *decoder) readGrid(n *yaml.Node, keyLine int) *Grid {
 	return g
 }
 
-var rockKeys = []string{"perm", "perm_y", "porosity", "thickness", "active"}
+var rockKeys = []string{"perm", "perm_y", "porosity", "thickness", "active", "depth"}
 
 func (d *decoder) readRock(rc *rawCase, n *yaml.Node) {
 	s := d.section(n, "rock", "", rockKeys, []string{"perm", "porosity", "thickness"})
@@ -414,6 +423,9 @@ func (d *decoder) readRock(rc *rawCase, n *yaml.Node) {
 		} else if lim, ok := propLimit(k); ok {
 			d.usual(s, v, "rock."+k, p.value, lim)
 		}
+		if k == "depth" {
+			rc.depthNode = v
+		}
 		rc.props = append(rc.props, p)
 	}
 }
@@ -435,6 +447,8 @@ func propLimit(key string) (int, bool) {
 		return limPorosity, true
 	case "thickness":
 		return limThickness, true
+	case "depth":
+		return limDepth, true
 	}
 	return 0, false
 }
@@ -458,7 +472,7 @@ func propUnusual(u UnitSystem, key string, v float64) string {
 }
 
 func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
-	s := d.section(n, "fluids", "", []string{"water_viscosity", "oil_viscosity", "initial_water_saturation"},
+	s := d.section(n, "fluids", "", []string{"water_viscosity", "oil_viscosity", "initial_water_saturation", "water_density", "oil_density"},
 		[]string{"water_viscosity", "oil_viscosity"})
 	if s == nil {
 		return
@@ -471,6 +485,14 @@ func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
 		rc.swiNode = s.vals["initial_water_saturation"]
 		f.InitialSw = d.num(s, "initial_water_saturation", 0, inRange(0, 1, false, true))
 	}
+	for _, k := range []string{"water_density", "oil_density"} {
+		if s.has(k) {
+			rc.densityNodes = append(rc.densityNodes, s.vals[k])
+		}
+	}
+	f.WaterDensity = d.limited(s, "water_density", 0, limDensity, nil)
+	f.OilDensity = d.limited(s, "oil_density", 0, limDensity, nil)
+	rc.fluidsNode = s.node
 }
 
 func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {

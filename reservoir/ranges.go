@@ -109,6 +109,8 @@ const (
 	limEnd
 	limStreamlines
 	limFaultMult
+	limDepth
+	limDensity
 )
 
 // Limits holds the range of every physical input. The ranges are common
@@ -158,6 +160,10 @@ var Limits = []Limit{
 		Field: Bound{1, 1e6, 100, 2e5}, Metric: Bound{1, 1e6, 100, 2e5}, Positive: true},
 	limFaultMult: {Name: "fault transmissibility multiplier", Keys: "fault `multiplier`",
 		Field: Bound{0, 1000, 0, 1}, Metric: Bound{0, 1000, 0, 1}, NonNegative: true},
+	limDepth: {Name: "depth of the layer below the datum, per active cell (positive down)", Keys: "`rock.depth` (number or map)", UnitField: "ft", UnitMetric: "m",
+		Field: Bound{-3e4, 1e5, 0, 3e4}, Metric: Bound{-1e4, 3e4, 0, 1e4}},
+	limDensity: {Name: "fluid density at reservoir conditions", Keys: "`fluids.water_density`, `fluids.oil_density`", UnitField: "lb/ft3", UnitMetric: "kg/m3",
+		Field: Bound{0, 200, 30, 80}, Metric: Bound{0, 3200, 480, 1280}, Positive: true},
 }
 
 // LimitsMarkdown returns Limits as the Markdown table README.md shows.
