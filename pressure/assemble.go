@@ -63,7 +63,7 @@ type problem struct {
 	cf     []float64 // connection factor lambda*WI per well (0 when shut)
 	tx, ty []float64
 	gx, gy []float64 // gravity flux per face at equal pressures; nil without depth
-	comp   []int // connected region per cell, -1 for inactive cells
+	comp   []int     // connected region per cell, -1 for inactive cells
 	ncomp  int
 	seed   []int  // lowest-numbered cell of each region
 	driven []bool // the region holds an open well
