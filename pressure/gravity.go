@@ -119,3 +119,17 @@ func (pb *problem) gravitySource(k int) float64 {
 	}
 	return out
 }
+
+// GeometricTransmissibilities returns the face transmissibilities without
+// the mobility (rate per pressure per unit mobility): the harmonic
+// combination of the half-cell values k h dy/(dx/2) times the Darcy factor
+// and the face multiplier, numbered like reservoir.Model.TransMultX and
+// TransMultY; 0 on boundary faces and faces touching an inactive cell.
+// Transport uses them for the gravity flux across faces.
+func GeometricTransmissibilities(m *reservoir.Model) (tx, ty []float64) {
+	one := make([]float64, m.Grid.N())
+	for k := range one {
+		one[k] = 1
+	}
+	return transmissibilities(m, one)
+}

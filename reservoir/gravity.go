@@ -65,8 +65,10 @@ func (m *Model) Dip(k int) float64 {
 }
 
 // DipRange returns the smallest and the largest dip over the active cells,
-// in degrees, and the mean of the sine of the dip; all 0 without depth.
-func (m *Model) DipRange() (lo, hi, meanSin float64) {
+// in degrees, and the mean of the depth gradient's magnitude |grad D| (the
+// tangent of the dip; the areal model's gravity terms use it); all 0
+// without depth.
+func (m *Model) DipRange() (lo, hi, meanGrad float64) {
 	if m.Depth == nil {
 		return 0, 0, 0
 	}
@@ -76,28 +78,30 @@ func (m *Model) DipRange() (lo, hi, meanSin float64) {
 		if !a {
 			continue
 		}
-		d := m.Dip(k)
+		gx, gy := m.DepthGradient(k)
+		d := math.Atan(math.Hypot(gx, gy)) * 180 / math.Pi
 		lo, hi = math.Min(lo, d), math.Max(hi, d)
-		meanSin += math.Sin(d * math.Pi / 180)
+		meanGrad += math.Hypot(gx, gy)
 		n++
 	}
 	if n == 0 {
 		return 0, 0, 0
 	}
-	return lo, hi, meanSin / float64(n)
+	return lo, hi, meanGrad / float64(n)
 }
 
 // GravityNumber returns the gravity number of the case: the ratio of the
 // Darcy velocity gravity alone gives the oil at its end-point mobility
 // along the mean dip to the mean total Darcy velocity through the field,
 //
-//	N_g = c k kro(swc)/mu_o (rho_w - rho_o) gamma sin(theta) / u,
+//	N_g = c k kro(swc)/mu_o (rho_w - rho_o) gamma |grad D| / u,
 //	u   = Q / (h L),
 //
 // with c the Darcy factor (UnitSystem.Darcy), k the mean of sqrt(kx ky)
 // over the active cells, gamma the gravity gradient
-// (UnitSystem.GravityGradient), sin(theta) the mean sine of the dip
-// (DipRange), Q the total rate of the rate-controlled injectors at the
+// (UnitSystem.GravityGradient), |grad D| the mean depth gradient, the
+// tangent of the dip (DipRange; the areal grid measures distances on the
+// map, so its gravity terms carry dD/dx, not the sine), Q the total rate of the rate-controlled injectors at the
 // start, h the mean thickness and L the square root of the active area
 // (the width of a square field). In a straight channel of uniform dip it
 // is exactly the N of the gravity-modified fractional flow
@@ -134,10 +138,10 @@ func (m *Model) GravityNumber() float64 {
 	h /= float64(n)
 	L := math.Sqrt(float64(n) * m.Grid.DX * m.Grid.DY)
 	swc, _ := m.RelPerm.Endpoints()
-	_, _, sinDip := m.DipRange()
+	_, _, grad := m.DipRange()
 	// Darcy velocity in rate units per area: bbl/day/ft2 or m3/day/m2.
 	ug := m.Units.Darcy() * k * m.RelPerm.Kro(swc) / m.Fluids.OilViscosity *
-		(m.Fluids.WaterDensity - m.Fluids.OilDensity) * m.Units.GravityGradient() * sinDip
+		(m.Fluids.WaterDensity - m.Fluids.OilDensity) * m.Units.GravityGradient() * grad
 	u := q / (h * L)
 	return ug / u
 }

@@ -60,12 +60,12 @@ func TestDipOfAPlane(t *testing.T) {
 			t.Errorf("warnings %v", m.Warnings)
 		}
 		want := math.Atan(math.Hypot(tc.ax, tc.ay)) * 180 / math.Pi
-		lo, hi, sin := m.DipRange()
-		if math.Abs(lo-want) > 1e-9 || math.Abs(hi-want) > 1e-9 {
+		lo, hi, grad := m.DipRange()
+		if math.Abs(lo-want) > 1e-9 || math.Abs(hi-want) > 1e-9 || math.Abs(grad-math.Hypot(tc.ax, tc.ay)) > 1e-12 {
 			t.Errorf("gradient %v: dip %g..%g, want %g", tc, lo, hi, want)
 		}
-		// N = c k kro(swc)/muo drho gamma sin / (Q/(h L)), L = sqrt(24) * 100.
-		ng := 0.001127 * 200 * 0.8 / 2 * 14 / 144 * sin / (100 / (20 * math.Sqrt(24) * 100))
+		// N = c k kro(swc)/muo drho gamma |grad D| / (Q/(h L)), L = sqrt(24) * 100.
+		ng := 0.001127 * 200 * 0.8 / 2 * 14 / 144 * grad / (100 / (20 * math.Sqrt(24) * 100))
 		if got := m.GravityNumber(); math.Abs(got-ng) > 1e-12*ng {
 			t.Errorf("gravity number %g, want %g", got, ng)
 		}
