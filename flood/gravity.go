@@ -5,6 +5,7 @@ import (
 
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
+	"floodtrace/transport"
 )
 
 // gravityFaces holds what the transport steps need for the
@@ -19,9 +20,13 @@ type gravityFaces struct {
 	// sum is, per cell, the sum of |c| over its faces, and lip a bound
 	// of the slope of the flux function in either argument: with sum it
 	// bounds the gravity step's speed.
-	sum      []float64
-	lip      float64
-	muW, muO float64
+	sum []float64
+	lip float64
+	gr  *transport.Gravity
+	// tx, ty are the geometric transmissibilities and drho the density
+	// difference times the gravity gradient.
+	tx, ty []float64
+	drho   float64
 }
 
 // newGravityFaces returns the gravity faces of m, or nil for a case
@@ -34,7 +39,7 @@ func newGravityFaces(m *reservoir.Model) *gravityFaces {
 	tx, ty := pressure.GeometricTransmissibilities(m)
 	drho := (m.Fluids.WaterDensity - m.Fluids.OilDensity) * m.Units.GravityGradient()
 	gf := &gravityFaces{m: m, cx: make([]float64, len(tx)), cy: make([]float64, len(ty)), sum: make([]float64, g.N()),
-		muW: m.Fluids.WaterViscosity, muO: m.Fluids.OilViscosity}
+		tx: tx, ty: ty, drho: drho}
 	for j := 0; j < g.NY; j++ {
 		for i := 1; i < g.NX; i++ {
 			f := g.XFace(i, j)
@@ -57,55 +62,22 @@ func newGravityFaces(m *reservoir.Model) *gravityFaces {
 			}
 		}
 	}
-	// Lipschitz bound of lw(a) lo(b) / (lw(a) + lo(b)) in a and in b:
-	// at most max |lw'| and max |lo'|, sampled on a fine saturation
-	// grid (with a margin for the sampling).
-	const n = 2000
-	dw, do := 0.0, 0.0
-	for k := 0; k < n; k++ {
-		s0, s1 := float64(k)/n, float64(k+1)/n
-		dw = math.Max(dw, math.Abs(gf.lw(s1)-gf.lw(s0))*n)
-		do = math.Max(do, math.Abs(gf.lo(s1)-gf.lo(s0))*n)
-	}
-	gf.lip = 1.1 * math.Max(dw, do)
+	gf.gr = transport.NewGravity(
+		func(s float64) float64 { return m.RelPerm.Krw(s) / m.Fluids.WaterViscosity },
+		func(s float64) float64 { return m.RelPerm.Kro(s) / m.Fluids.OilViscosity })
+	gf.lip = gf.gr.Lip
 	return gf
-}
-
-func (gf *gravityFaces) lw(s float64) float64 {
-	return gf.m.RelPerm.Krw(math.Min(1, math.Max(0, s))) / gf.muW
-}
-
-func (gf *gravityFaces) lo(s float64) float64 {
-	return gf.m.RelPerm.Kro(math.Min(1, math.Max(0, s))) / gf.muO
 }
 
 // flux returns the water flux across a face from cell a to cell b driven
 // by gravity alone (the oil flux is its opposite, the total flux is
 // zero), with c the face's gravity factor (cx or cy) and sa, sb the two
-// saturations:
-//
-//	F = c lw(s_up,w) lo(s_up,o) / (lw(s_up,w) + lo(s_up,o)),
-//
-// the counter-current flux lw lo / lt times the density difference and
-// the depth difference, each mobility upwinded in its phase's direction:
-// the water's from the shallower cell (it sinks), the oil's from the
-// deeper one (it rises). This phase upwinding (Brenier and Jaffre 1991,
-// from memory) is monotone: it vanishes where either phase is immobile,
+// saturations: the counter-current flux lw lo / lt times c, each mobility
+// upwinded in its phase's direction, the water's from the shallower cell
+// (it sinks), the oil's from the deeper one (it rises)
+// (transport.Gravity.Flux). It vanishes where either phase is immobile,
 // so a column with water under oil is at rest.
-func (gf *gravityFaces) flux(c, sa, sb float64) float64 {
-	if c == 0 {
-		return 0
-	}
-	su, sd := sa, sb // water moves a -> b when c > 0 (b is deeper)
-	if c < 0 {
-		su, sd = sb, sa
-	}
-	w, o := gf.lw(su), gf.lo(sd)
-	if !(w+o > 0) {
-		return 0
-	}
-	return c * w * o / (w + o)
-}
+func (gf *gravityFaces) flux(c, sa, sb float64) float64 { return gf.gr.Flux(c, sa, sb) }
 
 // densities fills rho with the mobility-weighted density of each active
 // cell at saturations sw (pressure.MixtureDensity).
@@ -116,4 +88,122 @@ func densities(m *reservoir.Model, sw, rho []float64) {
 			rho[k] = pressure.MixtureDensity(m, sw[k])
 		}
 	}
+}
+
+// alongLine returns, per cell, the gravity coefficient of the fractional
+// flow along the streamlines of the solve sol (transport.AdvanceGravity):
+//
+//	G = c (rho_w - rho_o) gamma (K grad D) . e / |u|,
+//
+// with u the cell's total Darcy velocity (the mean of its opposite face
+// fluxes over the face areas), e its direction (the streamline's
+// direction in the cell), grad D the depth gradient of the cell
+// (reservoir.Model.DepthGradient) and c the Darcy factor; 0 where the
+// velocity is 0. It also sets cx, cy and sum to the part of gravity
+// across the streamlines: each face's depth difference less the
+// along-line part (grad D . e) e of its two cells, which the gravity step
+// on the grid moves (operator splitting, Bratvedt, Gimse and Tegnander
+// 1996); in cells without flow the whole depth difference.
+func (gf *gravityFaces) alongLine(sol *pressure.Solution, G []float64) {
+	m := gf.m
+	g := m.Grid
+	nx := g.NX
+	type dir struct{ ex, ey, a float64 } // direction and grad D . e
+	d := make([]dir, g.N())
+	c := m.Units.Darcy()
+	for k := range G {
+		G[k] = 0
+		if !m.Active[k] || !(m.Thickness[k] > 0) {
+			continue
+		}
+		i, j := g.IJ(k)
+		ux := 0.5 * (sol.FluxX[g.XFace(i, j)] + sol.FluxX[g.XFace(i+1, j)]) / (g.DY * m.Thickness[k])
+		uy := 0.5 * (sol.FluxY[g.YFace(i, j)] + sol.FluxY[g.YFace(i, j+1)]) / (g.DX * m.Thickness[k])
+		u := math.Hypot(ux, uy)
+		if !(u > 0) {
+			continue
+		}
+		ex, ey := ux/u, uy/u
+		gx, gy := m.DepthGradient(k)
+		G[k] = c * gf.drho * (m.PermEast[k]*gx*ex + m.PermNorth[k]*gy*ey) / u
+		d[k] = dir{ex, ey, gx*ex + gy*ey}
+	}
+	clear(gf.sum)
+	for j := 0; j < g.NY; j++ {
+		for i := 1; i < nx; i++ {
+			f := g.XFace(i, j)
+			a, b := g.Index(i-1, j), g.Index(i, j)
+			gf.cx[f] = 0
+			if gf.tx[f] > 0 {
+				along := 0.5 * g.DX * (d[a].a*d[a].ex + d[b].a*d[b].ex)
+				gf.cx[f] = gf.tx[f] * gf.drho * (m.Depth[b] - m.Depth[a] - along)
+				gf.sum[a] += math.Abs(gf.cx[f])
+				gf.sum[b] += math.Abs(gf.cx[f])
+			}
+		}
+	}
+	for j := 1; j < g.NY; j++ {
+		for i := 0; i < nx; i++ {
+			f := g.YFace(i, j)
+			a, b := g.Index(i, j-1), g.Index(i, j)
+			gf.cy[f] = 0
+			if gf.ty[f] > 0 {
+				along := 0.5 * g.DY * (d[a].a*d[a].ey + d[b].a*d[b].ey)
+				gf.cy[f] = gf.ty[f] * gf.drho * (m.Depth[b] - m.Depth[a] - along)
+				gf.sum[a] += math.Abs(gf.cy[f])
+				gf.sum[b] += math.Abs(gf.cy[f])
+			}
+		}
+	}
+}
+
+// step moves the saturations sw by the gravity flux across the faces
+// (cx, cy) for a time dt, in equal explicit sub-steps with
+// sum * lip * dt_sub / pv <= cfl, and returns the sub-step count. Each
+// face's flux leaves one cell and enters the other, so water is
+// conserved to round-off; delta is scratch of the grid's size.
+func (gf *gravityFaces) step(sw, pv, delta []float64, dt, cfl float64) int {
+	m := gf.m
+	g := m.Grid
+	nx := g.NX
+	rate := 0.0
+	for k, v := range gf.sum {
+		if v > 0 && pv[k] > 0 {
+			rate = math.Max(rate, v*gf.lip/pv[k])
+		}
+	}
+	if !(rate > 0) || !(dt > 0) {
+		return 0
+	}
+	nsub := max(int(math.Ceil(rate*dt/cfl)), 1)
+	h := dt / float64(nsub)
+	for range nsub {
+		clear(delta)
+		for j := 0; j < g.NY; j++ {
+			for i := 1; i < nx; i++ {
+				if c := gf.cx[g.XFace(i, j)]; c != 0 {
+					a, b := g.Index(i-1, j), g.Index(i, j)
+					f := gf.flux(c, sw[a], sw[b]) * h
+					delta[a] -= f
+					delta[b] += f
+				}
+			}
+		}
+		for j := 1; j < g.NY; j++ {
+			for i := 0; i < nx; i++ {
+				if c := gf.cy[g.YFace(i, j)]; c != 0 {
+					a, b := g.Index(i, j-1), g.Index(i, j)
+					f := gf.flux(c, sw[a], sw[b]) * h
+					delta[a] -= f
+					delta[b] += f
+				}
+			}
+		}
+		for k, v := range delta {
+			if v != 0 {
+				sw[k] += v / pv[k]
+			}
+		}
+	}
+	return nsub
 }
