@@ -3,9 +3,13 @@ package flood
 import (
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
 	"testing"
 
+	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 )
 
 // gravityChannel is a tilted 1D channel of n cells of 10 ft, 500 md, 10 ft
@@ -289,5 +293,115 @@ func TestUniformDepthIdentical(t *testing.T) {
 			t.Fatal(err)
 		}
 		sameResults(t, a, b)
+	}
+}
+
+// TestGravityOutputs: a case whose depth is a map writes depth.asc (the
+// depth of each cell, read back through the raster reader) and a gravity
+// object in summary.json with the dip range and the gravity number of the
+// model; a case without depth writes neither.
+func TestGravityOutputs(t *testing.T) {
+	for _, withDepth := range []bool{true, false} {
+		m := dippingQuarterFiveSpot(t, 9, 0.1)
+		m.Run.PressureUpdates = 2
+		if withDepth {
+			m.DepthFile = "depth.asc"
+		} else {
+			m.Depth = nil
+		}
+		r, err := RunGrid(m, Settings{Frames: -1}, GridOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		dir := t.TempDir()
+		d, err := outdir.Open(dir, false)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := r.WriteData(d); err != nil {
+			t.Fatal(err)
+		}
+		if err := r.WriteSummary(d); err != nil {
+			t.Fatal(err)
+		}
+		s, err := runfolder.ReadSummary(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, statErr := os.Stat(filepath.Join(dir, runfolder.DepthFile))
+		if !withDepth {
+			if s.Gravity != nil || statErr == nil {
+				t.Errorf("a case without depth has gravity %v in summary.json, depth.asc stat %v", s.Gravity, statErr)
+			}
+			continue
+		}
+		want := math.Atan(math.Hypot(0.1, 0.1)) * 180 / math.Pi
+		if s.Gravity == nil || math.Abs(float64(s.Gravity.DipMaxDegrees)-want) > 1e-9 || s.Gravity.GravityNumber == nil ||
+			math.Abs(*s.Gravity.GravityNumber-m.GravityNumber()) > 1e-12 {
+			t.Fatalf("summary gravity %+v, want dip %g and gravity number %g", s.Gravity, want, m.GravityNumber())
+		}
+		f, err := os.Open(filepath.Join(dir, runfolder.DepthFile))
+		if err != nil {
+			t.Fatal(err)
+		}
+		ras, err := reservoir.ReadASCIIRaster(f, runfolder.DepthFile)
+		f.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k, v := range ras.Values {
+			if math.Abs(v-m.Depth[k]) > 1e-9*m.Depth[k] {
+				t.Fatalf("depth.asc cell %d: %g, model %g", k, v, m.Depth[k])
+			}
+		}
+	}
+}
+
+// TestGravityStepEquilibrium: on a closed dipping box the counter-current
+// gravity step leaves water lying under oil at rest (each face's flux
+// vanishes where either phase is immobile: segregated equilibrium), and
+// moves water down-dip from a uniform state, conserving it to round-off.
+func TestGravityStepEquilibrium(t *testing.T) {
+	m := dippingQuarterFiveSpot(t, 12, 0.1)
+	gf := newGravityFaces(m)
+	pv := m.PoreVolumes()
+	n := m.Grid.N()
+	sw, delta := make([]float64, n), make([]float64, n)
+	for k := range sw {
+		sw[k] = 0.2 // connate water: oil only mobile
+		if m.Depth[k] > 6000+0.1*240 {
+			sw[k] = 0.8 // residual oil: water only mobile
+		}
+	}
+	before := append([]float64(nil), sw...)
+	gf.step(sw, pv, delta, 500, 0.9)
+	for k := range sw {
+		if sw[k] != before[k] {
+			t.Fatalf("cell %d: segregated state moved from %g to %g", k, before[k], sw[k])
+		}
+	}
+	for k := range sw {
+		sw[k] = 0.5
+	}
+	w0 := 0.0
+	for k := range sw {
+		w0 += pv[k] * sw[k]
+	}
+	if gf.step(sw, pv, delta, 200, 0.9) == 0 {
+		t.Fatal("no gravity sub-step")
+	}
+	w1 := 0.0
+	for k := range sw {
+		w1 += pv[k] * sw[k]
+		if !(sw[k] >= 0.2-1e-12 && sw[k] <= 0.8+1e-12) {
+			t.Fatalf("cell %d: saturation %g outside [swc, 1-sor]", k, sw[k])
+		}
+	}
+	deep, shallow := n-1, 0 // north-east corner is the deepest, south-west the shallowest
+	if !(sw[deep] > 0.5 && sw[shallow] < 0.5) {
+		t.Errorf("water did not slump: deepest cell %g, shallowest %g", sw[deep], sw[shallow])
+	}
+	if math.Abs(w1-w0) > 1e-13*w0 {
+		t.Errorf("water volume %g -> %g", w0, w1)
 	}
 }

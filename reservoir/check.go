@@ -230,6 +230,11 @@ func (d *decoder) loadRock(rc *rawCase) {
 	m.Thickness = arrays["thickness"]
 	m.Active = active
 	m.Depth = arrays["depth"]
+	for _, p := range rc.props {
+		if p.key == "depth" && p.isMap {
+			m.DepthFile = p.path
+		}
+	}
 	for _, a := range [][]float64{m.PermEast, m.PermNorth, m.Porosity, m.Thickness, m.Depth} {
 		for k := range a {
 			if !active[k] {

@@ -244,6 +244,9 @@ type Model struct {
 	// positive down, in length units (rock.depth); nil when the case gives
 	// none, and then gravity plays no part (see HasGravity).
 	Depth []float64
+	// DepthFile is the map file rock.depth names; "" when it gives a
+	// number or nothing.
+	DepthFile string
 
 	// TransMultX and TransMultY scale the transmissibility of x- and
 	// y-faces (faults); see Grid.XFace and Grid.YFace for numbering.
