@@ -71,6 +71,13 @@ func (o GridOptions) resolved() (GridOptions, error) {
 // saturations stay within the initial and injected values). The step
 // stops exactly at report, snapshot and schedule times.
 //
+// Gravity (a case with depth): the pressure solve takes each cell's
+// mobility-weighted density, and each face carries, besides fw times its
+// total flux, the counter-current gravity flux lw lo / lt times the
+// geometric transmissibility, the density difference and the depth
+// difference, each mobility upwinded in its own phase's direction
+// (gravityFaces.flux); the stable step bounds both.
+//
 // The pressure is re-solved at schedule changes, every ResolveEvery steps
 // when set, and whenever the pore-volume weighted mean absolute change of
 // saturation since the last solve exceeds MaxChange (0.002 by default,
@@ -113,6 +120,8 @@ type gridRun struct {
 	src     []float64 // well rate per cell (positive injection)
 	srcW    []float64 // water fraction of the injected fluid per cell
 	mob     []float64
+	rho     []float64     // mobility-weighted density per cell (cases with depth)
+	grav    *gravityFaces // gravity across faces; nil without depth
 	wells   []reservoir.Well
 	rowDt   []float64 // per row: largest stable step
 	rowSum  []float64 // per row: partial sums
@@ -157,6 +166,7 @@ func newGridRun(m *reservoir.Model, s Settings, o GridOptions) (*gridRun, error)
 	if g.workers == 0 {
 		g.workers = runtime.GOMAXPROCS(0)
 	}
+	g.grav = newGravityFaces(m)
 	return g, nil
 }
 
@@ -181,6 +191,9 @@ func (g *gridRun) run() error {
 	g.src = make([]float64, n)
 	g.srcW = make([]float64, n)
 	g.mob = make([]float64, n)
+	if m.HasGravity() {
+		g.rho = make([]float64, n)
+	}
 	g.wells = make([]reservoir.Well, len(m.Wells))
 	g.rowDt = make([]float64, m.Grid.NY)
 	g.rowSum = make([]float64, m.Grid.NY)
@@ -267,7 +280,12 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 			g.mob[c] = g.ff.Mobility(g.sw[c])
 		}
 	}
-	sol, err := pressure.Solve(pressure.Input{Model: m, Mobility: g.mob, Wells: g.wells}, g.s.Pressure)
+	in := pressure.Input{Model: m, Mobility: g.mob, Wells: g.wells}
+	if g.rho != nil {
+		densities(m, g.sw, g.rho)
+		in.Density = g.rho
+	}
+	sol, err := pressure.Solve(in, g.s.Pressure)
 	if err != nil {
 		return fmt.Errorf("pressure solve at day %g: %w", t, err)
 	}
@@ -423,12 +441,19 @@ func (g *gridRun) stableStep() float64 {
 				}
 				up(q, su)
 			}
-			if in == 0 {
+			gs := 0.0
+			if g.grav != nil {
+				gs = g.grav.sum[c] * g.grav.lip
+			}
+			if in == 0 && gs == 0 {
 				continue
 			}
-			v := g.fl.MaxSpeed(lo, hi)
-			if v > 0 {
-				best = math.Min(best, cfl*g.pv[c]/(in*v))
+			v := 0.0
+			if in > 0 {
+				v = g.fl.MaxSpeed(lo, hi)
+			}
+			if den := in*v + gs; den > 0 {
+				best = math.Min(best, cfl*g.pv[c]/den)
 			}
 		}
 		g.rowDt[j] = best
@@ -515,6 +540,23 @@ func (g *gridRun) step(t, dt float64) {
 				}
 			} else if q < 0 {
 				d += q * g.fw[c]
+			}
+			if gf := g.grav; gf != nil {
+				// Counter-current gravity flux, the same value for the
+				// two cells of a face, so water stays conserved.
+				sc := g.sw[c]
+				if i > 0 {
+					d += gf.flux(gf.cx[gr.XFace(i, j)], g.sw[c-1], sc)
+				}
+				if i+1 < nx {
+					d -= gf.flux(gf.cx[gr.XFace(i+1, j)], sc, g.sw[c+1])
+				}
+				if j > 0 {
+					d += gf.flux(gf.cy[gr.YFace(i, j)], g.sw[c-nx], sc)
+				}
+				if j+1 < gr.NY {
+					d -= gf.flux(gf.cy[gr.YFace(i, j+1)], sc, g.sw[c+nx])
+				}
 			}
 			g.delta[c] = d * dt
 		}

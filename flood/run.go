@@ -39,6 +39,11 @@ type Settings struct {
 	Grid GridOptions
 }
 
+// GravityUpdates is the number of pressure solves of a case with depth
+// (rock.depth) that gives no run.pressure_updates or run.update_times:
+// gravity moves water across the streamlines, so they must follow.
+const GravityUpdates = 20
+
 // Snapshot is a saturation map at one time.
 type Snapshot struct {
 	Time float64 // days
@@ -190,6 +195,14 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	// Events and openings after the end change nothing, not even the mode.
 	// RunUpdates drops them again and warns.
 	mm, late := withinRun(m)
+	if mm.HasGravity() && !needsUpdates(mm) && mm.History == nil {
+		// Water slumps and the total velocity follows it: a case with
+		// depth runs with pressure updates unless it asks for some.
+		c := *m
+		c.Run.PressureUpdates = GravityUpdates
+		logf("the case has a depth: %d pressure updates (set run.pressure_updates to choose)", GravityUpdates)
+		return RunUpdates(&c, s, s.Updates)
+	}
 	if needsUpdates(mm) || mm.History != nil {
 		return RunUpdates(m, s, s.Updates)
 	}

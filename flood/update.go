@@ -49,6 +49,16 @@ const breakthroughProbes = 32
 // IMPES-like sequence of streamline simulation (Batycky, Blunt and Thiele
 // 1997; Thiele, Batycky and Blunt 1996, from memory).
 //
+// Gravity (a case with depth): the pressure solve takes each cell's
+// mobility-weighted density; along each line the fractional flow carries
+// its gravity term, fw + G lw lo / lt with G from the depth gradient along
+// the line's direction in each cell (gravityFaces.alongLine; Buckley and
+// Leverett 1942 include the term), solved by first-order upwind
+// (transport.AdvanceGravity, whatever Scheme says); and after each step a
+// gravity step on the grid moves the counter-current flux of the part of
+// gravity across the lines, by operator splitting (Bratvedt, Gimse and
+// Tegnander 1996; updateRun.gravityStep).
+//
 // Update times are the N = run.pressure_updates times evenly spaced over
 // the run (0, end/N, 2*end/N, ...) or 0 and the listed run.update_times,
 // together with every schedule event and well opening (WellSchedule).
@@ -156,6 +166,14 @@ type updateRun struct {
 	mob       []float64
 	sol       *pressure.Solution // the solve in force
 
+	// Gravity (cases with depth): the faces (across the streamlines),
+	// the along-line coefficient per cell and per node, the densities of
+	// the pressure solve, and scratch of the gravity step.
+	grav         *gravityFaces
+	rho          []float64
+	gcell, gg    []float64
+	swPre, delta []float64
+
 	// Well bookkeeping beyond the book's.
 	unsourced      float64 // water entering lines that start at no injector
 	broken         []bool  // per producer: breakthrough found
@@ -184,6 +202,7 @@ type updateRun struct {
 type lineScratch struct {
 	ws         transport.Workspace
 	src, srcd  []float64
+	srcg       []float64 // gravity coefficients of the positive segments
 	dst, dstd  []float64
 	probe      []float64
 	probeNodes []float64
@@ -233,6 +252,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 	if u.workers == 0 {
 		u.workers = runtime.GOMAXPROCS(0)
 	}
+	u.grav = newGravityFaces(m)
 	return u, nil
 }
 
@@ -254,6 +274,12 @@ func (u *updateRun) run() error {
 	}
 	u.mob = make([]float64, n)
 	u.acc, u.vol = make([]float64, n), make([]float64, n)
+	if m.HasGravity() {
+		u.rho = make([]float64, n)
+	}
+	if u.grav != nil {
+		u.gcell, u.swPre, u.delta = make([]float64, n), make([]float64, n), make([]float64, n)
+	}
 	u.wells = make([]reservoir.Well, len(m.Wells))
 
 	updates := UpdateTimes(m, u.sched)
@@ -299,7 +325,12 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 			u.mob[c] = 0
 		}
 	}
-	sol, err := pressure.Solve(pressure.Input{Model: m, Mobility: u.mob, Wells: u.wells}, u.s.Pressure)
+	in := pressure.Input{Model: m, Mobility: u.mob, Wells: u.wells}
+	if u.rho != nil {
+		densities(m, u.sw, u.rho)
+		in.Density = u.rho
+	}
+	sol, err := pressure.Solve(in, u.s.Pressure)
 	if err != nil {
 		return nil, fmt.Errorf("pressure solve at day %g: %w", t, err)
 	}
@@ -387,6 +418,9 @@ func (u *updateRun) solveAt(t0 float64) error {
 			return fmt.Errorf("streamlines at day %g: %w", t0, err)
 		}
 		r.Allocation = append(r.Allocation, AllocationBlock{Time: t0, Pairs: tr.Pairs, PoreVolumes: tr.PairVolumes(u.ls.seg)})
+		if u.grav != nil {
+			u.grav.alongLine(sol, u.gcell)
+		}
 		if err := u.setupLines(sol, t0); err != nil {
 			return err
 		}
@@ -405,6 +439,9 @@ func (u *updateRun) advance(t, t1 float64) error {
 		return err
 	}
 	u.mapToCells()
+	if u.grav != nil {
+		return u.gravityStep(t1 - t)
+	}
 	return nil
 }
 
@@ -490,6 +527,9 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	total := u.gstart[nl]
 	u.gs = growF(u.gs, total)
 	u.gd = growF(u.gd, total)
+	if u.grav != nil {
+		u.gg = growF(u.gg, total)
+	}
 	u.backup = growF(u.backup, total)
 	if len(u.scratch) < u.workers {
 		u.scratch = make([]lineScratch, u.workers)
@@ -508,6 +548,15 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 		gs, gd := u.lineNodes(i)
 		copy(gd, sc.dstd[:n])
 		u.lerr[i] = transport.Remap(gs, gd, sc.src, sc.srcd)
+		if u.grav != nil && u.lerr[i] == nil {
+			sc.srcg = sc.srcg[:0]
+			for s := u.ls.start[i]; s < u.ls.start[i+1]; s++ {
+				if u.ls.b[s] > u.ls.a[s] {
+					sc.srcg = append(sc.srcg, u.gcell[u.ls.cell[s]])
+				}
+			}
+			u.lerr[i] = transport.Remap(u.lineGravity(i), gd, sc.srcg, sc.srcd)
+		}
 		if !u.injWater[i] {
 			u.sIn[i] = gs[0]
 		} else {
@@ -566,6 +615,67 @@ func (u *updateRun) nodes(i int, sc *lineScratch) int {
 		}
 	}
 	return len(sc.dstd)
+}
+
+// lineGravity returns the gravity coefficients of line i's nodes.
+func (u *updateRun) lineGravity(i int) []float64 {
+	a := u.gstart[i]
+	return u.gg[a : a+u.gn[i]]
+}
+
+// advanceLine advances line i's node saturations s (times of flight gd)
+// by dt with inlet state sIn: transport.Advance, or with gravity
+// transport.AdvanceGravity with the line's node coefficients.
+func (u *updateRun) advanceLine(sc *lineScratch, i int, s, gd []float64, sIn, dt float64) (float64, error) {
+	if u.grav != nil {
+		out, _, err := sc.ws.AdvanceGravity(s, gd, u.lineGravity(i), sIn, dt, u.fl, u.grav.gr, transport.Settings{CFL: u.set.CFL})
+		return out, err
+	}
+	out, _, err := sc.ws.Advance(s, gd, sIn, dt, u.fl, u.set)
+	return out, err
+}
+
+// gravityStep is the second half of the operator splitting of gravity
+// (Bratvedt, Gimse and Tegnander 1996): after the streamline step of dt,
+// the counter-current gravity flux across the streamlines moves water on
+// the grid (gravityFaces.step), and each cell's change goes back to the
+// segments of the lines crossing it (in proportion to the room each
+// segment has, so they stay in [0, 1] and their flux*tau weighted mean
+// moves by exactly the cell's change) and from them to the line nodes
+// (transport.Remap). Both moves conserve water.
+func (u *updateRun) gravityStep(dt float64) error {
+	copy(u.swPre, u.sw)
+	if u.grav.step(u.sw, u.pv, u.delta, dt, 0.9) == 0 || u.ls == nil {
+		return nil
+	}
+	ls := u.ls
+	u.parallel(len(ls.q), func(w, i int) {
+		if !u.act[i] {
+			return
+		}
+		sc := &u.scratch[w]
+		sc.src, sc.srcd = sc.src[:0], sc.srcd[:0]
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			d := ls.b[s] - ls.a[s]
+			if !(d > 0) {
+				continue
+			}
+			c := ls.cell[s]
+			v, s0, s1 := u.segS[s], u.swPre[c], u.sw[c]
+			switch {
+			case s1 > s0:
+				v += (s1 - s0) * (1 - v) / (1 - s0)
+			case s1 < s0:
+				v -= (s0 - s1) * v / s0
+			}
+			u.segS[s] = v
+			sc.src = append(sc.src, v)
+			sc.srcd = append(sc.srcd, d)
+		}
+		gs, gd := u.lineNodes(i)
+		u.lerr[i] = transport.Remap(gs, gd, sc.src, sc.srcd)
+	})
+	return u.firstError("gravity step")
 }
 
 func (u *updateRun) lineNodes(i int) (gs, gd []float64) {
@@ -642,8 +752,7 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 				sIn = gs[0]
 			}
 			u.sIn[i] = sIn
-			out, _, err := u.scratch[w].ws.Advance(gs, gd, sIn, dt, u.fl, u.set)
-			u.out[i], u.lerr[i] = out, err
+			u.out[i], u.lerr[i] = u.advanceLine(&u.scratch[w], i, gs, gd, sIn, dt)
 		})
 		if err := u.firstError(fmt.Sprintf("transport from day %g to %g", t, t1)); err != nil {
 			return err
@@ -722,7 +831,7 @@ func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 			if !u.injWater[i] {
 				sIn = sc.probeNodes[0]
 			}
-			out, _, err := sc.ws.Advance(sc.probeNodes, gd, sIn, dt/K, u.fl, u.set)
+			out, err := u.advanceLine(sc, i, sc.probeNodes, gd, sIn, dt/K)
 			if err != nil {
 				errs[j] = err
 				return

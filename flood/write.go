@@ -24,6 +24,11 @@ func (r *Result) Summary() *runfolder.Summary {
 		Streamlines: r.StreamlineCount, PressureSolver: runfolder.Solver{Iterations: r.Iterations, RelativeResidual: F(r.RelResidual), Solves: r.Solves},
 		Warnings: append([]string{}, r.Warnings...), Wells: []runfolder.Well{}, Faults: []runfolder.Fault{},
 		Producers: []runfolder.Producer{}, Injectors: []runfolder.Injector{}, Snapshots: []runfolder.Snapshot{}}
+	if m.HasGravity() {
+		lo, hi, _ := m.DipRange()
+		s.Gravity = &runfolder.Gravity{GravityNumber: runfolder.Opt(m.GravityNumber()), DipMinDegrees: F(lo), DipMaxDegrees: F(hi),
+			WaterDensity: F(m.Fluids.WaterDensity), OilDensity: F(m.Fluids.OilDensity)}
+	}
 	if m.Path != "" {
 		if abs, err := filepath.Abs(m.Path); err == nil {
 			s.CaseFile = abs
@@ -251,6 +256,11 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	}
 	if r.Pressure != nil {
 		if err := raster(runfolder.PressureFile, r.Pressure.P); err != nil {
+			return err
+		}
+	}
+	if m.DepthFile != "" && m.Depth != nil {
+		if err := raster(runfolder.DepthFile, m.Depth); err != nil {
 			return err
 		}
 	}

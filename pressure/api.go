@@ -26,6 +26,12 @@ type Input struct {
 	// Shut wells and wells not yet open are left out by the caller setting
 	// Shut.
 	Wells []reservoir.Well
+	// Density is the mobility-weighted density per cell,
+	// (lambda_w rho_w + lambda_o rho_o) / lambda_t (MixtureDensity), in
+	// lb/ft3 (kg/m3); used only when the model has a depth
+	// (reservoir.Model.HasGravity). nil means the density of the initial
+	// state (InitialDensity).
+	Density []float64
 }
 
 // WellResult is the solved state of one well.

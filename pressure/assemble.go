@@ -62,7 +62,8 @@ type problem struct {
 	wells  []reservoir.Well
 	cf     []float64 // connection factor lambda*WI per well (0 when shut)
 	tx, ty []float64
-	comp   []int // connected region per cell, -1 for inactive cells
+	gx, gy []float64 // gravity flux per face at equal pressures; nil without depth
+	comp   []int     // connected region per cell, -1 for inactive cells
 	ncomp  int
 	seed   []int  // lowest-numbered cell of each region
 	driven []bool // the region holds an open well
@@ -82,6 +83,9 @@ func newProblem(in Input) (*problem, error) {
 		pb.wells = m.Wells
 	}
 	pb.tx, pb.ty = transmissibilities(m, mob)
+	if err := pb.gravity(in); err != nil {
+		return nil, err
+	}
 	if err := pb.checkWells(mob); err != nil {
 		return nil, err
 	}
@@ -270,6 +274,11 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 	}
 	a, diagPos := pb.matrix(sys)
 	sys.B = make([]float64, nu)
+	if pb.gx != nil {
+		for u, k := range sys.Unknown {
+			sys.B[u] -= pb.gravitySource(k)
+		}
+	}
 	for w := range pb.wells {
 		c := ctl[w]
 		u := sys.Index[pb.wells[w].Cell]

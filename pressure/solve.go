@@ -53,6 +53,16 @@ import (
 // pressures. Such wells have WellResult.Relative set; their BHPs may be
 // negative.
 //
+// Gravity. In a case with depth (reservoir.Model.HasGravity) the flux
+// across each face is T lambda_t ((p_a - p_b) - rho_f gamma (D_a - D_b)),
+// the two-point flux of the potential p - rho gamma D, with rho_f the mean
+// of the two cells' mobility-weighted densities (Input.Density) and gamma
+// 1/144 psi per ft per lb/ft3 or 9.80665e-5 bar per m per kg/m3 (from
+// memory); the gravity part moves to the right-hand side, so the matrix
+// is unchanged. Cell pressures and well BHPs are at the cell's depth (a
+// well's BHP is referred to the depth of its cell, with no wellbore
+// head). A uniform depth changes nothing.
+//
 // The linear system is solved by preconditioned conjugate gradients
 // (sparse.CG) with the preconditioner of Settings (by default
 // GridPreconditioner: incomplete Cholesky on small systems, the
@@ -391,12 +401,22 @@ func (pb *problem) fluxes(sol *Solution, sys *System, q []float64) {
 			still[pb.comp[pb.wells[w].Cell]] = false
 		}
 	}
+	if pb.gx != nil {
+		// With gravity a region whose wells do not flow may still carry
+		// a density-driven flux; at equilibrium it is round-off.
+		for c := range still {
+			still[c] = false
+		}
+	}
 	for j := 0; j < g.NY; j++ {
 		for i := 1; i < g.NX; i++ {
 			f := g.XFace(i, j)
 			if t := pb.tx[f]; t > 0 && !still[pb.comp[g.Index(i, j)]] {
 				if v := t * (p[g.Index(i-1, j)] - p[g.Index(i, j)]); !math.IsNaN(v) {
 					sol.FluxX[f] = v
+					if pb.gx != nil {
+						sol.FluxX[f] += pb.gx[f]
+					}
 				}
 			}
 		}
@@ -407,6 +427,9 @@ func (pb *problem) fluxes(sol *Solution, sys *System, q []float64) {
 			if t := pb.ty[f]; t > 0 && !still[pb.comp[g.Index(i, j)]] {
 				if v := t * (p[g.Index(i, j-1)] - p[g.Index(i, j)]); !math.IsNaN(v) {
 					sol.FluxY[f] = v
+					if pb.gy != nil {
+						sol.FluxY[f] += pb.gy[f]
+					}
 				}
 			}
 		}

@@ -203,6 +203,14 @@ func (d *decoder) loadRock(rc *rawCase) {
 		if first < 0 {
 			continue
 		}
+		if p.key == "depth" {
+			// The depth map does not define the reservoir: the other
+			// maps do (props are in rockKeys order, depth last, so the
+			// active cells are final here).
+			d.errs.add(at(p, first, fmt.Sprintf("depth is NODATA in an active cell%s; give the depth of every active cell or mark the cell inactive in the active map (or NODATA in the rock maps)",
+				more(count))))
+			continue
+		}
 		if explicit {
 			d.errs.add(at(p, first, fmt.Sprintf("%s is NODATA in a cell the active map marks active%s; give a value there or mark the cell 0 in the active map",
 				propName(p.key), more(count))))
@@ -255,7 +263,13 @@ func (d *decoder) loadRock(rc *rawCase) {
 	m.Porosity = arrays["porosity"]
 	m.Thickness = arrays["thickness"]
 	m.Active = active
-	for _, a := range [][]float64{m.PermEast, m.PermNorth, m.Porosity, m.Thickness} {
+	m.Depth = arrays["depth"]
+	for _, p := range rc.props {
+		if p.key == "depth" && p.isMap {
+			m.DepthFile = p.path
+		}
+	}
+	for _, a := range [][]float64{m.PermEast, m.PermNorth, m.Porosity, m.Thickness, m.Depth} {
 		for k := range a {
 			if !active[k] {
 				a[k] = 0

@@ -174,6 +174,7 @@ func Describe(m *Model) string {
 		}
 		b.WriteString("\n")
 	}
+	b.WriteString(describeGravity(m))
 	r := m.Run
 	solves := fmt.Sprintf("%d pressure solve", r.PressureUpdates)
 	if r.PressureUpdates != 1 {

@@ -129,6 +129,11 @@ type rawCase struct {
 	swiNode   *yaml.Node
 	relNode   *yaml.Node
 	wellsNode *yaml.Node
+	// fluidsNode is the fluids section and densityNodes its density
+	// values, for the gravity checks (checkGravity).
+	fluidsNode   *yaml.Node
+	densityNodes []*yaml.Node
+	depthNode    *yaml.Node // rock.depth, if given
 }
 
 // parseYAML returns the root of the single YAML document in data
@@ -173,6 +178,10 @@ func (d *decoder) decode(data []byte) (*Model, error) {
 		return nil, err
 	}
 	d.loadRock(rc)
+	if err := d.errs.err(); err != nil {
+		return nil, err
+	}
+	d.checkGravity(rc)
 	if err := d.errs.err(); err != nil {
 		return nil, err
 	}
@@ -403,7 +412,7 @@ func (d *decoder) readGrid(n *yaml.Node, keyLine int) *Grid {
 	return g
 }
 
-var rockKeys = []string{"perm", "perm_y", "porosity", "thickness", "active"}
+var rockKeys = []string{"perm", "perm_y", "porosity", "thickness", "active", "depth"}
 
 func (d *decoder) readRock(rc *rawCase, n *yaml.Node) {
 	s := d.section(n, "rock", "", rockKeys, []string{"perm", "porosity", "thickness"})
@@ -442,6 +451,9 @@ func (d *decoder) readRock(rc *rawCase, n *yaml.Node) {
 		} else if lim, ok := propLimit(k); ok {
 			d.usual(s, v, "rock."+k, p.value, lim)
 		}
+		if k == "depth" {
+			rc.depthNode = v
+		}
 		rc.props = append(rc.props, p)
 	}
 }
@@ -463,6 +475,8 @@ func propLimit(key string) (int, bool) {
 		return limPorosity, true
 	case "thickness":
 		return limThickness, true
+	case "depth":
+		return limDepth, true
 	}
 	return 0, false
 }
@@ -486,7 +500,7 @@ func propUnusual(u UnitSystem, key string, v float64) string {
 }
 
 func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
-	s := d.section(n, "fluids", "", []string{"water_viscosity", "oil_viscosity", "initial_water_saturation", "oil_fvf", "water_fvf"},
+	s := d.section(n, "fluids", "", []string{"water_viscosity", "oil_viscosity", "initial_water_saturation", "oil_fvf", "water_fvf", "water_density", "oil_density"},
 		[]string{"water_viscosity", "oil_viscosity"})
 	if s == nil {
 		return
@@ -501,6 +515,14 @@ func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
 	}
 	f.OilFVF = d.num(s, "oil_fvf", 1, fvfCheck)
 	f.WaterFVF = d.num(s, "water_fvf", 1, fvfCheck)
+	for _, k := range []string{"water_density", "oil_density"} {
+		if s.has(k) {
+			rc.densityNodes = append(rc.densityNodes, s.vals[k])
+		}
+	}
+	f.WaterDensity = d.limited(s, "water_density", 0, limDensity, nil)
+	f.OilDensity = d.limited(s, "oil_density", 0, limDensity, nil)
+	rc.fluidsNode = s.node
 }
 
 func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {

@@ -195,6 +195,10 @@ type Fluids struct {
 	InitialSw      float64
 	OilFVF         float64
 	WaterFVF       float64
+	// WaterDensity and OilDensity are the densities at reservoir
+	// conditions, lb/ft3 in field units and kg/m3 in metric units; 0 when
+	// the case gives none. They matter only with Model.Depth.
+	WaterDensity, OilDensity float64
 }
 
 // RelPerm gives water and oil relative permeability against water
@@ -295,6 +299,13 @@ type Model struct {
 	Porosity            []float64
 	Thickness           []float64
 	Active              []bool
+	// Depth is the depth of the layer's mid-surface below the datum,
+	// positive down, in length units (rock.depth); nil when the case gives
+	// none, and then gravity plays no part (see HasGravity).
+	Depth []float64
+	// DepthFile is the map file rock.depth names; "" when it gives a
+	// number or nothing.
+	DepthFile string
 
 	// TransMultX and TransMultY scale the transmissibility of x- and
 	// y-faces (faults); see Grid.XFace and Grid.YFace for numbering.

@@ -111,6 +111,8 @@ const (
 	limFaultMult
 	limWaterCut
 	limOilRate
+	limDepth
+	limDensity
 )
 
 // Limits holds the range of every physical input. The ranges are common
@@ -164,6 +166,10 @@ var Limits = []Limit{
 		Field: Bound{0, 1, 0.5, 0.999}, Metric: Bound{0, 1, 0.5, 0.999}, Positive: true, HiOpen: true},
 	limOilRate: {Name: "minimum oil rate (economic)", Keys: "well or `run` `min_oil_rate`", UnitField: "bbl/day", UnitMetric: "m3/day",
 		Field: Bound{0.01, 1e6, 1, 1e4}, Metric: Bound{0.001, 1.6e5, 0.1, 1.6e3}, Positive: true},
+	limDepth: {Name: "depth of the layer below the datum, per active cell (positive down)", Keys: "`rock.depth` (number or map)", UnitField: "ft", UnitMetric: "m",
+		Field: Bound{-3e4, 1e5, 0, 3e4}, Metric: Bound{-1e4, 3e4, 0, 1e4}},
+	limDensity: {Name: "fluid density at reservoir conditions", Keys: "`fluids.water_density`, `fluids.oil_density`", UnitField: "lb/ft3", UnitMetric: "kg/m3",
+		Field: Bound{0, 200, 30, 80}, Metric: Bound{0, 3200, 480, 1280}, Positive: true},
 }
 
 // LimitsMarkdown returns Limits as the Markdown table README.md shows.

@@ -19,13 +19,16 @@ const (
 	FPhiFile            = "f_phi.csv"
 	SweepFile           = "sweep.csv"
 	PressureFile        = "pressure.asc"
-	TOFFile             = "tof.asc"
-	ProducerTOFFile     = "tof_producers.asc"
-	InjectorPartFile    = "injector_partition.asc"
-	ProducerPartFile    = "producer_partition.asc"
-	StreamlinesFile     = "streamlines.geojson"
-	AnimationFile       = "saturation.gif"
-	ReportFile          = "report.html"
+	// DepthFile is the depth of each cell, written when the case gives
+	// rock.depth as a map.
+	DepthFile        = "depth.asc"
+	TOFFile          = "tof.asc"
+	ProducerTOFFile  = "tof_producers.asc"
+	InjectorPartFile = "injector_partition.asc"
+	ProducerPartFile = "producer_partition.asc"
+	StreamlinesFile  = "streamlines.geojson"
+	AnimationFile    = "saturation.gif"
+	ReportFile       = "report.html"
 	// FramesDir holds the animation's saturation maps, named as the
 	// snapshots (SnapshotName).
 	FramesDir = "frames"

@@ -96,6 +96,20 @@ type Summary struct {
 	// run.field_max_water_cut and the run ended (EndDays is then that
 	// day); absent when it did not.
 	FieldLimitDays *float64 `json:"field_limit_days,omitempty"`
+	// Gravity is present only for a case with depth (rock.depth).
+	Gravity *Gravity `json:"gravity,omitempty"`
+}
+
+// Gravity describes the structure of a case with depth: the dip range
+// over the active cells, the densities and the gravity number
+// (reservoir.Model.GravityNumber; null when it is not defined, without a
+// rate-controlled injector open at the start).
+type Gravity struct {
+	GravityNumber *float64 `json:"gravity_number"`
+	DipMinDegrees Float    `json:"dip_min_degrees"`
+	DipMaxDegrees Float    `json:"dip_max_degrees"`
+	WaterDensity  Float    `json:"water_density"`
+	OilDensity    Float    `json:"oil_density"`
 }
 
 // UnitLabels names the units of lengths, pressures, rates and volumes.
