@@ -83,7 +83,8 @@ type run struct {
 	sum    *runfolder.Summary
 	scene  Scene
 	rep    *Report
-	field  *Table // field.csv, for PVI at a given day
+	field  *Table    // field.csv, for PVI at a given day
+	hist   *histData // match.csv and the summary's history; nil without
 	satSc  Scale
 	tofSc  Scale
 	charts []figure
@@ -133,7 +134,7 @@ func Run(dir string, opt Options) (*Report, error) {
 			return nil, fmt.Errorf("render: %w", err)
 		}
 	}
-	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.drawCharts, r.animation}
+	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.errorMap, r.drawCharts, r.animation}
 	if opt.Minimal {
 		steps = []func() error{r.saturationMaps}
 	}
@@ -285,6 +286,11 @@ func (r *run) prepare() error {
 			return err
 		}
 		r.field = t
+	}
+	if !r.opt.Minimal {
+		if err := r.loadHistory(); err != nil {
+			return err
+		}
 	}
 	// Active cells: finite in any of the rasters that hold every active
 	// cell (saturation, time of flight, pressure).
