@@ -161,3 +161,23 @@ func ParseMatch(path string, in io.Reader) ([]MatchRow, error) {
 		out = append(out, m)
 	}
 }
+
+// SameObserved reports whether two runs' match.csv rows hold the same
+// history: the same wells, period ends and observed values, row by row
+// (the observed columns come from the history file alone, so two runs of
+// the same history file give the same ones). Two empty lists are not a
+// history.
+func SameObserved(a, b []MatchRow) bool {
+	if len(a) == 0 || len(a) != len(b) {
+		return false
+	}
+	same := func(x, y float64) bool { return x == y || math.IsNaN(x) && math.IsNaN(y) }
+	for i := range a {
+		x, y := a[i], b[i]
+		if x.Well != y.Well || x.Time != y.Time || !same(x.ObsWaterCut, y.ObsWaterCut) || !same(x.ObsOilRate, y.ObsOilRate) ||
+			!same(x.ObsWaterRate, y.ObsWaterRate) || !same(x.ObsCumOil, y.ObsCumOil) || !same(x.ObsCumWater, y.ObsCumWater) || !same(x.ObsBHP, y.ObsBHP) {
+			return false
+		}
+	}
+	return true
+}

@@ -40,3 +40,36 @@ func TestParseMatch(t *testing.T) {
 		})
 	}
 }
+
+// TestSameObserved: the same observed columns are the same history,
+// whatever the model columns; one observed value, a period end or a well
+// changed is another history, and no rows is none.
+func TestSameObserved(t *testing.T) {
+	head := strings.Join(MatchColumns, ",") + "\n"
+	read := func(body string) []MatchRow {
+		rows, err := ParseMatch("match.csv", strings.NewReader(head+body))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return rows
+	}
+	a := read("P-1,,31,0.1,0.2,180,160,20,40,5580,4960,620,1240,,\n")
+	for _, c := range []struct {
+		name string
+		body string
+		want bool
+	}{
+		{"other model values", "P-1,,31,0.1,0.3,180,150,20,50,5580,4650,620,1550,,1200\n", true},
+		{"one observed value", "P-1,,31,0.1,0.2,180,160,20,40,5580,4960,621,1240,,\n", false},
+		{"period end", "P-1,,30,0.1,0.2,180,160,20,40,5580,4960,620,1240,,\n", false},
+		{"well", "P-2,,31,0.1,0.2,180,160,20,40,5580,4960,620,1240,,\n", false},
+		{"observed bhp", "P-1,,31,0.1,0.2,180,160,20,40,5580,4960,620,1240,3000,\n", false},
+	} {
+		if got := SameObserved(a, read(c.body)); got != c.want {
+			t.Errorf("%s: SameObserved %v, want %v", c.name, got, c.want)
+		}
+	}
+	if SameObserved(nil, nil) {
+		t.Error("two runs without history have the same history")
+	}
+}
