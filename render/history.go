@@ -391,6 +391,8 @@ func WriteSmallMultiples(wr *bytes.Buffer, sm SmallMultiples, w, h int, format s
 		return err
 	}
 	out := svgSize.ReplaceAllLiteral(b.Bytes(), fmt.Appendf(nil, `<svg width="%d" height="%d"`, w, h))
+	out = bytes.ReplaceAll(out, []byte("font-family:"+chartTypeface+";"),
+		[]byte("font-family:"+chartTypeface+",'DejaVu Sans','Helvetica Neue',Arial,sans-serif;"))
 	_, err = wr.Write(out)
 	return err
 }

@@ -227,9 +227,10 @@ func TestHistoryPictures(t *testing.T) {
 }
 
 // TestHistoryLeavesOtherPictures: the history changes only the producer
-// charts over time and adds its two pictures; with the history and the
-// dates taken out of the folder, every other picture is the same byte for
-// byte, and the files are those of a run without history. The pictures
+// charts over time and adds its two pictures; with the history taken out
+// of the folder (match.csv and summary.json's history object), every other
+// picture is the same byte for byte, and the files are those of a run
+// without history. The pictures
 // are drawn in parallel: one core and three give the same bytes.
 func TestHistoryLeavesOtherPictures(t *testing.T) {
 	dir := historyRun(t)
@@ -241,8 +242,6 @@ func TestHistoryLeavesOtherPictures(t *testing.T) {
 	var m map[string]any
 	must(t, json.Unmarshal(b, &m))
 	delete(m, "history")
-	delete(m, "start_date")
-	delete(m, "end_date")
 	b, err = json.Marshal(m)
 	must(t, err)
 	must(t, os.WriteFile(filepath.Join(plain, runfolder.SummaryFile), b, 0o644))
@@ -325,5 +324,39 @@ func TestDateTicks(t *testing.T) {
 	}
 	if _, err := newDateTicker("2020-13-01"); err == nil {
 		t.Error("a bad start date is accepted")
+	}
+}
+
+// TestEstimateFVF: match.csv holds surface volumes, producers.csv
+// reservoir ones; the factors come back from their ratio (here 1.25 and
+// 1.02, invented), read at the producer with the largest volume, and the
+// observed values are turned into reservoir volumes with them: the
+// reservoir water cut qw Bw / (qo Bo + qw Bw) (the definition of the
+// formation volume factor, common practice).
+func TestEstimateFVF(t *testing.T) {
+	const bo, bw = 1.25, 1.02
+	nan := math.NaN()
+	d := &histData{bo: 1, bw: 1, rows: map[string][]runfolder.MatchRow{
+		"P-1": {{Well: "P-1", Time: 30, ModCumOil: 3000 / bo, ModCumWater: 0, ObsOilRate: 100, ObsWaterRate: 0, ObsWaterCut: 0, ObsCumOil: 3000},
+			{Well: "P-1", Time: 61, ModCumOil: 5000 / bo, ModCumWater: 1000 / bw, ObsOilRate: 60, ObsWaterRate: 40, ObsWaterCut: 0.4, ObsCumOil: 4860}},
+		"P-2": {{Well: "P-2", Time: 30, ModCumOil: 20 / bo, ModCumWater: nan, ObsOilRate: nan}},
+	}, starts: map[string][]float64{"P-1": {0, 30}, "P-2": {0}}}
+	// Reservoir cumulative volumes at report days 0, 45 and 90: linear,
+	// so that day 61 interpolates exactly.
+	oil := []Series{{Name: "P-1", X: []float64{0, 45, 90}, Y: []float64{0, 5000 * 45 / 61.0, 5000 * 90 / 61.0}},
+		{Name: "P-2", X: []float64{0, 90}, Y: []float64{0, 60}}}
+	water := []Series{{Name: "P-1", X: []float64{0, 61, 90}, Y: []float64{0, 1000, 2000}}}
+	d.estimateFVF(oil, water)
+	if d.bo != bo || d.bw != bw {
+		t.Fatalf("factors %g, %g, want %g, %g", d.bo, d.bw, bo, bw)
+	}
+	x, y := d.observed("P-1", "water_cut")
+	want := 40 * bw / (60*bo + 40*bw)
+	if len(x) != 2 || x[1] != 45.5 || math.Abs(y[1]-want) > 1e-12 || y[0] != 0 {
+		t.Errorf("water cut at %v: %v, want %g at 45.5", x, y, want)
+	}
+	x, y = d.observed("P-1", "cum_oil")
+	if x[1] != 61 || math.Abs(y[1]-4860*bo) > 1e-9 {
+		t.Errorf("cumulative oil at %v: %v, want %g at 61", x, y, 4860*bo)
 	}
 }

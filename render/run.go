@@ -459,6 +459,20 @@ func (r *run) pviAt(day float64) float64 {
 	return math.NaN()
 }
 
+// timeLabel writes a day of the run as timeLabel does, with its date
+// when the summary has start_date: "day 366 (2021-01-01) · 0.21 PVI".
+func (r *run) timeLabel(day float64) string {
+	l := timeLabel(day, r.pviAt(day))
+	if d := r.dateSuffix(day, ""); d != "" {
+		head, tail, _ := strings.Cut(l, " · ")
+		l = head + d
+		if tail != "" {
+			l += " · " + tail
+		}
+	}
+	return l
+}
+
 // timeLabel writes "day 365 · 0.21 PVI".
 func timeLabel(day, pvi float64) string {
 	s := "day " + FormatNumber(day, decimalsForDay(day))
@@ -507,10 +521,10 @@ func (r *run) saturationMaps() error {
 			return err
 		}
 		s := r.scene
-		s.Subtitle = "Water saturation · " + timeLabel(f.Day, r.pviAt(f.Day))
+		s.Subtitle = "Water saturation · " + r.timeLabel(f.Day)
 		rel := filepath.Join(runfolder.MapsDir, f.Name+".png")
 		sc, w, h := r.satSc, r.opt.Width, r.opt.Height
-		r.addMap(rel, "Water saturation at "+timeLabel(f.Day, r.pviAt(f.Day))+".", f.Path, func() (*image.RGBA, error) {
+		r.addMap(rel, "Water saturation at "+r.timeLabel(f.Day)+".", f.Path, func() (*image.RGBA, error) {
 			return DrawField(s, v, sc, w, h)
 		})
 	}
