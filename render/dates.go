@@ -14,15 +14,19 @@ import (
 // keep at most about eight labels), else the first days of months
 // (every 1, 2, 3 or 6 months). Year ticks read "2021", month ticks
 // "2020-03". Calendar arithmetic is the Gregorian calendar in UTC
-// (common practice), so 2020 has 366 days.
-type dateTicker struct{ start time.Time }
+// (common practice), so 2020 has 366 days. max, when > 0, replaces the
+// eight labels (a narrow panel).
+type dateTicker struct {
+	start time.Time
+	max   int
+}
 
 func newDateTicker(start string) (dateTicker, error) {
 	t, err := time.Parse(time.DateOnly, start)
 	if err != nil {
 		return dateTicker{}, fmt.Errorf("start date %q is not YYYY-MM-DD", start)
 	}
-	return dateTicker{t}, nil
+	return dateTicker{start: t}, nil
 }
 
 // day returns the day number of date t.
@@ -33,14 +37,18 @@ func (d dateTicker) Ticks(lo, hi float64) []plot.Tick {
 	if !(hi > lo) || math.IsInf(lo, 0) || math.IsInf(hi, 0) || hi-lo > 1e6 {
 		return niceTicker{n: 7}.Ticks(lo, hi)
 	}
+	n := 8.0
+	if d.max > 0 {
+		n = float64(d.max)
+	}
 	from := d.start.Add(time.Duration(math.Floor(lo)) * 24 * time.Hour)
 	var out []plot.Tick
 	span := (hi - lo) / 365.25
-	if span > 3 {
+	if span > 3*n/8 {
 		step := 1
 		for _, s := range []int{1, 2, 5, 10, 20, 50, 100} {
 			step = s
-			if span/float64(s) <= 8 {
+			if span/float64(s) <= n {
 				break
 			}
 		}
@@ -59,9 +67,9 @@ func (d dateTicker) Ticks(lo, hi float64) []plot.Tick {
 		return out
 	}
 	months := (hi - lo) / 30.44
-	step := 6
-	for _, s := range []int{1, 2, 3, 6} {
-		if months/float64(s) <= 8 {
+	step := 12
+	for _, s := range []int{1, 2, 3, 6, 12} {
+		if months/float64(s) <= n {
 			step = s
 			break
 		}

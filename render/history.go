@@ -302,6 +302,11 @@ func WriteSmallMultiples(wr *bytes.Buffer, sm SmallMultiples, w, h int, format s
 		if err != nil {
 			return fmt.Errorf("render: chart %q: %w", sm.Title, err)
 		}
+		cols := 1
+		if g := smallMultiplesGrid(len(sm.Panels), w, h); len(g) > 1 && g[1].Min.Y == g[0].Min.Y {
+			cols = (w - 2*g[0].Min.X) / g[0].Dx()
+		}
+		t.max = max(3, 8/cols+1)
 		dt = t
 	}
 	// One x range for all panels.
