@@ -126,7 +126,8 @@ func fmtOpt(v float64, format string) string {
 // comparisonChart is the chart of every producer's two water-cut
 // curves: one colour per producer, run A solid and run B dashed. With
 // history (the runs share it), the observed water cuts are dots in the
-// producer's colour, at the middle of each history period.
+// producer's colour, at the middle of each history period. Runs with the
+// same start_date get calendar dates on the time axis.
 func comparisonChart(c *flood.Comparison, history bool) render.Chart {
 	pairs := make([]render.Pair, len(c.Producers))
 	for i, pc := range c.Producers {
@@ -138,6 +139,9 @@ func comparisonChart(c *flood.Comparison, history bool) render.Chart {
 		XLabel:   "Time (days)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
 		Series: render.PairSeries(pairs, "run A", "run B"),
 		YMin:   0, YMax: 1,
+	}
+	if c.A.StartDate != "" && c.A.StartDate == c.B.StartDate {
+		ch.XLabel, ch.StartDate = "Date", c.A.StartDate
 	}
 	if !history {
 		return ch

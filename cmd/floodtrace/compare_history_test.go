@@ -6,6 +6,9 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"floodtrace/flood"
+	"floodtrace/runfolder"
 )
 
 // TestCompareSharedHistory: two runs of one history (the same file
@@ -35,6 +38,7 @@ func TestCompareSharedHistory(t *testing.T) {
 	runCase := func(dir, poro, file string) {
 		text := `title: Compare history test
 units: field
+start_date: 2021-01-01
 grid: {nx: 16, ny: 8, dx: 50, dy: 50, origin: [0, 0]}
 rock: {perm: 150, porosity: ` + poro + `, thickness: 25}
 fluids: {water_viscosity: 0.5, oil_viscosity: 3, initial_water_saturation: 0.2}
@@ -67,6 +71,9 @@ run: {end: 900, report_every: 30, streamlines: 100}
 	if !strings.Contains(out, "both runs have the same history (48 rows") || !strings.Contains(out, "\nP-1                  210 ") {
 		t.Errorf("compare of one history lacks the history table:\n%s", out)
 	}
+	if ch := comparisonChart(mustCompare(t, a, b), true); ch.StartDate != "2021-01-01" || ch.XLabel != "Date" {
+		t.Errorf("chart of two runs from 2021-01-01: start date %q, x label %q", ch.StartDate, ch.XLabel)
+	}
 	code, out, e = run(t, "compare", a, c, "--out", filepath.Join(tmp, "ac.png"), "--size", "800x500")
 	if code != 0 {
 		t.Fatalf("compare a c: code %d: %s", code, e)
@@ -74,4 +81,17 @@ run: {end: 900, report_every: 30, streamlines: 100}
 	if strings.Contains(out, "same history") {
 		t.Errorf("histories differing in one value compared as the same:\n%s", out)
 	}
+}
+
+func mustCompare(t *testing.T, a, b string) *flood.Comparison {
+	t.Helper()
+	ra, err := runfolder.ReadRunCurves(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rb, err := runfolder.ReadRunCurves(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return flood.Compare(ra, rb)
 }
