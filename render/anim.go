@@ -142,7 +142,7 @@ func (r *run) animation() error {
 	subs := make([]string, len(idx))
 	for n, i := range idx {
 		f := files[i]
-		paths[n], subs[n] = f.Path, "Water saturation · "+timeLabel(f.Day, r.pviAt(f.Day))
+		paths[n], subs[n] = f.Path, "Water saturation · "+r.timeLabel(f.Day)
 	}
 	s, sc, w, h := r.scene, r.satSc, r.opt.GIFWidth, r.opt.GIFHeight
 	draw := func() ([]byte, error) { return encodeAnimation(s, sc, paths, subs, w, h) }

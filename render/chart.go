@@ -41,6 +41,10 @@ type Series struct {
 	// series' colour: where a well's curve stops (an economic limit). A
 	// chart with marks has a legend entry for them (Chart.MarkName).
 	Marks []int
+	// Points draws the series as filled dots (observed values) instead
+	// of a line, in its Style colour (ink when Style is nil); it takes no
+	// slot of the automatic styles.
+	Points bool
 }
 
 // LineStyle is the colour and dash pattern of a chart line. Dashes are
@@ -64,6 +68,9 @@ type Chart struct {
 	// MarkName is the legend entry of the series' Marks ("Shut in at
 	// economic limit" when empty).
 	MarkName string
+	// StartDate (YYYY-MM-DD), when set, is the date of x = 0 of a chart
+	// whose x axis is days: the axis then shows calendar dates (dateTicker).
+	StartDate string
 }
 
 // chartTypeface is the name under which the Go fonts are registered in
@@ -248,6 +255,13 @@ func drawChart(dc draw.Canvas, c Chart, k float64, raster bool) (err error) {
 		ax.Label.Padding = L(8)
 		ax.Tick.Marker = niceTicker{n: 7}
 	}
+	if c.StartDate != "" {
+		dt, err := newDateTicker(c.StartDate)
+		if err != nil {
+			return fmt.Errorf("render: chart %q: %w", c.Title, err)
+		}
+		p.X.Tick.Marker = dt
+	}
 	p.X.Tick.Label = tick
 	p.X.Tick.Label.XAlign, p.X.Tick.Label.YAlign = draw.XCenter, draw.YTop
 	p.Y.Tick.Label = tick
@@ -271,11 +285,30 @@ func drawChart(dc draw.Canvas, c Chart, k float64, raster bool) (err error) {
 	}
 	var entries []entry
 	any := false
-	var marks []*plotter.Scatter
+	var marks, dots []*plotter.Scatter
 	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	idx := 0
 	for _, s := range c.Series {
 		xy := cleanXY(s.X, s.Y)
+		if s.Points {
+			col := colInk
+			if s.Style != nil {
+				col = s.Style.Color
+			}
+			sc := &plotter.Scatter{XYs: xy, GlyphStyle: draw.GlyphStyle{Color: col, Radius: L(4.5), Shape: draw.CircleGlyph{}}}
+			if len(xy) > 0 {
+				dots = append(dots, sc)
+				any = true
+				for _, q := range xy {
+					xlo, xhi = math.Min(xlo, q.X), math.Max(xhi, q.X)
+					ylo, yhi = math.Min(ylo, q.Y), math.Max(yhi, q.Y)
+				}
+			}
+			if !s.NoLegend {
+				entries = append(entries, entry{s.Name, sc})
+			}
+			continue
+		}
 		line := &plotter.Line{XYs: xy}
 		switch {
 		case s.Reference:
@@ -310,7 +343,11 @@ func drawChart(dc draw.Canvas, c Chart, k float64, raster bool) (err error) {
 			marks = append(marks, ring)
 		}
 	}
-	// The rings go on top of every line, with one legend entry.
+	// The dots and the rings go on top of every line, the rings with one
+	// legend entry.
+	for _, d := range dots {
+		p.Add(d)
+	}
 	for _, ring := range marks {
 		p.Add(ring)
 	}

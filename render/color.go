@@ -222,6 +222,9 @@ var (
 	yellowGreenBlue = []string{"#ffffd9", "#edf8b1", "#c7e9b4", "#7fcdbb", "#41b6c4", "#1d91c0", "#225ea8", "#253494", "#081d58"}
 	// yellowOrangeRed is ColorBrewer YlOrRd: a warm sequential map.
 	yellowOrangeRed = []string{"#ffffcc", "#ffeda0", "#fed976", "#feb24c", "#fd8d3c", "#fc4e2a", "#e31a1c", "#bd0026", "#800026"}
+	// purpleOrange is ColorBrewer PuOr reversed (orange at the low end):
+	// a diverging map with a pale neutral middle.
+	purpleOrange = []string{"#b35806", "#e08214", "#fdb863", "#fee0b6", "#f7f7f7", "#d8daeb", "#b2abd2", "#8073ac", "#542788"}
 	// bluePurple is ColorBrewer BuPu.
 	bluePurple = []string{"#f7fcfd", "#e0ecf4", "#bfd3e6", "#9ebcda", "#8c96c6", "#8c6bb1", "#88419d", "#810f7c", "#4d004b"}
 )
@@ -250,6 +253,10 @@ var (
 	// PressureColors runs from near white (low) to deep purple (high),
 	// after ColorBrewer BuPu (Brewer 2003).
 	PressureColors = mustColormap("pressure", bluePurple)
+	// BreakthroughErrorColors is diverging, centred on a pale neutral
+	// middle: orange (low: the model's water arrives early) to purple
+	// (high: late), after ColorBrewer PuOr (Brewer 2003).
+	BreakthroughErrorColors = mustColormap("breakthrough error", purpleOrange)
 )
 
 // Categorical is the colour-blind-safe palette of Okabe and Ito (2008,

@@ -40,6 +40,9 @@ type MarkerKey struct {
 	Label  string
 	Shape  MarkerShape
 	Ranked bool // the key shows the frame of a ranked marker
+	// Value, when set, is the value whose colour a MarkValue key shows
+	// (nil: a colour six tenths along the scale).
+	Value *float64
 }
 
 // Overlay is a set of markers drawn over a field map (DrawFieldOverlay).
@@ -54,7 +57,10 @@ type Overlay struct {
 	Size float64
 	// Scale colours the MarkValue markers; Min and Max both zero mean
 	// "from the markers' values".
-	Scale      Scale
+	Scale Scale
+	// Pixels, when > 0, is the half-width of a MarkValue square in
+	// pixels at 1920x1080 instead of Size (a marker around a well symbol).
+	Pixels     float64
 	Keys       []MarkerKey
 	FieldLabel string
 }
@@ -90,6 +96,9 @@ func DrawFieldOverlay(s Scene, values []float64, field Scale, ov Overlay, w, h i
 // markerHalf is the drawn half-width of a MarkValue square, in pixels.
 func (c *mapCanvas) markerHalf(ov *Overlay) float64 {
 	s := c.l.S
+	if ov.Pixels > 0 {
+		return ov.Pixels * s
+	}
 	return math.Max(4*s, math.Min(14*s, ov.Size*c.l.PixelsPerUnit))
 }
 
@@ -198,7 +207,11 @@ func (c *mapCanvas) overlayLegend(ov *Overlay, field Scale, noData string) {
 				c.rankFrame(x, y, 0.75*kh)
 			}})
 		default:
-			entries = append(entries, legendEntry{k.Label, func(x, y float64) { c.valueMark(x, y, kh, cm.At(0.6)) }})
+			t := 0.6
+			if k.Value != nil {
+				t = ov.Scale.T(*k.Value)
+			}
+			entries = append(entries, legendEntry{k.Label, func(x, y float64) { c.valueMark(x, y, kh, cm.At(t)) }})
 		}
 	}
 	step := math.Max(math.Max(8, 20*s)*1.5, 38*s)

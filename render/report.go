@@ -50,6 +50,19 @@ type reportData struct {
 	HasAllocation  bool
 	AllocationNote string // which pressure solve the table is from
 	HasBreakthough bool
+	History        *historyReport
+}
+
+// historyReport is the history section of the report: the match of each
+// well with its history (summary.json's history object).
+type historyReport struct {
+	Intro string
+	Wells []historyRow
+	Field historyRow
+}
+
+type historyRow struct {
+	Name, Type, ObservedBT, ModelBT, Error, WaterCutRMS, CumOil, CumWater, BHPRMS string
 }
 
 func fmtOpt(p *float64, dec int) string {
@@ -119,6 +132,9 @@ func (r *run) report() error {
 	}
 	d.Meta = fmt.Sprintf("Waterflood screening run · %s units · %s engine · %s days simulated",
 		s.Units, nonEmpty(s.Engine, "streamline"), FormatNumber(float64(s.EndDays), decimalsForDay(float64(s.EndDays))))
+	if s.StartDate != "" {
+		d.Meta += fmt.Sprintf(" (%s to %s)", s.StartDate, nonEmpty(s.EndDate, dateOf(s.StartDate, float64(s.EndDays))))
+	}
 	if s.CaseFile != "" {
 		d.Source = s.CaseFile
 	}
@@ -138,7 +154,7 @@ func (r *run) report() error {
 		{"Grid", fmt.Sprintf("%d × %d cells of %s × %s %s, origin (%s, %s)", g.NX, g.NY, trimNum(float64(g.DX)), trimNum(float64(g.DY)), u.Length, trimNum(float64(g.X0)), trimNum(float64(g.Y0)))},
 		{"Pore volume", fmtNum(float64(s.PoreVolume), 0) + " " + u.Volume},
 		{"Original oil in place", fmtNum(float64(s.OOIP), 0) + " " + u.Volume},
-		{"Simulated time", FormatNumber(float64(s.EndDays), decimalsForDay(float64(s.EndDays))) + " days"},
+		{"Simulated time", FormatNumber(float64(s.EndDays), decimalsForDay(float64(s.EndDays))) + " days" + r.dateSuffix(float64(s.EndDays), s.EndDate)},
 		{"Final recovery factor", fmtPct(float64(s.Field.FinalRecoveryFactor))},
 		{"Final water cut", fmtPct(float64(s.Field.FinalWaterCut))},
 		{"Final pore volumes injected", fmtNum(float64(s.Field.FinalPVI), 3)},
@@ -153,14 +169,14 @@ func (r *run) report() error {
 	var shut []string
 	for _, p := range s.Producers {
 		if p.LimitDays != nil {
-			shut = append(shut, fmt.Sprintf("%s on day %s (%s)", p.Name, FormatNumber(*p.LimitDays, decimalsForDay(*p.LimitDays)), p.Limit))
+			shut = append(shut, fmt.Sprintf("%s on day %s%s (%s)", p.Name, FormatNumber(*p.LimitDays, decimalsForDay(*p.LimitDays)), r.dateSuffix(*p.LimitDays, ""), p.Limit))
 		}
 	}
 	if len(shut) > 0 {
 		d.Summary = append(d.Summary, kv{"Shut in at economic limits", strings.Join(shut, ", ")})
 	}
 	if s.FieldLimitDays != nil {
-		d.Summary = append(d.Summary, kv{"Run ended by economic limits", "day " + FormatNumber(*s.FieldLimitDays, decimalsForDay(*s.FieldLimitDays))})
+		d.Summary = append(d.Summary, kv{"Run ended by economic limits", "day " + FormatNumber(*s.FieldLimitDays, decimalsForDay(*s.FieldLimitDays)) + r.dateSuffix(*s.FieldLimitDays, "")})
 	}
 
 	// Last reported control, rate and BHP of each well.
@@ -212,7 +228,7 @@ func (r *run) report() error {
 	for _, p := range s.Producers {
 		d.Breakthrough = append(d.Breakthrough, btRow{p.Name,
 			fmtOpt(p.TracerBreakthroughDays, 0), fmtOpt(p.TracerBreakthroughPVI, 3),
-			fmtOpt(p.BreakthroughDays, 0), fmtOpt(p.BreakthroughPVI, 3), fmtPct(float64(p.FinalWaterCut))})
+			fmtOpt(p.BreakthroughDays, 0) + r.optDateSuffix(p.BreakthroughDays), fmtOpt(p.BreakthroughPVI, 3), fmtPct(float64(p.FinalWaterCut))})
 	}
 	d.HasBreakthough = len(d.Breakthrough) > 0
 	if p := filepath.Join(r.dir, runfolder.AllocationFile); exists(p) {
@@ -242,6 +258,7 @@ func (r *run) report() error {
 		}
 	}
 	d.HasAllocation = len(d.Allocation) > 0
+	d.History = r.historyReport()
 	for _, f := range r.charts {
 		src, err := r.dataURI(f.File)
 		if err != nil {
@@ -367,7 +384,18 @@ footer { color: var(--soft); font-size: 12.5px; margin-top: 26px; }
 </section>
 {{end}}
 
-{{if .HasAllocation}}
+{{with .History}}<section id="history">
+<h2>Model against history</h2>
+<p>{{.Intro}}</p>
+<table>
+<tr><th>Well</th><th>Type</th><th class="n">Observed breakthrough</th><th class="n">Model breakthrough</th><th class="n">Breakthrough error</th><th class="n">Water-cut RMS</th><th class="n">Cum oil error</th><th class="n">Cum water error</th><th class="n">BHP RMS</th></tr>
+{{range .Wells}}<tr><td><b>{{.Name}}</b></td><td>{{.Type}}</td><td class="n">{{.ObservedBT}}</td><td class="n">{{.ModelBT}}</td><td class="n">{{.Error}}</td><td class="n">{{.WaterCutRMS}}</td><td class="n">{{.CumOil}}</td><td class="n">{{.CumWater}}</td><td class="n">{{.BHPRMS}}</td></tr>
+{{end}}{{with .Field}}<tr><td><b>{{.Name}}</b></td><td>{{.Type}}</td><td class="n">{{.ObservedBT}}</td><td class="n">{{.ModelBT}}</td><td class="n">{{.Error}}</td><td class="n">{{.WaterCutRMS}}</td><td class="n">{{.CumOil}}</td><td class="n">{{.CumWater}}</td><td class="n">{{.BHPRMS}}</td></tr>{{end}}
+</table>
+<p class="meta">Breakthrough is the first history period whose water cut exceeds the threshold; the error is model minus observed (negative: the model's water arrives early). Cumulative errors are fractions of the observed volume at the end of the history; match.csv has every period.</p>
+</section>
+
+{{end}}{{if .HasAllocation}}
 <section id="allocation">
 <h2>Well-pair allocation</h2>
 {{if .AllocationNote}}<p>{{.AllocationNote}}</p>{{end}}
@@ -427,3 +455,72 @@ curves and the well controls entered; check their sensitivity before drawing con
 </body>
 </html>
 `))
+
+// dateSuffix returns " (YYYY-MM-DD)", the date of a day (date when
+// given, else the day's date from start_date), or "" without start_date.
+func (r *run) dateSuffix(day float64, date string) string {
+	if r.sum.StartDate == "" {
+		return ""
+	}
+	if date == "" {
+		date = dateOf(r.sum.StartDate, day)
+	}
+	if date == "" {
+		return ""
+	}
+	return " (" + date + ")"
+}
+
+// optDateSuffix is dateSuffix of a day that may not be reached.
+func (r *run) optDateSuffix(p *float64) string {
+	if p == nil || math.IsNaN(*p) {
+		return ""
+	}
+	return r.dateSuffix(*p, "")
+}
+
+// historyReport builds the history section from the summary's history
+// object, or nil without one.
+func (r *run) historyReport() *historyReport {
+	h := r.sum.History
+	if h == nil {
+		return nil
+	}
+	bt := func(days *float64, date string) string {
+		if days == nil {
+			return "none"
+		}
+		if date != "" {
+			return date
+		}
+		return "day " + FormatNumber(*days, decimalsForDay(*days))
+	}
+	opt := func(p *float64, dec int) string {
+		if p == nil {
+			return "–"
+		}
+		return FormatNumber(*p, dec)
+	}
+	pct := func(p *float64) string {
+		if p == nil {
+			return "–"
+		}
+		return fmt.Sprintf("%+.1f%%", 100**p)
+	}
+	row := func(w runfolder.HistoryWell, name string) historyRow {
+		e := "–"
+		if w.BreakthroughErrorDays != nil {
+			e = signedDays(*w.BreakthroughErrorDays)
+		}
+		return historyRow{Name: name, Type: nonEmpty(w.Type, "field"), ObservedBT: bt(w.ObservedBreakthroughDays, w.ObservedBreakthroughDate),
+			ModelBT: bt(w.ModelBreakthroughDays, w.ModelBreakthroughDate), Error: e, WaterCutRMS: opt(w.WaterCutRMS, 3),
+			CumOil: pct(w.CumOilError), CumWater: pct(w.CumWaterError), BHPRMS: opt(w.BHPRMS, 0)}
+	}
+	hr := &historyReport{Intro: fmt.Sprintf("The run against its production history to %s (%d rows, %d periods, wells driven by %s; %d pressure solves in the history window). Breakthrough threshold: water cut %s.",
+		r.dayText(float64(h.EndDays), h.EndDate), h.Rows, h.Periods, nonEmpty(h.Drive, "rates"), h.PressureSolves, FormatNumber(float64(h.BreakthroughThreshold), 2))}
+	for _, w := range h.Wells {
+		hr.Wells = append(hr.Wells, row(w, w.Name))
+	}
+	hr.Field = row(h.Field, "Field")
+	return hr
+}

@@ -83,7 +83,8 @@ type run struct {
 	sum    *runfolder.Summary
 	scene  Scene
 	rep    *Report
-	field  *Table // field.csv, for PVI at a given day
+	field  *Table    // field.csv, for PVI at a given day
+	hist   *histData // match.csv and the summary's history; nil without
 	satSc  Scale
 	tofSc  Scale
 	charts []figure
@@ -133,7 +134,7 @@ func Run(dir string, opt Options) (*Report, error) {
 			return nil, fmt.Errorf("render: %w", err)
 		}
 	}
-	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.drawCharts, r.animation}
+	steps := []func() error{r.saturationMaps, r.streamlineMap, r.tofMap, r.partitionMaps, r.pressureMap, r.errorMap, r.drawCharts, r.animation}
 	if opt.Minimal {
 		steps = []func() error{r.saturationMaps}
 	}
@@ -285,6 +286,11 @@ func (r *run) prepare() error {
 			return err
 		}
 		r.field = t
+	}
+	if !r.opt.Minimal {
+		if err := r.loadHistory(); err != nil {
+			return err
+		}
 	}
 	// Active cells: finite in any of the rasters that hold every active
 	// cell (saturation, time of flight, pressure).
@@ -453,6 +459,20 @@ func (r *run) pviAt(day float64) float64 {
 	return math.NaN()
 }
 
+// timeLabel writes a day of the run as timeLabel does, with its date
+// when the summary has start_date: "day 366 (2021-01-01) · 0.21 PVI".
+func (r *run) timeLabel(day float64) string {
+	l := timeLabel(day, r.pviAt(day))
+	if d := r.dateSuffix(day, ""); d != "" {
+		head, tail, _ := strings.Cut(l, " · ")
+		l = head + d
+		if tail != "" {
+			l += " · " + tail
+		}
+	}
+	return l
+}
+
 // timeLabel writes "day 365 · 0.21 PVI".
 func timeLabel(day, pvi float64) string {
 	s := "day " + FormatNumber(day, decimalsForDay(day))
@@ -501,10 +521,10 @@ func (r *run) saturationMaps() error {
 			return err
 		}
 		s := r.scene
-		s.Subtitle = "Water saturation · " + timeLabel(f.Day, r.pviAt(f.Day))
+		s.Subtitle = "Water saturation · " + r.timeLabel(f.Day)
 		rel := filepath.Join(runfolder.MapsDir, f.Name+".png")
 		sc, w, h := r.satSc, r.opt.Width, r.opt.Height
-		r.addMap(rel, "Water saturation at "+timeLabel(f.Day, r.pviAt(f.Day))+".", f.Path, func() (*image.RGBA, error) {
+		r.addMap(rel, "Water saturation at "+r.timeLabel(f.Day)+".", f.Path, func() (*image.RGBA, error) {
 			return DrawField(s, v, sc, w, h)
 		})
 	}

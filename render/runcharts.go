@@ -128,24 +128,37 @@ func (r *run) drawCharts() error {
 		if err := t.need(p, "time_days", "well", "water_cut", "oil_rate", "cum_oil"); err != nil {
 			return err
 		}
+		xl, start := r.timeAxis()
+		wc := r.markLimits(t, "time_days", "water_cut", r.perWell(t, "time_days", "water_cut"), true)
+		rate := r.markLimits(t, "time_days", "oil_rate", r.perWell(t, "time_days", "oil_rate"), false)
+		cum := r.markLimits(t, "time_days", "cum_oil", r.perWell(t, "time_days", "cum_oil"), false)
+		if r.hist != nil {
+			var cumW []Series
+			if t.Has("cum_water") {
+				cumW = r.perWell(t, "time_days", "cum_water")
+			}
+			r.hist.estimateFVF(cum, cumW)
+			wc, rate, cum = r.historySeries(wc, "water_cut"), r.historySeries(rate, "oil_rate"), r.historySeries(cum, "cum_oil")
+		}
 		if err := r.chart("water_cut", Chart{Title: "Water cut by producer", Subtitle: title,
-			XLabel: "Time (days)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
-			Series: r.markLimits(t, "time_days", "water_cut", r.perWell(t, "time_days", "water_cut"), true), YMin: 0, YMax: 1},
-			"Water cut of each producer against time."+r.limitCaption()); err != nil {
+			XLabel: xl, YLabel: "Water cut (fraction)", LegendTitle: "Producer",
+			Series: wc, YMin: 0, YMax: 1, StartDate: start},
+			"Water cut of each producer against time."+r.limitCaption()+r.historyCaption("water cuts")); err != nil {
 			return err
 		}
 		if err := r.chart("oil_rate", Chart{Title: "Oil rate by producer", Subtitle: title,
-			XLabel: "Time (days)", YLabel: "Oil rate (" + u.Rate + ")", LegendTitle: "Producer",
-			Series: r.markLimits(t, "time_days", "oil_rate", r.perWell(t, "time_days", "oil_rate"), false)},
-			"Oil rate of each producer (reservoir volumes)."+r.limitCaption()); err != nil {
+			XLabel: xl, YLabel: "Oil rate (" + u.Rate + ")", LegendTitle: "Producer",
+			Series: rate, StartDate: start},
+			"Oil rate of each producer (reservoir volumes)."+r.limitCaption()+r.historyCaption("oil rates")); err != nil {
 			return err
 		}
 		if err := r.chart("cumulative_oil", Chart{Title: "Cumulative oil by producer", Subtitle: title,
-			XLabel: "Time (days)", YLabel: "Cumulative oil (" + u.Volume + ")", LegendTitle: "Producer",
-			Series: r.markLimits(t, "time_days", "cum_oil", r.perWell(t, "time_days", "cum_oil"), false)},
-			"Cumulative oil of each producer (reservoir volumes)."+r.limitCaption()); err != nil {
+			XLabel: xl, YLabel: "Cumulative oil (" + u.Volume + ")", LegendTitle: "Producer",
+			Series: cum, StartDate: start},
+			"Cumulative oil of each producer (reservoir volumes)."+r.limitCaption()+r.historyCaption("cumulative oil, at the end of each period,")); err != nil {
 			return err
 		}
+		r.historyCharts(t)
 	} else {
 		r.rep.note("producers.csv missing: no producer charts")
 	}

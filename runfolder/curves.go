@@ -29,6 +29,12 @@ type RunCurves struct {
 	// Setup names the engine and its settings for people (EngineSetup).
 	Setup     string
 	Producers []ProducerCurve
+	// History is the summary's history object and Match the rows of
+	// match.csv, both nil for a run without a history.
+	History *History
+	Match   []MatchRow
+	// StartDate is the summary's start_date (day 0), "" without one.
+	StartDate string
 }
 
 // EngineSetup names a run's engine and its settings: "fixed streamlines
@@ -59,7 +65,14 @@ func ReadRunCurves(dir string) (*RunCurves, error) {
 	if err != nil {
 		return nil, err
 	}
-	rc := &RunCurves{Dir: dir, Title: sum.Title, Engine: sum.Engine, Setup: EngineSetup(sum)}
+	rc := &RunCurves{Dir: dir, Title: sum.Title, Engine: sum.Engine, Setup: EngineSetup(sum), History: sum.History, StartDate: sum.StartDate}
+	if sum.History != nil {
+		if _, err := os.Stat(filepath.Join(dir, MatchFile)); err == nil {
+			if rc.Match, err = ReadMatch(dir); err != nil {
+				return nil, err
+			}
+		}
+	}
 	if rc.Engine == "" {
 		rc.Engine = "streamline"
 	}

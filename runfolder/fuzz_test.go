@@ -1,8 +1,11 @@
 package runfolder
 
 import (
+	"bytes"
+	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -34,6 +37,28 @@ func FuzzReadSummary(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) {
 		if s, err := ParseSummary("summary.json", data); err == nil {
 			s.Check("summary.json")
+		}
+	})
+}
+
+// FuzzParseMatch feeds damaged match.csv files to the reader render
+// draws the history pictures from: errors are fine, panics are not, and
+// every row read has a well and a finite time.
+func FuzzParseMatch(f *testing.F) {
+	head := strings.Join(MatchColumns, ",") + "\n"
+	f.Add([]byte(head + "P-1,2020-01-31,31,0,0.01,200,190,0,2,6200,5890,0,62,,\nI-1,2020-01-31,31,,,,,600,600,,,18600,18600,,\n"))
+	f.Add([]byte(head + "P-1,,31,x\n"))
+	f.Add([]byte("well\n"))
+	f.Add([]byte(""))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		rows, err := ParseMatch("match.csv", bytes.NewReader(data))
+		if err != nil {
+			return
+		}
+		for _, r := range rows {
+			if r.Well == "" || math.IsNaN(r.Time) || math.IsInf(r.Time, 0) {
+				t.Fatalf("row %+v accepted", r)
+			}
 		}
 	})
 }

@@ -36,6 +36,11 @@ It also draws both water-cut curves of every producer in one chart, a colour
 per producer, run A solid and run B dashed, written to FILE (compare.png in
 the current folder by default; .svg for a vector picture).
 
+When both runs have the same production history (the same observed values in
+their match.csv), the chart also shows the observed water cuts as dots, and a
+second table gives each producer's observed breakthrough and both runs'
+breakthrough errors and water-cut RMS against the history.
+
 Typical uses: fixed against updated streamlines, streamlines against the grid
 engine, two layouts or two relative-permeability choices on the same wells.
 
@@ -72,11 +77,15 @@ func runCompare(args []string) error {
 	}
 	c := flood.Compare(a, b)
 	printComparison(stdout, c)
+	shared := runfolder.SameObserved(a.Match, b.Match)
+	if shared {
+		printSharedHistory(stdout, c)
+	}
 	if len(c.Producers) == 0 {
 		return fmt.Errorf("the runs have no producer in common")
 	}
 	var chart bytes.Buffer
-	if err := render.WriteChart(&chart, comparisonChart(c), w, h, format); err != nil {
+	if err := render.WriteChart(&chart, comparisonChart(c, shared), w, h, format); err != nil {
 		return fmt.Errorf("drawing the chart: %w", err)
 	}
 	if err := outdir.WriteFile(compareFlags.out, func(out io.Writer) error {
@@ -115,18 +124,74 @@ func fmtOpt(v float64, format string) string {
 }
 
 // comparisonChart is the chart of every producer's two water-cut
-// curves: one colour per producer, run A solid and run B dashed.
-func comparisonChart(c *flood.Comparison) render.Chart {
+// curves: one colour per producer, run A solid and run B dashed. With
+// history (the runs share it), the observed water cuts are dots in the
+// producer's colour, at the middle of each history period. Runs with the
+// same start_date get calendar dates on the time axis.
+func comparisonChart(c *flood.Comparison, history bool) render.Chart {
 	pairs := make([]render.Pair, len(c.Producers))
 	for i, pc := range c.Producers {
 		pairs[i] = render.Pair{Name: pc.Name, AX: pc.A.Time, AY: pc.A.WaterCut, BX: pc.B.Time, BY: pc.B.WaterCut}
 	}
-	return render.Chart{
+	ch := render.Chart{
 		Title:    "Water cut of two runs by producer",
 		Subtitle: fmt.Sprintf("A = %s (solid) · B = %s (dashed)", label(c.A), label(c.B)),
 		XLabel:   "Time (days)", YLabel: "Water cut (fraction)", LegendTitle: "Producer",
 		Series: render.PairSeries(pairs, "run A", "run B"),
 		YMin:   0, YMax: 1,
+	}
+	if c.A.StartDate != "" && c.A.StartDate == c.B.StartDate {
+		ch.XLabel, ch.StartDate = "Date", c.A.StartDate
+	}
+	if !history {
+		return ch
+	}
+	ch.Subtitle += " · dots: observed (the history both runs share)"
+	for i, pc := range c.Producers {
+		col, _ := render.SeriesStyle(i)
+		var x, y []float64
+		prev := 0.0
+		for _, m := range c.A.Match {
+			if m.Well != pc.Name {
+				continue
+			}
+			x, y = append(x, (prev+m.Time)/2), append(y, m.ObsWaterCut)
+			prev = m.Time
+		}
+		ch.Series = append(ch.Series, render.Series{Name: pc.Name, X: x, Y: y, Points: true, Style: &render.LineStyle{Color: col}, NoLegend: true})
+	}
+	ch.Series = append(ch.Series, render.Series{Name: "Observed (surface volumes)", Points: true})
+	return ch
+}
+
+// printSharedHistory prints, when both runs have the same history, each
+// producer's observed breakthrough and both runs' water-cut RMS against
+// the history (summary.json).
+func printSharedHistory(w io.Writer, c *flood.Comparison) {
+	find := func(h *runfolder.History, name string) *runfolder.HistoryWell {
+		for i := range h.Wells {
+			if h.Wells[i].Name == name {
+				return &h.Wells[i]
+			}
+		}
+		return nil
+	}
+	opt := func(p *float64, format string) string {
+		if p == nil {
+			return "none"
+		}
+		return fmtOpt(*p, format)
+	}
+	fmt.Fprintf(w, "\nboth runs have the same history (%d rows of match.csv):\n", len(c.A.Match))
+	fmt.Fprintf(w, "%-12s %11s %11s %11s %11s %11s\n", "producer", "observed BT", "BT error A", "BT error B", "WC RMS A", "WC RMS B")
+	fmt.Fprintf(w, "%-12s %11s %11s %11s %11s %11s\n", "", "days", "days", "days", "", "")
+	for _, p := range c.Producers {
+		ha, hb := find(c.A.History, p.Name), find(c.B.History, p.Name)
+		if ha == nil || hb == nil {
+			continue
+		}
+		fmt.Fprintf(w, "%-12s %11s %11s %11s %11s %11s\n", p.Name, opt(ha.ObservedBreakthroughDays, "%.0f"),
+			opt(ha.BreakthroughErrorDays, "%+.0f"), opt(hb.BreakthroughErrorDays, "%+.0f"), opt(ha.WaterCutRMS, "%.4f"), opt(hb.WaterCutRMS, "%.4f"))
 	}
 }
 
