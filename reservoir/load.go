@@ -501,6 +501,7 @@ func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
 	}
 	f.OilFVF = d.num(s, "oil_fvf", 1, fvfCheck)
 	f.WaterFVF = d.num(s, "water_fvf", 1, fvfCheck)
+	f.FVFGiven = s.has("oil_fvf") || s.has("water_fvf")
 }
 
 func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {

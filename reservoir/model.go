@@ -195,6 +195,9 @@ type Fluids struct {
 	InitialSw      float64
 	OilFVF         float64
 	WaterFVF       float64
+	// FVFGiven is true when the case file gives oil_fvf or water_fvf: the
+	// outputs then carry surface volumes beside the reservoir ones.
+	FVFGiven bool
 }
 
 // RelPerm gives water and oil relative permeability against water
