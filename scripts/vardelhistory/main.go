@@ -125,6 +125,16 @@ func run() error {
 	if err != nil {
 		return err
 	}
+	// The truth's average reservoir pressure (pore-volume weighted), the
+	// invented "pressure survey" given as history.pressure_datum.
+	sum, pv := 0.0, 0.0
+	for k, p := range res.Pressure.P {
+		if m.Active[k] && !math.IsNaN(p) {
+			sum += m.PoreVolume(k) * p
+			pv += m.PoreVolume(k)
+		}
+	}
+	fmt.Printf("average reservoir pressure of the truth: %.1f\n", sum/pv)
 	at := func(day float64) int {
 		for k, t := range res.Times {
 			if math.Abs(t-day) < 1e-6 {
