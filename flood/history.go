@@ -279,7 +279,7 @@ func historyModel(m *reservoir.Model) (*reservoir.Model, []string, error) {
 		}
 	}
 	if scaled > 0 {
-		warns = append(warns, fmt.Sprintf("history: in %d of %d groups of periods the observed injection does not balance the observed production (reservoir volumes); the injectors' rates were scaled by %.3g to %.3g to balance it (the model is incompressible)",
+		warns = append(warns, fmt.Sprintf("history: in %d of %d groups of periods the observed injection does not balance the observed production (reservoir volumes); the injectors' rates were scaled by %.4g to %.4g to balance it (the model is incompressible)",
 			scaled, len(p.groups), lo, hi))
 	}
 	last := make([]float64, len(m.Wells))
