@@ -146,8 +146,8 @@ func (r *Result) Summary() *Summary {
 // rate of each injector named in rates replaced, for a copy written into
 // the folder outDir. The YAML node tree locates the values and the edit
 // replaces their text in place, so comments, layout and every other value
-// stay as the user wrote them; map and table paths, relative to the case
-// file, are rewritten relative to outDir so that the copy runs from there.
+// stay as the user wrote them; map, table, history, wells and faults file
+// paths, relative to the case file, are rewritten relative to outDir so that the copy runs from there.
 func BalancedCase(src []byte, casePath, outDir string, rates map[string]float64) ([]byte, error) {
 	root, perr := yamldoc.Parse(src)
 	if perr != nil {
@@ -191,6 +191,9 @@ func BalancedCase(src []byte, casePath, outDir string, rates map[string]float64)
 		relocate(mapping(top["rock"].get())[k])
 	}
 	relocate(mapping(top["relperm"].get())["table"])
+	relocate(mapping(top["history"].get())["file"])
+	relocate(top["wells"])  // a wells file (GeoJSON or CSV) instead of a list
+	relocate(top["faults"]) // a faults file instead of a list
 	return splice(src, edits)
 }
 

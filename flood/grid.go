@@ -294,8 +294,15 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	r.Solves++
 	r.Iterations += sol.Iterations
 	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
+	datum, limit := applyDatum(m, sol, g.wells)
 	for _, w := range sol.Warnings {
+		if datum != nil && datumWarning(w) {
+			continue // answered by the pressure datum
+		}
 		g.warnAt(t, w)
+	}
+	if datum != nil {
+		g.warnAt(t, datumNote(m))
 	}
 	if err := checkSolve(EngineGrid, sol, t); err != nil {
 		return err
@@ -308,7 +315,11 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		if w.Shut {
 			rate = 0
 		}
-		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP, Limit: w.LimitReached, Relative: w.Relative})
+		rec := WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP, Limit: w.LimitReached, Relative: w.Relative}
+		if datum != nil && datum[wi] {
+			rec.Relative, rec.Limit = false, limit[wi]
+		}
+		r.WellLog = append(r.WellLog, rec)
 		g.limitFlag(wi, w)
 		if w.Shut || w.Q == 0 {
 			continue

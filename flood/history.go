@@ -279,7 +279,7 @@ func historyModel(m *reservoir.Model) (*reservoir.Model, []string, error) {
 		}
 	}
 	if scaled > 0 {
-		warns = append(warns, fmt.Sprintf("history: in %d of %d groups of periods the observed injection does not balance the observed production (reservoir volumes); the injectors' rates were scaled by %.3g to %.3g to balance it (the model is incompressible)",
+		warns = append(warns, fmt.Sprintf("history: in %d of %d groups of periods the observed injection does not balance the observed production (reservoir volumes); the injectors' rates were scaled by %.4g to %.4g to balance it (the model is incompressible)",
 			scaled, len(p.groups), lo, hi))
 	}
 	last := make([]float64, len(m.Wells))
@@ -546,8 +546,13 @@ func (b *book) historyResult() *HistoryResult {
 				}
 				ps = append(ps, fmt.Sprintf("day %g to %g", l[0], l[1]))
 			}
-			b.warn(fmt.Sprintf("history: well %s was held at its BHP limit in %d history period(s) (%s): the model could not give it the observed rate there",
-				w.Name, len(a.limits), strings.Join(ps, ", ")))
+			if datumOf(m) > 0 {
+				b.warn(fmt.Sprintf("history: well %s was at or past its BHP limit in %d history period(s) (%s), the pressure level set by history.pressure_datum or the limit holding it: the model cannot give it the observed rate within its limit there",
+					w.Name, len(a.limits), strings.Join(ps, ", ")))
+			} else {
+				b.warn(fmt.Sprintf("history: well %s was held at its BHP limit in %d history period(s) (%s): the model could not give it the observed rate there",
+					w.Name, len(a.limits), strings.Join(ps, ", ")))
+			}
 		}
 		hr.Wells = append(hr.Wells, hw)
 	}

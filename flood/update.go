@@ -338,18 +338,29 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 	r.Solves++
 	r.Iterations += sol.Iterations
 	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
+	datum, limit := applyDatum(m, sol, u.wells)
 	for _, w := range sol.Warnings {
+		if datum != nil && datumWarning(w) {
+			continue // answered by the pressure datum
+		}
 		u.warnAt(t, w)
+	}
+	if datum != nil {
+		u.warnAt(t, datumNote(m))
 	}
 	if err := checkSolve(EngineStreamline, sol, t); err != nil {
 		return nil, err
 	}
-	for _, w := range sol.Wells {
+	for wi, w := range sol.Wells {
 		rate := math.Abs(w.Q)
 		if w.Shut {
 			rate = 0
 		}
-		r.WellLog = append(r.WellLog, WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP, Limit: w.LimitReached, Relative: w.Relative})
+		rec := WellRecord{Time: t, Well: w.Name, Type: w.Type, Control: w.Control, Rate: rate, BHP: w.BHP, Limit: w.LimitReached, Relative: w.Relative}
+		if datum != nil && datum[wi] {
+			rec.Relative, rec.Limit = false, limit[wi]
+		}
+		r.WellLog = append(r.WellLog, rec)
 	}
 	return sol, nil
 }

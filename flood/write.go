@@ -9,6 +9,7 @@ import (
 	"strconv"
 
 	"floodtrace/internal/outdir"
+	"floodtrace/reservoir"
 	"floodtrace/runfolder"
 )
 
@@ -91,8 +92,34 @@ func (r *Result) Summary() *runfolder.Summary {
 	if !m.StartDate.IsZero() {
 		s.StartDate, s.EndDate = m.Date(0), m.Date(m.Run.End)
 	}
+	if surfaceOutputs(m) {
+		bo, bw := m.Fluids.Bo(), m.Fluids.Bw()
+		P := func(v float64) *runfolder.Float { f := runfolder.Float(v); return &f }
+		s.UnitLabels.SurfaceVolume = runfolder.SurfaceUnit(string(m.Units))
+		s.OOIPSurface = P(r.OOIP / bo)
+		s.OilFVF, s.WaterFVF = P(bo), P(bw)
+		for i := range s.Producers {
+			s.Producers[i].CumOilSurface, s.Producers[i].CumWaterSurface = P(float64(s.Producers[i].CumOil)/bo), P(float64(s.Producers[i].CumWater)/bw)
+		}
+		for i := range s.Injectors {
+			s.Injectors[i].CumWaterSurface = P(float64(s.Injectors[i].CumWater) / bw)
+		}
+		if last >= 0 {
+			s.Field.FinalCumOilSurface, s.Field.FinalCumWaterSurface = P(float64(s.Field.FinalCumOil)/bo), P(float64(s.Field.FinalCumWater)/bw)
+		}
+	}
 	s.History = r.historySummary()
 	return s
+}
+
+// surfaceOutputs reports whether the outputs of a run of m carry surface
+// volumes beside the reservoir ones: when the case gives a formation
+// volume factor (fluids.oil_fvf or fluids.water_fvf, even 1), or a model
+// built in code sets one other than 1. Without one the files are as
+// before.
+func surfaceOutputs(m *reservoir.Model) bool {
+	f := m.Fluids
+	return f.FVFGiven || f.OilFVF > 0 && f.OilFVF != 1 || f.WaterFVF > 0 && f.WaterFVF != 1
 }
 
 // WriteData writes every data file of the run (all but summary.json and
@@ -101,6 +128,31 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	m := r.Model
 	// With start_date every time_days column has a date column beside it.
 	dated := !m.StartDate.IsZero()
+	surface := surfaceOutputs(m)
+	bo, bw := m.Fluids.Bo(), m.Fluids.Bw()
+	units := string(m.Units)
+	// hdr gives the header of a file; with surface volumes, scols is
+	// followed by the surface forms of its volume and rate columns.
+	shdr := func(cols []string) string {
+		if surface {
+			cols = runfolder.WithSurface(cols, units)
+		}
+		if dated {
+			cols = runfolder.WithDate(cols)
+		}
+		return runfolder.Header(cols)
+	}
+	// surf writes the surface forms of oil and water volumes (and their
+	// sum, when liquid) at the end of a row.
+	surf := func(w *bufio.Writer, liquid bool, oil, water float64) {
+		if !surface {
+			return
+		}
+		if liquid {
+			w.WriteString("," + runfolder.Num(oil/bo+water/bw))
+		}
+		w.WriteString("," + runfolder.Num(oil/bo) + "," + runfolder.Num(water/bw))
+	}
 	hdr := func(cols []string) string {
 		if dated {
 			cols = runfolder.WithDate(cols)
@@ -121,30 +173,38 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 		})
 	}
 	if err := csv(runfolder.WellsFile, func(w *bufio.Writer) {
-		w.WriteString(hdr(runfolder.WellsColumns))
+		w.WriteString(shdr(runfolder.WellsColumns))
 		for _, x := range r.WellRates() {
-			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", day(x.Time), x.Well, x.Type, x.Control, runfolder.Num(x.Rate),
+			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s", day(x.Time), x.Well, x.Type, x.Control, runfolder.Num(x.Rate),
 				runfolder.Num(x.Oil), runfolder.Num(x.Water), runfolder.Num(x.BHP))
+			surf(w, true, x.Oil, x.Water)
+			w.WriteByte('\n')
 		}
 	}); err != nil {
 		return err
 	}
 	if err := csv(runfolder.ProducersFile, func(w *bufio.Writer) {
-		w.WriteString(hdr(runfolder.ProducersColumns))
+		w.WriteString(shdr(runfolder.ProducersColumns))
 		for k, t := range r.Times {
 			for _, p := range r.Producers {
-				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", day(t), runfolder.Num(r.PVI[k]), p.Name, runfolder.Num(p.WaterCut[k]), runfolder.Num(p.OilRate[k]),
+				fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s", day(t), runfolder.Num(r.PVI[k]), p.Name, runfolder.Num(p.WaterCut[k]), runfolder.Num(p.OilRate[k]),
 					runfolder.Num(p.WaterRate[k]), runfolder.Num(p.CumOil[k]), runfolder.Num(p.CumWater[k]))
+				surf(w, false, p.OilRate[k], p.WaterRate[k])
+				surf(w, false, p.CumOil[k], p.CumWater[k])
+				w.WriteByte('\n')
 			}
 		}
 	}); err != nil {
 		return err
 	}
 	if err := csv(runfolder.FieldFile, func(w *bufio.Writer) {
-		w.WriteString(hdr(runfolder.FieldColumns))
+		w.WriteString(shdr(runfolder.FieldColumns))
 		for k, t := range r.Times {
-			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s\n", day(t), runfolder.Num(r.PVI[k]), runfolder.Num(r.FieldWaterCut[k]), runfolder.Num(r.FieldOilRate[k]),
+			fmt.Fprintf(w, "%s,%s,%s,%s,%s,%s,%s,%s", day(t), runfolder.Num(r.PVI[k]), runfolder.Num(r.FieldWaterCut[k]), runfolder.Num(r.FieldOilRate[k]),
 				runfolder.Num(r.FieldWaterRate[k]), runfolder.Num(r.FieldCumOil[k]), runfolder.Num(r.FieldCumWater[k]), runfolder.Num(r.RecoveryFactor[k]))
+			surf(w, false, r.FieldOilRate[k], r.FieldWaterRate[k])
+			surf(w, false, r.FieldCumOil[k], r.FieldCumWater[k])
+			w.WriteByte('\n')
 		}
 	}); err != nil {
 		return err

@@ -28,7 +28,7 @@ type histData struct {
 	// producers with history rows, in the order of summary.json's wells
 	producers []string
 	// bo and bw turn the surface volumes of match.csv into the reservoir
-	// volumes of producers.csv (estimateFVF); 1 until estimated.
+	// volumes of producers.csv (setFVF, from summary.json); 1 without them.
 	bo, bw float64
 }
 
@@ -65,55 +65,16 @@ func (r *run) loadHistory() error {
 	return nil
 }
 
-// interpAt interpolates y(x) linearly (x increasing); NaN outside.
-func interpAt(xs, ys []float64, x float64) float64 {
-	for i := 1; i < len(xs) && i < len(ys); i++ {
-		if xs[i] >= x && xs[i-1] <= x {
-			if xs[i] == xs[i-1] {
-				return ys[i]
-			}
-			return ys[i-1] + (ys[i]-ys[i-1])*(x-xs[i-1])/(xs[i]-xs[i-1])
-		}
+// setFVF takes the formation volume factors that turn match.csv's
+// surface volumes into producers.csv's reservoir ones from summary.json
+// (1 when the case gives none: the two are then the same volumes).
+func (d *histData) setFVF(s *runfolder.Summary) {
+	if s.OilFVF != nil && *s.OilFVF > 0 {
+		d.bo = float64(*s.OilFVF)
 	}
-	return math.NaN()
-}
-
-// round4 rounds v to four significant digits.
-func round4(v float64) float64 {
-	if !(v > 0) || math.IsInf(v, 0) {
-		return 1
+	if s.WaterFVF != nil && *s.WaterFVF > 0 {
+		d.bw = float64(*s.WaterFVF)
 	}
-	p := math.Pow(10, 3-math.Floor(math.Log10(v)))
-	return math.Round(v*p) / p
-}
-
-// estimateFVF sets the formation volume factors that turn match.csv's
-// surface volumes into producers.csv's reservoir ones: the ratio of a
-// producer's model cumulative volume in producers.csv (interpolated to
-// the end of its last history period) to the same volume in match.csv,
-// taken at the producer with the largest one, rounded to four
-// significant digits (formation volume factors are given to three or
-// four; common practice). Without the volumes it stays 1.
-func (d *histData) estimateFVF(cumOil, cumWater []Series) {
-	est := func(cum []Series, model func(runfolder.MatchRow) float64) float64 {
-		best, f := 0.0, 1.0
-		for _, s := range cum {
-			rs := d.rows[s.Name]
-			for k := len(rs) - 1; k >= 0; k-- {
-				v := model(rs[k])
-				if !(v > 0) {
-					continue
-				}
-				if res := interpAt(s.X, s.Y, rs[k].Time); res > 0 && v > best {
-					best, f = v, round4(res/v)
-				}
-				break
-			}
-		}
-		return f
-	}
-	d.bo = est(cumOil, func(m runfolder.MatchRow) float64 { return m.ModCumOil })
-	d.bw = est(cumWater, func(m runfolder.MatchRow) float64 { return m.ModCumWater })
 }
 
 // observed returns the observed values of a producer in reservoir

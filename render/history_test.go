@@ -327,13 +327,12 @@ func TestDateTicks(t *testing.T) {
 	}
 }
 
-// TestEstimateFVF: match.csv holds surface volumes, producers.csv
-// reservoir ones; the factors come back from their ratio (here 1.25 and
-// 1.02, invented), read at the producer with the largest volume, and the
-// observed values are turned into reservoir volumes with them: the
-// reservoir water cut qw Bw / (qo Bo + qw Bw) (the definition of the
-// formation volume factor, common practice).
-func TestEstimateFVF(t *testing.T) {
+// TestHistoryFVF: match.csv holds surface volumes, producers.csv
+// reservoir ones; the factors come from summary.json (here 1.25 and
+// 1.02, invented) and the observed values are turned into reservoir
+// volumes with them: the reservoir water cut qw Bw / (qo Bo + qw Bw) (the
+// definition of the formation volume factor, common practice).
+func TestHistoryFVF(t *testing.T) {
 	const bo, bw = 1.25, 1.02
 	nan := math.NaN()
 	d := &histData{bo: 1, bw: 1, rows: map[string][]runfolder.MatchRow{
@@ -341,12 +340,12 @@ func TestEstimateFVF(t *testing.T) {
 			{Well: "P-1", Time: 61, ModCumOil: 5000 / bo, ModCumWater: 1000 / bw, ObsOilRate: 60, ObsWaterRate: 40, ObsWaterCut: 0.4, ObsCumOil: 4860}},
 		"P-2": {{Well: "P-2", Time: 30, ModCumOil: 20 / bo, ModCumWater: nan, ObsOilRate: nan}},
 	}, starts: map[string][]float64{"P-1": {0, 30}, "P-2": {0}}}
-	// Reservoir cumulative volumes at report days 0, 45 and 90: linear,
-	// so that day 61 interpolates exactly.
-	oil := []Series{{Name: "P-1", X: []float64{0, 45, 90}, Y: []float64{0, 5000 * 45 / 61.0, 5000 * 90 / 61.0}},
-		{Name: "P-2", X: []float64{0, 90}, Y: []float64{0, 60}}}
-	water := []Series{{Name: "P-1", X: []float64{0, 61, 90}, Y: []float64{0, 1000, 2000}}}
-	d.estimateFVF(oil, water)
+	d.setFVF(&runfolder.Summary{})
+	if d.bo != 1 || d.bw != 1 {
+		t.Fatalf("factors without them in the summary %g, %g, want 1, 1", d.bo, d.bw)
+	}
+	fo, fw := runfolder.Float(bo), runfolder.Float(bw)
+	d.setFVF(&runfolder.Summary{OilFVF: &fo, WaterFVF: &fw})
 	if d.bo != bo || d.bw != bw {
 		t.Fatalf("factors %g, %g, want %g, %g", d.bo, d.bw, bo, bw)
 	}

@@ -133,11 +133,7 @@ func (r *run) drawCharts() error {
 		rate := r.markLimits(t, "time_days", "oil_rate", r.perWell(t, "time_days", "oil_rate"), false)
 		cum := r.markLimits(t, "time_days", "cum_oil", r.perWell(t, "time_days", "cum_oil"), false)
 		if r.hist != nil {
-			var cumW []Series
-			if t.Has("cum_water") {
-				cumW = r.perWell(t, "time_days", "cum_water")
-			}
-			r.hist.estimateFVF(cum, cumW)
+			r.hist.setFVF(r.sum)
 			wc, rate, cum = r.historySeries(wc, "water_cut"), r.historySeries(rate, "oil_rate"), r.historySeries(cum, "cum_oil")
 		}
 		if err := r.chart("water_cut", Chart{Title: "Water cut by producer", Subtitle: title,

@@ -25,7 +25,7 @@ func TestGISDemoSameModel(t *testing.T) {
 	// The CSV variant: the same case with wells: wells.csv, written
 	// elsewhere with absolute paths.
 	csvCase := strings.ReplaceAll(string(b), ": perm.tif", ": "+filepath.Join(gisDir, "perm.tif"))
-	for _, f := range []string{"poro.tif", "outline.geojson", "faults.geojson"} {
+	for _, f := range []string{"poro.tif", "outline.geojson", "faults.geojson", "history.csv"} {
 		csvCase = strings.ReplaceAll(csvCase, ": "+f, ": "+filepath.Join(gisDir, f))
 	}
 	csvCase = strings.ReplaceAll(csvCase, "wells: wells.geojson", "wells: "+filepath.Join(gisDir, "wells.csv"))

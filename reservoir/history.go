@@ -35,6 +35,12 @@ type History struct {
 	Drive HistoryDrive
 	Rows  []HistoryRow // in file order
 	Line  int          // line of history: in the case file
+	// PressureDatum (history.pressure_datum, 0 when not given) is the
+	// average reservoir pressure, pore-volume weighted, that sets the
+	// pressure level of a region whose wells are all rate-controlled (as
+	// under drive: rates), whose pressures are otherwise relative: BHPs
+	// are then compared with the observed ones and with the wells' limits.
+	PressureDatum float64
 }
 
 // HistoryRow is one row of a history file: one well over one period. A
@@ -92,9 +98,9 @@ func fvfCheck(v float64) string {
 	return ""
 }
 
-// readHistorySpec reads history: {file, drive}.
+// readHistorySpec reads history: {file, drive, pressure_datum}.
 func (d *decoder) readHistorySpec(m *Model, top *section) {
-	s := d.section(top.vals["history"], "history", "", []string{"file", "drive"}, []string{"file"})
+	s := d.section(top.vals["history"], "history", "", []string{"file", "drive", "pressure_datum"}, []string{"file"})
 	if s == nil {
 		return
 	}
@@ -115,6 +121,9 @@ func (d *decoder) readHistorySpec(m *Model, top *section) {
 			}
 			d.fail(s, s.vals["drive"], "%s", msg)
 		}
+	}
+	if s.has("pressure_datum") {
+		h.PressureDatum = d.limited(s, "pressure_datum", 0, limBHP, nil)
 	}
 	m.History = h
 }

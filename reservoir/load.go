@@ -523,6 +523,7 @@ func (d *decoder) readFluids(rc *rawCase, n *yaml.Node) {
 	f.WaterDensity = d.limited(s, "water_density", 0, limDensity, nil)
 	f.OilDensity = d.limited(s, "oil_density", 0, limDensity, nil)
 	rc.fluidsNode = s.node
+	f.FVFGiven = s.has("oil_fvf") || s.has("water_fvf")
 }
 
 func (d *decoder) readRelPerm(n *yaml.Node) RelPerm {

@@ -199,6 +199,9 @@ type Fluids struct {
 	// conditions, lb/ft3 in field units and kg/m3 in metric units; 0 when
 	// the case gives none. They matter only with Model.Depth.
 	WaterDensity, OilDensity float64
+	// FVFGiven is true when the case file gives oil_fvf or water_fvf: the
+	// outputs then carry surface volumes beside the reservoir ones.
+	FVFGiven bool
 }
 
 // RelPerm gives water and oil relative permeability against water

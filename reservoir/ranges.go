@@ -148,7 +148,7 @@ var Limits = []Limit{
 		Field: Bound{0, 1, 0.1, 1}, Metric: Bound{0, 1, 0.1, 1}, Positive: true},
 	limRate: {Name: "well rate", Keys: "well `rate`, `min_rate`, `max_rate`, event `rate`", UnitField: "bbl/day", UnitMetric: "m3/day",
 		Field: Bound{0.01, 1e6, 1, 1e5}, Metric: Bound{0.001, 1.6e5, 0.1, 1.6e4}, Positive: true},
-	limBHP: {Name: "bottom-hole pressure and its limits", Keys: "well `bhp`, `max_bhp`, `min_bhp`, event `bhp`", UnitField: "psi", UnitMetric: "bar",
+	limBHP: {Name: "bottom-hole pressure and its limits", Keys: "well `bhp`, `max_bhp`, `min_bhp`, event `bhp`, `history.pressure_datum`", UnitField: "psi", UnitMetric: "bar",
 		Field: Bound{0, 3e4, 14.7, 2e4}, Metric: Bound{0, 2000, 1.01325, 1400}, Positive: true},
 	limRadius: {Name: "wellbore radius", Keys: "well `radius`", UnitField: "ft", UnitMetric: "m",
 		Field: Bound{0.01, 10, 0.1, 1}, Metric: Bound{0.003, 3, 0.03, 0.3}, Positive: true},

@@ -74,13 +74,22 @@ type Summary struct {
 	EndDays    Float      `json:"end_days"`
 	// StartDate and EndDate are the calendar dates of day 0 and of the
 	// end, when the case gives start_date.
-	StartDate  string     `json:"start_date,omitempty"`
-	EndDate    string     `json:"end_date,omitempty"`
-	PoreVolume Float      `json:"pore_volume"`
-	OOIP       Float      `json:"ooip"`
-	Producers  []Producer `json:"producers"`
-	Injectors  []Injector `json:"injectors"`
-	Field      Field      `json:"field"`
+	StartDate  string `json:"start_date,omitempty"`
+	EndDate    string `json:"end_date,omitempty"`
+	PoreVolume Float  `json:"pore_volume"`
+	OOIP       Float  `json:"ooip"`
+	// OOIPSurface is the oil initially in place in surface volumes; it and
+	// every other *_surface value are present only when the case gives a
+	// formation volume factor (fluids.oil_fvf or fluids.water_fvf).
+	OOIPSurface *Float `json:"ooip_surface,omitempty"`
+	// OilFVF and WaterFVF are the case's formation volume factors
+	// (reservoir volume per surface volume), present with the *_surface
+	// values; readers take 1 when they are absent.
+	OilFVF    *Float     `json:"oil_fvf,omitempty"`
+	WaterFVF  *Float     `json:"water_fvf,omitempty"`
+	Producers []Producer `json:"producers"`
+	Injectors []Injector `json:"injectors"`
+	Field     Field      `json:"field"`
 	// LorenzCoefficient is null when the F-Phi curve is not valid (no
 	// streamline, for instance).
 	LorenzCoefficient *float64   `json:"lorenz_coefficient"`
@@ -118,6 +127,9 @@ type UnitLabels struct {
 	Pressure string `json:"pressure"`
 	Rate     string `json:"rate"`
 	Volume   string `json:"volume"`
+	// SurfaceVolume is the unit of the surface volumes ("stb" or "sm3"),
+	// present when the case gives a formation volume factor.
+	SurfaceVolume string `json:"surface_volume,omitempty"`
 }
 
 // Grid is the grid block of summary.json.
@@ -164,6 +176,10 @@ type Producer struct {
 	FinalWaterCut          Float    `json:"final_water_cut"`
 	CumOil                 Float    `json:"cum_oil"`
 	CumWater               Float    `json:"cum_water"`
+	// CumOilSurface and CumWaterSurface are the cumulative volumes in
+	// surface volumes (with a formation volume factor only).
+	CumOilSurface   *Float `json:"cum_oil_surface,omitempty"`
+	CumWaterSurface *Float `json:"cum_water_surface,omitempty"`
 	// Limit names the economic limit the producer reached ("max_water_cut"
 	// or "min_oil_rate") and LimitDays the day it did, from which it is
 	// shut in; both absent when it reached none (or the case has none).
@@ -173,9 +189,12 @@ type Producer struct {
 
 // Injector is one injector's totals in summary.json.
 type Injector struct {
-	Name          string `json:"name"`
-	CumWater      Float  `json:"cum_water"`
-	MaxBHPReached bool   `json:"max_bhp_reached"`
+	Name     string `json:"name"`
+	CumWater Float  `json:"cum_water"`
+	// CumWaterSurface is the injected water in surface volumes (with a
+	// formation volume factor only).
+	CumWaterSurface *Float `json:"cum_water_surface,omitempty"`
+	MaxBHPReached   bool   `json:"max_bhp_reached"`
 }
 
 // Field holds the field totals at the end of the run.
@@ -185,6 +204,11 @@ type Field struct {
 	FinalWaterCut       Float `json:"final_water_cut"`
 	FinalCumOil         Float `json:"final_cum_oil"`
 	FinalCumWater       Float `json:"final_cum_water"`
+	// FinalCumOilSurface and FinalCumWaterSurface are the field's
+	// cumulative volumes in surface volumes (with a formation volume
+	// factor only).
+	FinalCumOilSurface   *Float `json:"final_cum_oil_surface,omitempty"`
+	FinalCumWaterSurface *Float `json:"final_cum_water_surface,omitempty"`
 }
 
 // Solver reports the pressure solves.

@@ -53,9 +53,10 @@ func fillNaN(v reflect.Value) {
 	case reflect.Float64:
 		v.SetFloat(math.NaN())
 	case reflect.Pointer:
-		if v.Type().Elem().Kind() == reflect.Float64 {
-			nan := math.NaN()
-			v.Set(reflect.ValueOf(&nan))
+		if v.Type().Elem().Kind() == reflect.Float64 { // *float64 or *Float
+			p := reflect.New(v.Type().Elem())
+			p.Elem().SetFloat(math.NaN())
+			v.Set(p)
 		}
 	case reflect.Struct:
 		for i := range v.NumField() {

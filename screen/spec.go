@@ -221,6 +221,10 @@ func ParseSpec(path string, data []byte) (spec *Spec, err error) {
 		}
 		return nil, fmt.Errorf("%s:%d: base case: %w", path, baseNode.Line, err)
 	}
+	// Screening plans from day 0 on the base case's own controls: a
+	// production history of the base case (for reviewing the flood) is not
+	// used (its wells have no rows for the candidates' new wells).
+	base.History = nil
 	s.Base = base
 
 	// Realizations.

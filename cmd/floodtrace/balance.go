@@ -104,6 +104,12 @@ func runBalance(args []string) error {
 	if err != nil {
 		return err
 	}
+	if m.History != nil {
+		// Balancing plans rates from day 0 on the case's own controls: a
+		// production history (for reviewing the flood) is not used.
+		logf("the case's history (%s) is not used: balance forecasts from day 0 on the case's controls", m.History.File)
+		m.History = nil
+	}
 	s := balance.Settings{Horizon: f.horizon, Objective: balance.Objective(f.objective), FreeTotal: f.total == "free", Workers: f.workers, Log: logf}
 	s.Flood.Streamlines = f.streamlines
 	res, err := balance.Balance(m, s)

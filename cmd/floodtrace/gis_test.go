@@ -93,7 +93,7 @@ func TestProjectionReachesGIS(t *testing.T) {
 		t.Skip("gdalinfo not installed (Debian package gdal-bin)")
 	}
 	src := t.TempDir()
-	for _, f := range []string{"case.yaml", "perm.tif", "poro.tif", "outline.geojson", "wells.geojson", "faults.geojson"} {
+	for _, f := range []string{"case.yaml", "perm.tif", "poro.tif", "outline.geojson", "wells.geojson", "faults.geojson", "history.csv"} {
 		b, err := os.ReadFile(filepath.Join("..", "..", "examples", "vardel-gis", f))
 		if err != nil {
 			t.Fatal(err)
