@@ -127,14 +127,16 @@ func ContourLines(g reservoir.Grid, v []float64, active []bool, level float64) [
 		for i := 0; i+1 < nx; i++ {
 			k0 := j*nx + i
 			k1, k2, k3 := k0+1, k0+nx+1, k0+nx
-			if !ok(k0) || !ok(k1) || !ok(k2) || !ok(k3) {
-				continue
-			}
 			c := 0
 			for bit, k := range [4]int{k0, k1, k2, k3} {
 				if v[k] >= level {
 					c |= 1 << bit
 				}
+			}
+			// Most squares are wholly above or below (a NaN corner counts
+			// as below, so such squares reach the check).
+			if c == 0 || c == 15 || !ok(k0) || !ok(k1) || !ok(k2) || !ok(k3) {
+				continue
 			}
 			e0, e1, e2, e3 := 2*k0, 2*k1+1, 2*k3, 2*k0+1 // south, east, north, west
 			centreAbove := (v[k0]+v[k1]+v[k2]+v[k3])/4 >= level

@@ -289,3 +289,15 @@ func TestRunDepthContours(t *testing.T) {
 		t.Error("a run without depth reports a gravity number")
 	}
 }
+
+// BenchmarkNewStructure contours a 1000x1000 planar depth (12 levels,
+// each line 1000 pieces long) and fits its dip.
+func BenchmarkNewStructure(b *testing.B) {
+	g := reservoir.Grid{NX: 1000, NY: 1000, DX: 10, DY: 10}
+	d := fieldOf(g, func(x, y float64) float64 { return 6000 + 0.02*x + 0.01*y })
+	for b.Loop() {
+		if _, err := NewStructure(g, d, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
