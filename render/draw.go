@@ -84,6 +84,7 @@ func hasNoData(s Scene, values []float64) bool {
 // outline, faults, markers of ov, wells and labels over the map, the title
 // block, the legend and the north arrow and scale bar.
 func (c *mapCanvas) fieldDecoration(sc Scale, ov *Overlay, noDataCells bool) {
+	c.depthContours()
 	c.outline()
 	c.faults(false)
 	if ov != nil {
@@ -91,6 +92,7 @@ func (c *mapCanvas) fieldDecoration(sc Scale, ov *Overlay, noDataCells bool) {
 	}
 	c.wells()
 	c.faultLabels()
+	c.contourLabels()
 	c.header()
 	noData := ""
 	if noDataCells {
@@ -154,10 +156,12 @@ func drawPartition(s Scene, part []int, names []string, legendTitle string, w, h
 	c.edges(func(a, b int) bool {
 		return a >= 0 && b >= 0 && c.active(a) && c.active(b) && part[a] != part[b]
 	}, color.NRGBA{40, 44, 52, 150}, math.Max(1, 1.3*c.l.S))
+	c.depthContours()
 	c.outline()
 	c.faults(false)
 	c.wells()
 	c.faultLabels()
+	c.contourLabels()
 	c.header()
 	c.panelHeading(legendTitle, "cells coloured by well")
 	var entries []legendEntry
@@ -218,6 +222,7 @@ func drawStreamlines(s Scene, lines []Polyline, sc Scale, w, h int) (*image.RGBA
 		}
 	}
 	c.fillCells(col)
+	c.depthContours() // under the lines
 	order := make([]int, len(lines))
 	for i := range order {
 		order[i] = i
@@ -263,6 +268,7 @@ func drawStreamlines(s Scene, lines []Polyline, sc Scale, w, h int) (*image.RGBA
 	c.faults(true)
 	c.wells()
 	c.faultLabels()
+	c.contourLabels()
 	c.header()
 	c.panelHeading(sc.Label, sc.Unit)
 	c.colourBar(sc)

@@ -142,7 +142,7 @@ func (c *mapCanvas) standardEntries(noData string) []legendEntry {
 	if noData != "" {
 		es = append(es, legendEntry{noData, func(x, y float64) { c.swatch(x, y, colNoData, true) }})
 	}
-	return es
+	return append(es, c.structureEntries()...)
 }
 
 // swatch draws a small filled rectangle centred at (x, y), optionally

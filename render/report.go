@@ -164,6 +164,7 @@ func (r *run) report() error {
 		{"Pressure solver", fmt.Sprintf("%d solve(s), %d iterations, relative residual %s",
 			s.PressureSolver.Solves, s.PressureSolver.Iterations, fmtSci(float64(s.PressureSolver.RelativeResidual)))},
 	}
+	d.Summary = append(d.Summary, gravityRows(s)...)
 	// Economic limits, only when one was reached (a case without limits
 	// has the report it had).
 	var shut []string

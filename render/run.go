@@ -356,6 +356,9 @@ func (r *run) prepare() error {
 	if r.opt.Minimal {
 		return nil
 	}
+	if err := r.readStructure(); err != nil {
+		return err
+	}
 
 	// Time of flight: stagnant corners reach huge values, so the scale
 	// spans the 1st to 99th percentiles and the bar shows the clipping.

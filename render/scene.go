@@ -35,6 +35,9 @@ type Scene struct {
 	FaultNames []string       // optional, parallel to Faults
 	LengthUnit string         // "ft" or "m"
 	Note       string         // optional footer text
+	// Depth, when set, draws depth contours on the map and the dip in the
+	// legend (a case with a depth map; see NewStructure).
+	Depth *Structure
 }
 
 // WellMark places a well symbol.
