@@ -279,8 +279,12 @@ func historyModel(m *reservoir.Model) (*reservoir.Model, []string, error) {
 		}
 	}
 	if scaled > 0 {
-		warns = append(warns, fmt.Sprintf("history: in %d of %d groups of periods the observed injection does not balance the observed production (reservoir volumes); the injectors' rates were scaled by %.4g to %.4g to balance it (the model is incompressible)",
-			scaled, len(p.groups), lo, hi))
+		by := fmt.Sprintf("%.4g to %.4g", lo, hi)
+		if by == fmt.Sprintf("%.4g to %.4g", lo, lo) {
+			by = fmt.Sprintf("%.4g", lo)
+		}
+		warns = append(warns, fmt.Sprintf("history: in %d of %d groups of periods the observed injection does not balance the observed production (reservoir volumes); the injectors' rates were scaled by %s to balance it (the model is incompressible)",
+			scaled, len(p.groups), by))
 	}
 	last := make([]float64, len(m.Wells))
 	for i := range last {

@@ -23,8 +23,8 @@ func printHistory(r *flood.Result) {
 	if d := m.PeriodEndDate(h.End); d != "" {
 		end += " (" + d + ")"
 	}
-	fmt.Fprintf(stdout, "\nhistory to %s, drive %s: %d rows, %d pressure solves in the history window (%d rate groups, tolerance %g)\n",
-		end, h.Drive, h.Rows, h.Solves, h.Groups, flood.HistoryTolerance)
+	fmt.Fprintf(stdout, "\nhistory to %s, drive %s: %d rows, %s in the history window (%s, tolerance %g)\n",
+		end, h.Drive, h.Rows, count(h.Solves, "pressure solve"), count(h.Groups, "rate group"), flood.HistoryTolerance)
 	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %10s %10s\n", "producer", "observed BT", "model BT", "BT error", "WC RMS", "cum oil")
 	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %10s %10s\n", "", "days", "days", "days", "", "error")
 	var ws []flood.HistoryWell
@@ -73,4 +73,12 @@ func fixed(v float64, format string, scale ...float64) string {
 		v *= scale[0]
 	}
 	return fmt.Sprintf(format, v)
+}
+
+// count writes n with the noun, plural when n is not 1.
+func count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }
