@@ -154,8 +154,9 @@ func TestArrivalSensitivityFiniteDifference(t *testing.T) {
 // TestArrivalSensitivityRateControls documents the limit of the fixed
 // pressure assumption: with both wells on rate control the total flux is
 // held, so the path's speed-up is about half the fixed-pressure value
-// (in a circular inclusion of contrast κ the velocity is 2κ/(1+κ) times the far
-// contrast; Batchelor 1967, section 2.8, from memory). The analytic value
+// (in a circular inclusion of contrast κ the velocity is 2κ/(1+κ) times
+// the far field, so d ln v / d ln k = 1/2 at κ = 1: potential flow past a
+// cylinder, from memory). The analytic value
 // must overestimate, by less than a factor three (measured 2.0); the
 // calibration's line search absorbs the overshoot.
 func TestArrivalSensitivityRateControls(t *testing.T) {
