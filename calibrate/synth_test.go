@@ -1,6 +1,7 @@
 package calibrate
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"os"
@@ -9,7 +10,9 @@ import (
 	"testing"
 
 	"floodtrace/flood"
+	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 )
 
 // Synthetic truth (invented): a 30x20 grid with a high-permeability
@@ -175,5 +178,65 @@ func TestSyntheticTruth(t *testing.T) {
 	t.Logf("forecast water-cut RMS against the truth: prior %.4g, calibrated %.4g", prior, calib)
 	if !(calib < prior) {
 		t.Errorf("calibrated forecast RMS %g not below the prior's %g", calib, prior)
+	}
+	checkOutputs(t, res, filepath.Join(dir, "out"))
+}
+
+// checkOutputs writes the calibration folder and reads it back: the
+// calibrated case loads from the folder with the calibrated map (to the
+// raster's digits) and its run reproduces the final forward run's water
+// cuts; calibration.csv has a row per iteration and calibration.json a
+// producer per matched well.
+func checkOutputs(t *testing.T, res *Result, out string) {
+	t.Helper()
+	d, err := outdir.Open(out, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := res.Write(d, out); err != nil {
+		t.Fatal(err)
+	}
+	if err := d.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(out, runfolder.CalibratedPermYFile)); !os.IsNotExist(err) {
+		t.Errorf("%s written for a case without perm_y (%v)", runfolder.CalibratedPermYFile, err)
+	}
+	m, err := reservoir.Load(filepath.Join(out, runfolder.CalibratedCaseFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	worst := 0.0
+	for k, v := range m.PermEast {
+		worst = math.Max(worst, math.Abs(v-res.Calibrated.PermEast[k])/res.Calibrated.PermEast[k])
+		if m.PermNorth[k] != v {
+			t.Fatalf("cell %d: perm_y %g differs from perm %g", k, m.PermNorth[k], v)
+		}
+	}
+	// The raster keeps runfolder.RasterDigits significant digits.
+	if worst > 1e-5 {
+		t.Errorf("calibrated map read back differs by %.3g relative", worst)
+	}
+	if m.History == nil || len(m.History.Rows) != len(res.Calibrated.History.Rows) {
+		t.Fatal("the calibrated case lost its history")
+	}
+	csv, err := os.ReadFile(filepath.Join(out, runfolder.CalibrationFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(csv)), "\n")
+	if lines[0] != strings.Join(runfolder.CalibrationColumns, ",") || len(lines) != len(res.Iterations)+1 {
+		t.Errorf("calibration.csv: header %q and %d lines for %d iterations", lines[0], len(lines), len(res.Iterations))
+	}
+	js, err := os.ReadFile(filepath.Join(out, runfolder.CalibrationJSONFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s Summary
+	if err := json.Unmarshal(js, &s); err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Producers) != len(res.Producers) || s.Constrained.Cells == 0 || !(float64(s.Misfit.After) < float64(s.Misfit.Before)) {
+		t.Errorf("calibration.json: %d producers, %d constrained cells, misfit %v -> %v", len(s.Producers), s.Constrained.Cells, s.Misfit.Before, s.Misfit.After)
 	}
 }
