@@ -68,7 +68,9 @@ type Result struct {
 	// PriorRun and FinalRun are the forward runs of the prior and the
 	// calibrated map.
 	PriorRun, FinalRun *flood.Result
-	Warnings           []string
+	// ForwardRuns counts every forward run made, rejected steps included.
+	ForwardRuns int
+	Warnings    []string
 }
 
 // state is one forward evaluation.
@@ -105,8 +107,9 @@ type calib struct {
 // over the free cells (crossed by the matched producers' streamlines, not
 // kept), L the five-point Laplacian, solved by LSQR; the multipliers are
 // clipped to their bounds, and the step is halved until the travel-time
-// misfit does not rise (at most three halvings; the calibration stops
-// when none helps or the misfit stops falling).
+// misfit does not rise (at most three halvings, each iteration starting
+// from the step length the last one accepted; the calibration stops when
+// none helps or the misfit stops falling).
 func Calibrate(m *reservoir.Model, o Options) (*Result, error) {
 	if m.History == nil {
 		return nil, &reservoir.InputError{Path: m.Path, Msg: "calibrate needs a production history (history: {file: ...}) in the case"}
@@ -134,6 +137,7 @@ func Calibrate(m *reservoir.Model, o Options) (*Result, error) {
 	res := &Result{Settings: set, Kept: kept}
 	constrained := c.crossed(cur.lines)
 	res.Iterations = append(res.Iterations, c.row(0, cur, constrained))
+	factor := 1.0
 	for it := 1; it <= set.Iterations; it++ {
 		for k, v := range c.crossed(cur.lines) {
 			constrained[k] = constrained[k] || v
@@ -154,7 +158,7 @@ func Calibrate(m *reservoir.Model, o Options) (*Result, error) {
 		}
 		accepted := false
 		for half := 0; half < 4; half++ {
-			f := math.Pow(0.5, float64(half))
+			f := factor * math.Pow(0.5, float64(half))
 			x := slices.Clone(cur.x)
 			for i, k := range free {
 				x[k] = math.Min(hi, math.Max(lo, x[k]+f*delta[i]))
@@ -165,6 +169,14 @@ func Calibrate(m *reservoir.Model, o Options) (*Result, error) {
 			}
 			if misfit(next) <= misfit(cur) {
 				cur, accepted = next, true
+				// The next iteration starts from the step that worked,
+				// doubled after a full step (at most 1): a trust region of
+				// step lengths (Nocedal and Wright 2006, chapter 4).
+				if half == 0 {
+					factor = math.Min(1, 2*f)
+				} else {
+					factor = f
+				}
 				break
 			}
 			c.logf("iteration %d: step %g raises the misfit (%.4g days from %.4g); halving", it, f, misfit(next), misfit(cur))
@@ -192,6 +204,7 @@ func Calibrate(m *reservoir.Model, o Options) (*Result, error) {
 		res.Producers = append(res.Producers, pm)
 	}
 	res.Warnings = c.warnings
+	res.ForwardRuns = c.runs
 	return res, nil
 }
 

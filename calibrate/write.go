@@ -81,7 +81,7 @@ func (r *Result) Summary() *Summary {
 		KeepNearWells: append([]string{}, st.KeepNearWells...), Radius: runfolder.Float(st.Radius), Wells: append([]string{}, st.Wells...)}
 	s.Iterations = len(r.Iterations) - 1
 	last := r.Iterations[len(r.Iterations)-1]
-	s.Forward = last.ForwardRuns
+	s.Forward = r.ForwardRuns
 	s.Misfit.Before, s.Misfit.After = runfolder.Float(r.Iterations[0].TravelTimeMisfit), runfolder.Float(last.TravelTimeMisfit)
 	s.WaterCutRMS.Before, s.WaterCutRMS.After = runfolder.Float(r.Iterations[0].WaterCutRMS), runfolder.Float(last.WaterCutRMS)
 	for _, p := range r.Producers {
