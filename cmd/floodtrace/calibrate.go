@@ -17,6 +17,8 @@ var calibrateFlags struct {
 	force       bool
 	streamlines int
 	workers     int
+	pictures    string
+	size        string
 	quiet       bool
 }
 
@@ -40,8 +42,10 @@ iterations, damping, smoothness, min_multiplier, max_multiplier,
 keep_near_wells with radius, and wells.
 
 DIR receives perm_calibrated.asc (and perm_y_calibrated.asc when the case gives
-rock.perm_y), case_calibrated.yaml (ready for floodtrace run), calibration.csv
-and calibration.json.
+rock.perm_y), case_calibrated.yaml (ready for floodtrace run), calibration.csv,
+calibration.json and pictures: the given and calibrated maps, the change (a
+diverging scale centred on 1), the misfit against iteration and each producer's
+water cut observed, with the given map and calibrated.
 
 Examples:
   floodtrace calibrate case.yaml --out runs/calibrated
@@ -53,6 +57,8 @@ Examples:
 			fs.BoolVar(&calibrateFlags.force, "force", false, "write into a folder that holds other files (they are left alone)")
 			fs.IntVar(&calibrateFlags.streamlines, "streamlines", 0, "number of streamlines (default: the case's run.streamlines)")
 			fs.IntVar(&calibrateFlags.workers, "workers", 0, "threads of each forward run (default: all cores; results do not depend on it)")
+			fs.StringVar(&calibrateFlags.pictures, "pictures", "all", "all or none")
+			fs.StringVar(&calibrateFlags.size, "size", "1600x1000", "picture size WxH")
 			fs.BoolVarP(&calibrateFlags.quiet, "quiet", "q", false, "print nothing but errors")
 		},
 		Run: runCalibrate,
@@ -66,6 +72,13 @@ func runCalibrate(args []string) error {
 	}
 	if f.iterations < 0 || f.iterations > 1000 {
 		return usageError{fmt.Sprintf("--iterations must be between 1 and 1000, not %d", f.iterations)}
+	}
+	if f.pictures != "all" && f.pictures != "none" {
+		return usageError{fmt.Sprintf("--pictures must be all or none, not %q", f.pictures)}
+	}
+	w, h, err := parseSize(f.size)
+	if err != nil {
+		return usageError{err.Error()}
 	}
 	start := time.Now()
 	logf := func(format string, a ...any) {
@@ -88,6 +101,13 @@ func runCalibrate(args []string) error {
 	if err := res.Write(d, f.out); err != nil {
 		return err
 	}
+	if f.pictures == "all" {
+		files, err := drawCalibration(f.out, res, m.PermEast, w, h)
+		if err != nil {
+			return fmt.Errorf("drawing pictures: %w", err)
+		}
+		d.Adopt(files...)
+	}
 	if err := d.Close(); err != nil {
 		return err
 	}
@@ -99,7 +119,7 @@ func runCalibrate(args []string) error {
 
 func printCalibration(r *calibrate.Result) {
 	first, last := r.Iterations[0], r.Iterations[len(r.Iterations)-1]
-	fmt.Fprintf(stdout, "\n%s: calibrated in %d iteration(s), %d forward runs, %.1f s\n", r.Calibrated.Title, len(r.Iterations)-1, last.ForwardRuns, last.Seconds)
+	fmt.Fprintf(stdout, "\n%s: calibrated in %d iteration(s), %d forward runs, %.1f s\n", r.Calibrated.Title, len(r.Iterations)-1, r.ForwardRuns, last.Seconds)
 	fmt.Fprintf(stdout, "travel-time misfit %.1f -> %.1f days; water-cut RMS %.3f -> %.3f\n", first.TravelTimeMisfit, last.TravelTimeMisfit, first.WaterCutRMS, last.WaterCutRMS)
 	fmt.Fprintf(stdout, "%-10s %12s %12s %10s %10s\n", "producer", "shift before", "shift after", "wc before", "wc after")
 	for _, p := range r.Producers {

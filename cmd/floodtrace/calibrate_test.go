@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"floodtrace/flood"
+	"floodtrace/render"
 	"floodtrace/reservoir"
 	"floodtrace/runfolder"
 )
@@ -118,7 +119,7 @@ func TestCalibrateCommand(t *testing.T) {
 	path := calibrationCase(t)
 	outs := []string{filepath.Join(t.TempDir(), "a"), filepath.Join(t.TempDir(), "b")}
 	for _, out := range outs {
-		if code, _, errOut := run(t, "calibrate", path, "--out", out, "-q"); code != 0 {
+		if code, _, errOut := run(t, "calibrate", path, "--out", out, "-q", "--size", "800x500"); code != 0 {
 			t.Fatalf("calibrate: exit %d: %s", code, errOut)
 		}
 	}
@@ -130,6 +131,12 @@ func TestCalibrateCommand(t *testing.T) {
 		}
 		if !bytes.Equal(a, b) {
 			t.Errorf("%s differs between two calibrations", name)
+		}
+	}
+	for _, name := range []string{render.CalibrationPriorMap, render.CalibrationCalibratedMap, render.CalibrationChangeMap, render.CalibrationMisfitChart,
+		render.CalibrationWaterCutChart(0, "P-1"), render.CalibrationWaterCutChart(1, "P-2")} {
+		if st, err := os.Stat(filepath.Join(outs[0], name)); err != nil || st.Size() == 0 {
+			t.Errorf("picture %s: %v", name, err)
 		}
 	}
 	prior, err := reservoir.Load(path)
