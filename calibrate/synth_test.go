@@ -240,3 +240,37 @@ func checkOutputs(t *testing.T, res *Result, out string) {
 		t.Errorf("calibration.json: %d producers, %d constrained cells, misfit %v -> %v", len(s.Producers), s.Constrained.Cells, s.Misfit.Before, s.Misfit.After)
 	}
 }
+
+// TestUnconstrainedCellsKeepTheMap: matching P-1 alone, the cells that no
+// streamline reaching P-1 crosses keep the given permeability exactly,
+// and some cells are such (issue 16: no change where no streamline
+// carries information).
+func TestUnconstrainedCellsKeepTheMap(t *testing.T) {
+	dir := t.TempDir()
+	truth, mean := truthRun(t, dir)
+	writeHistory(t, truth, filepath.Join(dir, "history.csv"))
+	m := load(t, dir, synthCase(mean, "history: {file: history.csv, drive: controls}\ncalibration: {iterations: 2, wells: [P-1]}\n"))
+	res, err := Calibrate(m, Options{Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Producers) != 1 || res.Producers[0].Name != "P-1" {
+		t.Fatalf("matched %v, want P-1 alone", res.Producers)
+	}
+	free, changed := 0, 0
+	for k, v := range res.LogMultiplier {
+		if v != 0 {
+			changed++
+		}
+		if !res.Constrained[k] {
+			free++
+			if v != 0 || res.Calibrated.PermEast[k] != m.PermEast[k] {
+				t.Fatalf("cell %d, crossed by no streamline to P-1, has multiplier %g", k, math.Exp(v))
+			}
+		}
+	}
+	t.Logf("%d cells changed, %d of %d not constrained", changed, free, len(res.LogMultiplier))
+	if free == 0 || changed == 0 {
+		t.Errorf("%d unconstrained and %d changed cells: the check says nothing", free, changed)
+	}
+}

@@ -114,12 +114,14 @@ run: {end: 2000, report_every: 20, streamlines: 300}
 // TestCalibrateCommand: the folder holds both calibrated maps and a case
 // that runs; the cells kept near I-1 keep the prior (without
 // keep_near_wells five of them change); a second calibration gives the
-// same maps and calibration.json (deterministic).
+// same maps and calibration.json with another number of workers
+// (deterministic).
 func TestCalibrateCommand(t *testing.T) {
 	path := calibrationCase(t)
 	outs := []string{filepath.Join(t.TempDir(), "a"), filepath.Join(t.TempDir(), "b")}
-	for _, out := range outs {
-		if code, _, errOut := run(t, "calibrate", path, "--out", out, "-q", "--size", "800x500"); code != 0 {
+	for k, out := range outs {
+		workers := []string{"1", "2"}[k]
+		if code, _, errOut := run(t, "calibrate", path, "--out", out, "-q", "--size", "800x500", "--workers", workers); code != 0 {
 			t.Fatalf("calibrate: exit %d: %s", code, errOut)
 		}
 	}
