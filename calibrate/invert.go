@@ -476,6 +476,9 @@ func (c *calib) step(s *state, free []int) ([]float64, error) {
 	rhs := []float64{}
 	for p, w := range c.wells {
 		row := s.lines.ShiftRow(w, c.window)
+		if c.rateHeld(w) {
+			row = s.lines.RateShiftRow(w)
+		}
 		keys := make([]int, 0, len(row))
 		for k := range row {
 			keys = append(keys, k)
@@ -532,4 +535,14 @@ func (c *calib) step(s *state, free []int) ([]float64, error) {
 	}
 	x, _, err := LSQR(Stack{Blocks: blocks, Weights: weights}, rhs, LSQRSettings{ATol: 1e-8, BTol: 1e-8, MaxIter: 500})
 	return x, err
+}
+
+// rateHeld reports whether producer w is held at a rate over the
+// history: driven by its observed rates (history drive: rates), or on
+// rate control in the case.
+func (c *calib) rateHeld(w int) bool {
+	if c.m.History.Drive == reservoir.DriveRates {
+		return true
+	}
+	return c.m.Wells[w].Control == reservoir.RateControl
 }

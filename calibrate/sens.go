@@ -3,6 +3,7 @@ package calibrate
 import (
 	"fmt"
 	"math"
+	"sort"
 
 	"floodtrace/flood"
 	"floodtrace/pressure"
@@ -143,6 +144,59 @@ func (ls *Lines) ShiftRow(w int, window float64) map[int]float64 {
 	row := map[int]float64{}
 	for _, i := range use {
 		ls.addLine(row, i, ls.Trace.Lines[i].Flux/sum)
+	}
+	return row
+}
+
+// RateShiftRow is ShiftRow for a producer held at its rate. The pore
+// volume it drains per unit of rate (the flux-weighted sum of its lines'
+// times of flight) is then held to first order, so each line's time of
+// flight changes by - tau_cell + tau_line S_cell, S_cell the share of the
+// producer's flux-weighted time of flight spent in the cell: the
+// fixed-pressure sensitivity projected so that scaling every cell changes
+// nothing, as it does not at fixed rates. The flux-weighted mean arrival
+// of all the producer's lines is then fixed too, so the row is the mean
+// over the fastest lines carrying a third of its flux, those whose water
+// makes the rise of the water cut. An approximation of this package, not
+// of the references.
+func (ls *Lines) RateShiftRow(w int) map[int]float64 {
+	sg := ls.Seg
+	var all []int
+	share := map[int]float64{}
+	var vol, q float64
+	for i := range ls.Trace.Lines {
+		l := &ls.Trace.Lines[i]
+		if l.Producer != w || l.Injector < 0 || !(l.Flux > 0) {
+			continue
+		}
+		all = append(all, i)
+		vol += l.Flux * sg.Total[i]
+		q += l.Flux
+		for s := sg.Start[i]; s < sg.Start[i+1]; s++ {
+			share[int(sg.Cell[s])] += l.Flux * (sg.Exit[s] - sg.Entry[s])
+		}
+	}
+	if len(all) == 0 || !(vol > 0) {
+		return nil
+	}
+	sort.SliceStable(all, func(a, b int) bool { return sg.Total[all[a]] < sg.Total[all[b]] })
+	var use []int
+	var useQ, useTau float64
+	for _, i := range all {
+		if useQ >= q/3 {
+			break
+		}
+		use = append(use, i)
+		useQ += ls.Trace.Lines[i].Flux
+		useTau += ls.Trace.Lines[i].Flux * sg.Total[i]
+	}
+	row := map[int]float64{}
+	for _, i := range use {
+		ls.addLine(row, i, ls.Trace.Lines[i].Flux/useQ)
+	}
+	mean := useTau / useQ / ls.Front
+	for c, v := range share {
+		row[c] += mean * v / vol
 	}
 	return row
 }

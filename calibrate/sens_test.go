@@ -1,9 +1,11 @@
 package calibrate
 
 import (
+	"cmp"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"testing"
 
 	"floodtrace/flood"
@@ -178,5 +180,77 @@ func TestArrivalSensitivityRateControls(t *testing.T) {
 	t.Logf("analytic %.4g, finite difference %.4g days, ratio %.2f", analytic, fd, ratio)
 	if !(ratio >= 1 && ratio < 3) {
 		t.Errorf("analytic %g, finite difference %g: ratio %g outside [1, 3)", analytic, fd, ratio)
+	}
+}
+
+// fastThirdArrival is the quantity RateShiftRow differentiates: the
+// flux-weighted mean arrival of the fastest lines carrying a third of
+// well w's flux.
+func fastThirdArrival(ls *Lines, w int) float64 {
+	type la struct{ q, t float64 }
+	var all []la
+	q := 0.0
+	for i := range ls.Trace.Lines {
+		l := &ls.Trace.Lines[i]
+		if l.Producer == w && l.Injector >= 0 && l.Flux > 0 {
+			all = append(all, la{l.Flux, ls.Seg.Total[i]})
+			q += l.Flux
+		}
+	}
+	slices.SortStableFunc(all, func(a, b la) int { return cmp.Compare(a.t, b.t) })
+	var uq, ut float64
+	for _, x := range all {
+		if uq >= q/3 {
+			break
+		}
+		uq += x.q
+		ut += x.q * x.t
+	}
+	return ut / uq / ls.Front
+}
+
+// TestRateShiftRowFiniteDifference holds the rate-controlled row against
+// finite differences of two streamline traces (central, ε = 0.05): every
+// cell scaled changes nothing at fixed rates (exact: the row sums to 0),
+// and the cells of the fastest line (measured 6.5 %; the fixed-pressure
+// row is off by a factor two there).
+func TestRateShiftRowFiniteDifference(t *testing.T) {
+	const eps = 0.05
+	m := smallCase(t, "  - {name: I, type: injector, x: 60, y: 60, rate: 400}\n  - {name: P, type: producer, x: 900, y: 420, rate: 400}\n")
+	ls, err := TraceModel(m, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := m.WellIndex("P")
+	row := ls.RateShiftRow(w)
+	total := 0.0
+	for _, v := range row {
+		total += v
+	}
+	base := fastThirdArrival(ls, w)
+	// Round-off of a sum of a few hundred terms of size ~base.
+	if math.Abs(total) > 1e-9*base {
+		t.Errorf("row sums to %g days, want 0 (uniform scaling at fixed rates)", total)
+	}
+	set := map[int]bool{}
+	for k := range ls.ArrivalRow(w) {
+		set[k] = true
+	}
+	analytic := 0.0
+	for k := range set {
+		analytic += row[k]
+	}
+	at := func(f float64) float64 {
+		l, err := TraceModel(scaled(m, set, f), 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return fastThirdArrival(l, w)
+	}
+	fd := (at(math.Exp(eps)) - at(math.Exp(-eps))) / (2 * eps)
+	rel := math.Abs(fd-analytic) / math.Abs(fd)
+	t.Logf("fastest line's cells: analytic %.4g days, finite difference %.4g days, relative difference %.2g", analytic, fd, rel)
+	if rel > 0.2 {
+		t.Errorf("analytic %g, finite difference %g", analytic, fd)
 	}
 }
