@@ -122,6 +122,11 @@ func Calibrate(m *reservoir.Model, o Options) (*Result, error) {
 		set.Iterations = o.Iterations
 	}
 	c := &calib{m: m, set: set, opt: o, window: m.History.End(), started: time.Now()}
+	for _, name := range set.KeepNearWells {
+		if m.WellIndex(name) < 0 {
+			return nil, &reservoir.InputError{Path: m.Path, Msg: fmt.Sprintf("calibration.keep_near_wells: no well %q in the case", name)}
+		}
+	}
 	if err := c.chooseWells(); err != nil {
 		return nil, err
 	}
