@@ -71,7 +71,7 @@ func runCalibrate(args []string) error {
 		return usageError{"--out DIR is required"}
 	}
 	if f.iterations < 0 || f.iterations > 1000 {
-		return usageError{fmt.Sprintf("--iterations must be between 1 and 1000, not %d", f.iterations)}
+		return usageError{fmt.Sprintf("--iterations must be between 1 and 1000 (0: the case's), not %d", f.iterations)}
 	}
 	if f.pictures != "all" && f.pictures != "none" {
 		return usageError{fmt.Sprintf("--pictures must be all or none, not %q", f.pictures)}
