@@ -149,6 +149,21 @@ func (r *Result) Summary() *Summary {
 // stay as the user wrote them; map, table, history, wells and faults file
 // paths, relative to the case file, are rewritten relative to outDir so that the copy runs from there.
 func BalancedCase(src []byte, casePath, outDir string, rates map[string]float64) ([]byte, error) {
+	return editCase(src, casePath, outDir, rates, nil)
+}
+
+// CaseWithRock returns the case file src (read from casePath) for a copy
+// written into outDir, as BalancedCase does, with the rock keys named in
+// rock (perm, perm_y, ...) given the new text (a path relative to outDir
+// or a number) and every other path, the history file's included,
+// rewritten relative to outDir. floodtrace calibrate writes
+// case_calibrated.yaml with it.
+func CaseWithRock(src []byte, casePath, outDir string, rock map[string]string) ([]byte, error) {
+	return editCase(src, casePath, outDir, nil, rock)
+}
+
+// editCase is BalancedCase and CaseWithRock.
+func editCase(src []byte, casePath, outDir string, rates map[string]float64, rock map[string]string) ([]byte, error) {
 	root, perr := yamldoc.Parse(src)
 	if perr != nil {
 		return nil, &reservoir.InputError{Path: casePath, Line: perr.Line, Msg: perr.Msg}
@@ -187,8 +202,16 @@ func BalancedCase(src []byte, casePath, outDir string, rates map[string]float64)
 			edits = append(edits, edit{n: v.n, text: np})
 		}
 	}
+	rm := mapping(top["rock"].get())
 	for _, k := range []string{"perm", "perm_y", "porosity", "thickness", "active"} {
-		relocate(mapping(top["rock"].get())[k])
+		if text, ok := rock[k]; ok {
+			if v := rm[k]; v != nil && v.n.Kind == yaml.ScalarNode {
+				edits = append(edits, edit{n: v.n, text: text})
+				continue
+			}
+			return nil, &reservoir.InputError{Path: casePath, Msg: fmt.Sprintf("rock.%s is not written as a single value; the copy cannot point it at %s", k, text)}
+		}
+		relocate(rm[k])
 	}
 	relocate(mapping(top["relperm"].get())["table"])
 	relocate(mapping(top["history"].get())["file"])

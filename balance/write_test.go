@@ -96,3 +96,21 @@ run: {end: 100}
 		t.Errorf("loaded rates %g, %g, min_rate %g, perm %g", m.Wells[0].Rate, m.Wells[1].Rate, m.Wells[0].MinRate, m.PermEast[0])
 	}
 }
+
+// TestCaseWithRock: the named rock keys get the new text, the other paths
+// (the history file's included) are rewritten relative to the output
+// folder, comments and layout stay.
+func TestCaseWithRock(t *testing.T) {
+	src := []byte("# a comment\nrock:\n  perm: maps/k.asc   # md\n  perm_y: \"maps/ky.asc\"\n  porosity: maps/phi.asc\nhistory: {file: hist/h.csv, drive: rates}\n")
+	out, err := CaseWithRock(src, "/data/case/case.yaml", "/data/case/runs/cal", map[string]string{"perm": "perm_calibrated.asc", "perm_y": "perm_y_calibrated.asc"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "# a comment\nrock:\n  perm: perm_calibrated.asc   # md\n  perm_y: \"perm_y_calibrated.asc\"\n  porosity: ../../maps/phi.asc\nhistory: {file: ../../hist/h.csv, drive: rates}\n"
+	if string(out) != want {
+		t.Errorf("got\n%s\nwant\n%s", out, want)
+	}
+	if _, err := CaseWithRock([]byte("rock:\n  perm: {file: k.asc}\n"), "c.yaml", "out", map[string]string{"perm": "x.asc"}); err == nil {
+		t.Error("a rock.perm that is not a single value was edited")
+	}
+}

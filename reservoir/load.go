@@ -105,6 +105,7 @@ type decoder struct {
 	units        UnitSystem // of the case, once read
 	warns        []string   // warnings, in the order found
 	start        time.Time  // start_date (day 0), zero when not given
+	calib        *calibrationNodes
 }
 
 // propSpec is a rock property given as a number or a map path.
@@ -198,6 +199,9 @@ func (d *decoder) decode(data []byte) (*Model, error) {
 	if err := d.loadHistory(m); err != nil {
 		return nil, err
 	}
+	if err := d.checkCalibration(m); err != nil {
+		return nil, err
+	}
 	m.Warnings = d.warns
 	return m, nil
 }
@@ -213,7 +217,7 @@ func firstInvalidUTF8(b []byte) int {
 	return len(b)
 }
 
-var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history"}
+var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history", "calibration"}
 
 // firstPass reads every section of the YAML into the model without
 // touching map files or allocating per-cell arrays (except the relative
@@ -303,6 +307,9 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	}
 	if top.has("history") {
 		d.readHistorySpec(m, top)
+	}
+	if top.has("calibration") {
+		d.readCalibration(m, top)
 	}
 	return rc
 }

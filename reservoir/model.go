@@ -330,6 +330,9 @@ type Model struct {
 	// History is the case's production history (history:), nil when
 	// none.
 	History *History
+	// Calibration holds the settings of floodtrace calibrate
+	// (calibration:), nil when the case gives none.
+	Calibration *Calibration
 
 	// Warnings are the problems Load found that do not stop a run (values
 	// outside their usual range, cells made inactive by NODATA, ...), each
