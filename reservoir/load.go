@@ -204,7 +204,7 @@ func firstInvalidUTF8(b []byte) int {
 	return len(b)
 }
 
-var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history"}
+var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history", "value"}
 
 // firstPass reads every section of the YAML into the model without
 // touching map files or allocating per-cell arrays (except the relative
@@ -294,6 +294,9 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	}
 	if top.has("history") {
 		d.readHistorySpec(m, top)
+	}
+	if top.has("value") {
+		d.readValue(m, top)
 	}
 	return rc
 }

@@ -316,6 +316,9 @@ type Model struct {
 	// History is the case's production history (history:), nil when
 	// none.
 	History *History
+	// Value prices the flood for floodtrace balance --objective value
+	// (value:), nil when the case gives none.
+	Value *Economics
 
 	// Warnings are the problems Load found that do not stop a run (values
 	// outside their usual range, cells made inactive by NODATA, ...), each

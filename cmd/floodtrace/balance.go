@@ -143,12 +143,13 @@ func printBalance(r *balance.Result) {
 		fmt.Fprintf(stdout, "%-10s %12.1f %12.1f %+10.1f %10.3f %10.3f  %s\n", in.Name, in.RateNow, in.RateRecommended, in.RateRecommended-in.RateNow,
 			in.EfficiencyNow, in.EfficiencyRecommended, in.Limit)
 	}
+	what, amount := objectiveWords(r, vol)
 	gain := r.Recommended.Objective - r.Now.Objective
 	if r.Improved {
-		fmt.Fprintf(stdout, "oil at day %g: %.0f %s now, %.0f recommended (%+.0f, %+.2f%%); total injection %.1f -> %.1f %s\n", r.Horizon,
-			r.Now.Objective, vol, r.Recommended.Objective, gain, 100*gain/r.Now.Objective, r.TotalNow, r.TotalRecommended, rate)
+		fmt.Fprintf(stdout, "%s: %s now, %.0f recommended (%+.0f%s); total injection %.1f -> %.1f %s\n", what,
+			amount(r.Now.Objective), r.Recommended.Objective, gain, percent(r.Now.Objective, r.Recommended.Objective), r.TotalNow, r.TotalRecommended, rate)
 	} else {
-		fmt.Fprintf(stdout, "no rates found that beat the current ones (oil at day %g: %.0f %s); keep the current rates\n", r.Horizon, r.Now.Objective, vol)
+		fmt.Fprintf(stdout, "no rates found that beat the current ones (%s: %s); keep the current rates\n", what, amount(r.Now.Objective))
 	}
 	for _, p := range r.Flagged {
 		fmt.Fprintf(stdout, "FLAG: producer %s mostly cycles water (oil %.3f of the water reaching it), fed by %v: a candidate for a rate cut, a shut-in or a conformance job\n", p.Name, p.Efficiency, p.Injectors)
