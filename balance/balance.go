@@ -143,8 +143,8 @@ type Result struct {
 	// HistoryEnd is the end of the case's history (days), where the
 	// forecasts' rates start; 0 without a history.
 	HistoryEnd float64
-	FreeTotal bool
-	Now       *Forecast
+	FreeTotal  bool
+	Now        *Forecast
 	// Recommended is the best forecast found; it is Now when nothing beat
 	// the current rates (Improved false).
 	Recommended                *Forecast

@@ -75,7 +75,10 @@ type Summary struct {
 		Recommended runfolder.Float `json:"recommended"`
 		Improved    bool            `json:"improved"`
 	} `json:"objective"`
-	HorizonDays    runfolder.Float `json:"horizon_days"`
+	HorizonDays runfolder.Float `json:"horizon_days"`
+	// HistoryEndDays is the end of the case's history, where the rates
+	// set start; absent without a history.
+	HistoryEndDays *runfolder.Float `json:"history_end_days,omitempty"`
 	TotalInjection struct {
 		Now         runfolder.Float `json:"now"`
 		Recommended runfolder.Float `json:"recommended"`
@@ -122,6 +125,10 @@ func (r *Result) Summary() *Summary {
 	F := func(v float64) runfolder.Float { return runfolder.Float(v) }
 	s := &Summary{HorizonDays: F(r.Horizon), ActiveLimits: []ActiveLimit{}, FlaggedProducers: []FlaggedJSON{}}
 	s.Objective.Name = string(r.Objective)
+	if r.HistoryEnd > 0 {
+		h := F(r.HistoryEnd)
+		s.HistoryEndDays = &h
+	}
 	s.Objective.Now, s.Objective.Recommended, s.Objective.Improved = F(r.Now.Objective), F(r.Recommended.Objective), r.Improved
 	s.TotalInjection.Now, s.TotalInjection.Recommended, s.TotalInjection.Held = F(r.TotalNow), F(r.TotalRecommended), !r.FreeTotal
 	for _, in := range r.Injectors {
@@ -191,6 +198,8 @@ func BalancedCase(src []byte, casePath, outDir string, rates map[string]float64)
 		relocate(mapping(top["rock"].get())[k])
 	}
 	relocate(mapping(top["relperm"].get())["table"])
+	relocate(mapping(top["history"].get())["file"])
+	relocate(top["faults"])
 	return splice(src, edits)
 }
 
