@@ -94,6 +94,10 @@ type Forecast struct {
 	Run       *flood.Result
 	// Eff is the pair and injector efficiency over the horizon.
 	Eff *flood.Efficiencies
+	// AtMaxRate names the producers held at their max_rate (liquid
+	// limit) in some solve of the forecast (after the end of the history),
+	// in the order of the case.
+	AtMaxRate []string
 	// names are the adjustable injectors, in the order of Rates.
 	names []string
 }
@@ -418,6 +422,17 @@ func (f *forecaster) run(rates []float64) (*Forecast, error) {
 	}
 	out := &Forecast{Rates: append([]float64(nil), rates...), Run: r, Objective: obj, Eff: r.Efficiencies(f.hend, f.s.Horizon),
 		Achieved: make([]float64, len(rates)), AtMaxBHP: make([]bool, len(rates)), MaxBHP: make([]float64, len(rates))}
+	held := map[string]bool{}
+	for _, w := range r.WellLog {
+		if w.Type == reservoir.Producer && w.Control == reservoir.RateControl && w.Time >= f.hend {
+			held[w.Well] = true
+		}
+	}
+	for _, w := range f.m.Wells {
+		if w.Type == reservoir.Producer && w.MaxRate > 0 && w.Control == reservoir.BHPControl && held[w.Name] {
+			out.AtMaxRate = append(out.AtMaxRate, w.Name)
+		}
+	}
 	for j, k := range f.adj {
 		name := f.inj[k].Name
 		out.names = append(out.names, name)

@@ -85,7 +85,10 @@ type Summary struct {
 		Held        bool            `json:"held"`
 	} `json:"total_injection"`
 	ActiveLimits []ActiveLimit `json:"active_limits"`
-	Method       struct {
+	// ProducersAtMaxRate names the producers held at their max_rate in
+	// the recommended forecast; absent when none is.
+	ProducersAtMaxRate []string `json:"producers_at_max_rate,omitempty"`
+	Method             struct {
 		Name         string          `json:"name"`
 		Exponent     runfolder.Float `json:"exponent"`
 		MaxStep      runfolder.Float `json:"max_step"`
@@ -125,6 +128,7 @@ func (r *Result) Summary() *Summary {
 	F := func(v float64) runfolder.Float { return runfolder.Float(v) }
 	s := &Summary{HorizonDays: F(r.Horizon), ActiveLimits: []ActiveLimit{}, FlaggedProducers: []FlaggedJSON{}}
 	s.Objective.Name = string(r.Objective)
+	s.ProducersAtMaxRate = r.Recommended.AtMaxRate
 	if r.HistoryEnd > 0 {
 		h := F(r.HistoryEnd)
 		s.HistoryEndDays = &h

@@ -168,7 +168,9 @@ type Well struct {
 	MaxBHP float64
 	MinBHP float64
 	// MinRate and MaxRate bound the rate floodtrace balance may give an
-	// injector (0 = no bound given); a run does not use them.
+	// injector (0 = no bound given); a run does not use them. A producer
+	// on BHP control may give MaxRate, its liquid limit (reservoir volume
+	// per day), which every pressure solve honours (pressure.Solve).
 	MinRate, MaxRate float64
 	Radius           float64
 	Skin             float64

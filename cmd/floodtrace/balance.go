@@ -151,6 +151,9 @@ func printBalance(r *balance.Result) {
 	} else {
 		fmt.Fprintf(stdout, "no rates found that beat the current ones (%s: %s); keep the current rates\n", what, amount(r.Now.Objective))
 	}
+	for _, p := range r.Recommended.AtMaxRate {
+		fmt.Fprintf(stdout, "producer %s is held at its max_rate (liquid limit) in the recommended forecast\n", p)
+	}
 	for _, p := range r.Flagged {
 		fmt.Fprintf(stdout, "FLAG: producer %s mostly cycles water (oil %.3f of the water reaching it), fed by %v: a candidate for a rate cut, a shut-in or a conformance job\n", p.Name, p.Efficiency, p.Injectors)
 	}
