@@ -48,6 +48,12 @@ below 0.05 of the water reaching them by the horizon at the current rates are
 flagged with the injectors that feed
 them (candidates for a rate cut, a shut-in or a conformance job).
 
+--objective value balances for the discounted value of the case's value block
+(value: {oil_price, water_cost, injection_cost, discount_rate}) instead of the
+oil. With a history the forecasts run the history as a run does and the rates
+apply from its end; the horizon must be after it. A producer's max_rate (its
+liquid limit on bhp control) holds in every forecast.
+
 DIR receives balance.csv, balance.json, balance_forecast.csv,
 case_balanced.yaml (the case as written with the recommended rates, ready to
 run) and pictures.
@@ -60,7 +66,7 @@ Examples:
 		Flags: func(fs *pflag.FlagSet) {
 			fs.StringVarP(&balanceFlags.out, "out", "o", "", "output folder (required)")
 			fs.Float64Var(&balanceFlags.horizon, "horizon", 0, "forecast horizon in days (default: the case's run.end)")
-			fs.StringVar(&balanceFlags.objective, "objective", "oil", "oil (cumulative oil at the horizon) or value (needs a value block)")
+			fs.StringVar(&balanceFlags.objective, "objective", "oil", "oil (oil recovered by the horizon) or value (discounted value of the case's value block)")
 			fs.StringVar(&balanceFlags.total, "total", "same", "same (hold the total injection) or free (let it change within the limits)")
 			fs.BoolVar(&balanceFlags.force, "force", false, "write into a folder that holds other files (they are left alone)")
 			fs.IntVar(&balanceFlags.streamlines, "streamlines", 0, "number of streamlines (default: the case's run.streamlines)")
