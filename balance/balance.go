@@ -348,8 +348,8 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	for k := range res.Injectors {
 		in := &res.Injectors[k]
 		if !in.Adjustable {
-			in.RateNow = cur.Run.InjectorRate(in.Name)
-			in.RateRecommended = best.Run.InjectorRate(in.Name)
+			in.RateNow = rateFrom(cur.Run, in.Name, hend)
+			in.RateRecommended = rateFrom(best.Run, in.Name, hend)
 		}
 		in.EfficiencyNow = injectorEfficiency(cur.Eff, in.Name)
 		in.EfficiencyRecommended = injectorEfficiency(best.Eff, in.Name)
@@ -692,4 +692,20 @@ func at(t, y []float64, x float64) float64 {
 		t0, y0 = t[k], y[k]
 	}
 	return y0
+}
+
+// rateFrom is the rate of well name at the start of the forecast: at day
+// 0 (flood.Result.InjectorRate) or, after a history, at its end (the last
+// well-log record at or before it).
+func rateFrom(r *flood.Result, name string, from float64) float64 {
+	if from == 0 {
+		return r.InjectorRate(name)
+	}
+	q := r.InjectorRate(name)
+	for _, w := range r.WellLog {
+		if w.Well == name && w.Time <= from {
+			q = w.Rate
+		}
+	}
+	return q
 }
