@@ -1,9 +1,11 @@
 package balance
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"floodtrace/flood"
@@ -14,9 +16,11 @@ import (
 // Objective is what balance increases.
 type Objective string
 
-// The objectives: the field's cumulative oil at the horizon, or the
-// discounted value of a value block (oil price, water and injection
-// costs). Case files have no value block yet, so Value is refused.
+// The objectives, both counted from the start of the forecast (day 0, or
+// the end of the case's history) to the horizon: the field's oil
+// recovered, or the discounted value of the case's value block (oil
+// price, produced-water and injection costs, discount rate), see
+// ForecastValue.
 const (
 	Oil   Objective = "oil"
 	Value Objective = "value"
@@ -90,6 +94,10 @@ type Forecast struct {
 	Run       *flood.Result
 	// Eff is the pair and injector efficiency over the horizon.
 	Eff *flood.Efficiencies
+	// AtMaxRate names the producers held at their max_rate (liquid
+	// limit) in some solve of the forecast (after the end of the history),
+	// in the order of the case.
+	AtMaxRate []string
 	// names are the adjustable injectors, in the order of Rates.
 	names []string
 }
@@ -136,8 +144,11 @@ type Result struct {
 	Model     *reservoir.Model
 	Objective Objective
 	Horizon   float64
-	FreeTotal bool
-	Now       *Forecast
+	// HistoryEnd is the end of the case's history (days), where the
+	// forecasts' rates start; 0 without a history.
+	HistoryEnd float64
+	FreeTotal  bool
+	Now        *Forecast
 	// Recommended is the best forecast found; it is Now when nothing beat
 	// the current rates (Improved false).
 	Recommended                *Forecast
@@ -162,7 +173,9 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	switch s.Objective {
 	case Oil:
 	case Value:
-		return nil, &reservoir.InputError{Path: m.Path, Msg: "objective value needs a value block (oil_price, water_cost, injection_cost, discount_rate) and case files have none; balance for oil (--objective oil)"}
+		if m.Value == nil {
+			return nil, &reservoir.InputError{Path: m.Path, Msg: "objective value needs a value block in the case (value: {oil_price, water_cost, injection_cost, discount_rate}); add one or balance for oil (--objective oil)"}
+		}
 	default:
 		return nil, fmt.Errorf("objective %q must be oil or value", s.Objective)
 	}
@@ -171,6 +184,14 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	}
 	if !(s.Horizon > 0) || s.Horizon > 1e5 {
 		return nil, &reservoir.InputError{Path: m.Path, Msg: fmt.Sprintf("horizon %g days must be positive and at most 100000", s.Horizon)}
+	}
+	hend := m.History.End()
+	if hend > 0 && s.Horizon <= hend {
+		when := ""
+		if d := m.PeriodEndDate(hend); d != "" {
+			when = " (" + d + ")"
+		}
+		return nil, &reservoir.InputError{Path: m.Path, Line: m.History.Line, Msg: fmt.Sprintf("horizon %g days is not after the end of the history, day %g%s: balance sets the rates from the end of the history on; give a later --horizon (or a later run.end)", s.Horizon, hend, when)}
 	}
 	if s.Exponent == 0 {
 		s.Exponent = DefaultExponent
@@ -185,7 +206,7 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	if logf == nil {
 		logf = func(string, ...any) {}
 	}
-	res := &Result{Model: m, Objective: s.Objective, Horizon: s.Horizon, FreeTotal: s.FreeTotal, Exponent: s.Exponent, MaxStep: s.MaxStep}
+	res := &Result{Model: m, Objective: s.Objective, Horizon: s.Horizon, HistoryEnd: hend, FreeTotal: s.FreeTotal, Exponent: s.Exponent, MaxStep: s.MaxStep}
 	var adj []int // indices into res.Injectors
 	allRateProducers := true
 	for wi, w := range m.Wells {
@@ -219,9 +240,12 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	}
 	for _, e := range m.Schedule {
 		for _, k := range adj {
-			if e.Well == m.Wells[res.Injectors[k].Well].Name && e.Time < s.Horizon {
-				return nil, &reservoir.WellError{Path: m.Path, Line: e.Line, Well: e.Well,
-					Msg: "has a schedule event before the horizon; balance sets one constant rate per injector: remove the event or balance up to it (--horizon)"}
+			if e.Well == m.Wells[res.Injectors[k].Well].Name && e.Time < s.Horizon && e.Time >= hend {
+				msg := "has a schedule event before the horizon; balance sets one constant rate per injector: remove the event or balance up to it (--horizon)"
+				if hend > 0 {
+					msg = fmt.Sprintf("has a schedule event between the end of the history (day %g) and the horizon; balance sets one constant rate per injector from the end of the history: remove the event or balance up to it (--horizon)", hend)
+				}
+				return nil, &reservoir.WellError{Path: m.Path, Line: e.Line, Well: e.Well, Msg: msg}
 			}
 		}
 	}
@@ -235,7 +259,7 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 		now[j], lo[j], hi[j] = res.Injectors[k].RateNow, res.Injectors[k].Low, res.Injectors[k].High
 	}
 	total := sum(now)
-	fc := &forecaster{m: m, s: s, adj: adj, inj: res.Injectors}
+	fc := &forecaster{m: m, s: s, adj: adj, inj: res.Injectors, hend: hend}
 	cur, err := fc.run(now)
 	if err != nil {
 		return nil, fmt.Errorf("forecast at the current rates: %w", err)
@@ -324,8 +348,8 @@ func Balance(m *reservoir.Model, s Settings) (*Result, error) {
 	for k := range res.Injectors {
 		in := &res.Injectors[k]
 		if !in.Adjustable {
-			in.RateNow = cur.Run.InjectorRate(in.Name)
-			in.RateRecommended = best.Run.InjectorRate(in.Name)
+			in.RateNow = rateFrom(cur.Run, in.Name, hend)
+			in.RateRecommended = rateFrom(best.Run, in.Name, hend)
 		}
 		in.EfficiencyNow = injectorEfficiency(cur.Eff, in.Name)
 		in.EfficiencyRecommended = injectorEfficiency(best.Eff, in.Name)
@@ -343,14 +367,28 @@ type forecaster struct {
 	s   Settings
 	adj []int
 	inj []Injector
+	// hend is the end of the case's history (0 for none): the rates are
+	// set from there on.
+	hend float64
 }
 
 // run forecasts rates (one per adjustable injector).
 func (f *forecaster) run(rates []float64) (*Forecast, error) {
 	mm := *f.m
-	mm.Wells = append([]reservoir.Well(nil), f.m.Wells...)
-	for j, k := range f.adj {
-		mm.Wells[f.inj[k].Well].Rate = rates[j]
+	if f.hend > 0 {
+		// The history drives the wells up to its end (as a run does); the
+		// rates apply from there on, as schedule events at its end listed
+		// after the case's own.
+		mm.Schedule = append([]reservoir.Event(nil), f.m.Schedule...)
+		for j, k := range f.adj {
+			mm.Schedule = append(mm.Schedule, reservoir.Event{Time: f.hend, Well: f.inj[k].Name, Rate: rates[j], BHP: math.NaN(), Line: f.m.History.Line})
+		}
+		slices.SortStableFunc(mm.Schedule, func(a, b reservoir.Event) int { return cmp.Compare(a.Time, b.Time) })
+	} else {
+		mm.Wells = append([]reservoir.Well(nil), f.m.Wells...)
+		for j, k := range f.adj {
+			mm.Wells[f.inj[k].Well].Rate = rates[j]
+		}
 	}
 	mm.Run.End = f.s.Horizon
 	if mm.Run.ReportEvery > mm.Run.End {
@@ -376,14 +414,31 @@ func (f *forecaster) run(rates []float64) (*Forecast, error) {
 	if n == 0 {
 		return nil, fmt.Errorf("forecast has no report time")
 	}
-	out := &Forecast{Rates: append([]float64(nil), rates...), Run: r, Objective: r.FieldCumOil[n-1], Eff: r.Efficiencies(0, f.s.Horizon),
+	obj := r.FieldCumOil[n-1] - at(r.Times, r.FieldCumOil, f.hend)
+	if f.s.Objective == Value {
+		if obj, err = ForecastValue(r, *f.m.Value, f.hend); err != nil {
+			return nil, err
+		}
+	}
+	out := &Forecast{Rates: append([]float64(nil), rates...), Run: r, Objective: obj, Eff: r.Efficiencies(f.hend, f.s.Horizon),
 		Achieved: make([]float64, len(rates)), AtMaxBHP: make([]bool, len(rates)), MaxBHP: make([]float64, len(rates))}
+	held := map[string]bool{}
+	for _, w := range r.WellLog {
+		if w.Type == reservoir.Producer && w.Control == reservoir.RateControl && w.Time >= f.hend {
+			held[w.Well] = true
+		}
+	}
+	for _, w := range f.m.Wells {
+		if w.Type == reservoir.Producer && w.MaxRate > 0 && w.Control == reservoir.BHPControl && held[w.Name] {
+			out.AtMaxRate = append(out.AtMaxRate, w.Name)
+		}
+	}
 	for j, k := range f.adj {
 		name := f.inj[k].Name
 		out.names = append(out.names, name)
 		first := true
 		for _, w := range r.WellLog {
-			if w.Well != name {
+			if w.Well != name || w.Time < f.hend {
 				continue
 			}
 			if first {
@@ -395,7 +450,7 @@ func (f *forecaster) run(rates []float64) (*Forecast, error) {
 			}
 		}
 		for _, in := range r.Injectors {
-			if in.Name == name && in.MaxBHPReached {
+			if in.Name == name && in.MaxBHPReached && f.hend == 0 {
 				out.AtMaxBHP[j] = true
 			}
 		}
@@ -593,4 +648,64 @@ func ratio(a, b float64) float64 {
 		return math.NaN()
 	}
 	return a / b
+}
+
+// ForecastValue is the discounted value of run r from day from (the end
+// of a history, or 0) to its end: the case's economics e priced on the
+// oil, produced water and injected water of each report interval after
+// from (reservoir.Economics.CashFlow, reservoir volumes), discounted to
+// day from. The cumulative volumes at from are interpolated linearly
+// between the report times around it.
+func ForecastValue(r *flood.Result, e reservoir.Economics, from float64) (float64, error) {
+	inj := make([]float64, len(r.PVI))
+	for k := range inj {
+		inj[k] = r.PVI[k] * r.PoreVolume
+	}
+	o0, w0, i0 := at(r.Times, r.FieldCumOil, from), at(r.Times, r.FieldCumWater, from), at(r.Times, inj, from)
+	var t, o, w, q []float64
+	for k, tk := range r.Times {
+		if tk > from {
+			t = append(t, tk-from)
+			o = append(o, r.FieldCumOil[k]-o0)
+			w = append(w, r.FieldCumWater[k]-w0)
+			q = append(q, inj[k]-i0)
+		}
+	}
+	return e.CashFlow(t, o, w, q, 0)
+}
+
+// at interpolates the cumulative curve y at the report times t linearly
+// at time x (0 before the first report, which starts from 0 at day 0; the
+// last value after the last).
+func at(t, y []float64, x float64) float64 {
+	if x <= 0 || len(t) == 0 {
+		return 0
+	}
+	t0, y0 := 0.0, 0.0
+	for k := range t {
+		if t[k] >= x {
+			if t[k] == t0 {
+				return y[k]
+			}
+			return y0 + (y[k]-y0)*(x-t0)/(t[k]-t0)
+		}
+		t0, y0 = t[k], y[k]
+	}
+	return y0
+}
+
+// rateFrom is the rate of well name at the start of the forecast: at day
+// 0 (flood.Result.InjectorRate) or, after a history, at its end (the last
+// well-log record at or before it).
+func rateFrom(r *flood.Result, name string, from float64) float64 {
+	if from == 0 {
+		return r.InjectorRate(name)
+	}
+	q := r.InjectorRate(name)
+	for _, w := range r.WellLog {
+		if w.Well == name && w.Time <= from {
+			q = w.Rate
+		}
+	}
+	return q
 }

@@ -13,6 +13,12 @@
 // the better of the two, if it beats the best rates so far, is kept, and
 // the search repeats while it improves.
 //
+// The objective is the oil recovered by the horizon or the discounted
+// value of the case's value block (reservoir.Economics). With a
+// production history every forecast runs the history as a run does and
+// the rates apply from its end. A producer's liquid limit (max_rate)
+// holds in every forecast, since the pressure solve honours it.
+//
 // The package reads no command line and draws nothing: cmd/floodtrace
 // parses the flags and render draws the pictures from the data of Result.
 package balance

@@ -75,14 +75,20 @@ type Summary struct {
 		Recommended runfolder.Float `json:"recommended"`
 		Improved    bool            `json:"improved"`
 	} `json:"objective"`
-	HorizonDays    runfolder.Float `json:"horizon_days"`
+	HorizonDays runfolder.Float `json:"horizon_days"`
+	// HistoryEndDays is the end of the case's history, where the rates
+	// set start; absent without a history.
+	HistoryEndDays *runfolder.Float `json:"history_end_days,omitempty"`
 	TotalInjection struct {
 		Now         runfolder.Float `json:"now"`
 		Recommended runfolder.Float `json:"recommended"`
 		Held        bool            `json:"held"`
 	} `json:"total_injection"`
 	ActiveLimits []ActiveLimit `json:"active_limits"`
-	Method       struct {
+	// ProducersAtMaxRate names the producers held at their max_rate in
+	// the recommended forecast; absent when none is.
+	ProducersAtMaxRate []string `json:"producers_at_max_rate,omitempty"`
+	Method             struct {
 		Name         string          `json:"name"`
 		Exponent     runfolder.Float `json:"exponent"`
 		MaxStep      runfolder.Float `json:"max_step"`
@@ -122,6 +128,11 @@ func (r *Result) Summary() *Summary {
 	F := func(v float64) runfolder.Float { return runfolder.Float(v) }
 	s := &Summary{HorizonDays: F(r.Horizon), ActiveLimits: []ActiveLimit{}, FlaggedProducers: []FlaggedJSON{}}
 	s.Objective.Name = string(r.Objective)
+	s.ProducersAtMaxRate = r.Recommended.AtMaxRate
+	if r.HistoryEnd > 0 {
+		h := F(r.HistoryEnd)
+		s.HistoryEndDays = &h
+	}
 	s.Objective.Now, s.Objective.Recommended, s.Objective.Improved = F(r.Now.Objective), F(r.Recommended.Objective), r.Improved
 	s.TotalInjection.Now, s.TotalInjection.Recommended, s.TotalInjection.Held = F(r.TotalNow), F(r.TotalRecommended), !r.FreeTotal
 	for _, in := range r.Injectors {

@@ -51,6 +51,9 @@ type WellResult struct {
 	// reservoir.UnitSystem.Atmospheric) and was switched to BHP control;
 	// it stays true when the well was then shut for backflow.
 	LimitReached bool
+	// AtMaxRate is true for a BHP-controlled producer held at its MaxRate
+	// (liquid limit) on rate control in this solve.
+	AtMaxRate bool
 	// Shut is true for a well shut in by the case or the schedule (Q = 0).
 	Shut bool
 	// Backflow is true for an open well that this solve shut because,

@@ -53,6 +53,9 @@ type control struct {
 	target   float64 // BHP under BHP control, else the source rate (positive injection)
 	switched bool    // a rate-controlled well moved to BHP control at its limit
 	backflow bool    // shut for this solve: open, it would flow against its type
+	// capped: a BHP-controlled producer held at its MaxRate (liquid
+	// limit) on rate control.
+	capped bool
 }
 
 // problem is the validated, control-independent part of a solve.

@@ -21,8 +21,10 @@ import (
 // exceed MaxBHP (a producer whose BHP would fall below MinBHP) is put on
 // BHP control at the limit and the system solved again; a switched well
 // whose rate at the limit would exceed its target goes back to rate
-// control. The rounds repeat until no control changes. A rate-controlled
-// producer without MinBHP has a default floor at atmospheric pressure
+// control. A BHP-controlled producer whose production would exceed its
+// MaxRate (a liquid limit) is held at MaxRate on rate control, and goes
+// back to BHP control when that gives less (applyRateCaps). The rounds
+// repeat until no control changes. A rate-controlled producer without MinBHP has a default floor at atmospheric pressure
 // (reservoir.UnitSystem.Atmospheric: 14.7 psi or 1.01325 bar, common
 // practice), applied here at solve time; the model keeps MinBHP 0.
 //
@@ -216,7 +218,48 @@ func (pb *problem) applyLimits(ctl []control, gauged []bool, q, bhp []float64) b
 			changed = true
 		}
 	}
+	return pb.applyRateCaps(ctl, q, bhp) || changed
+}
+
+// applyRateCaps holds a BHP-controlled producer whose production exceeds
+// its MaxRate (a liquid limit) at that rate on rate control, and sends a
+// held producer back to BHP control when at the capped rate its BHP is
+// below its bhp target (BHP control would then produce less than the
+// cap). The last BHP-controlled open well of a region is not held: the
+// region keeps a pressure level and its production stays the injection
+// (a warning in results). It reports whether any control changed.
+func (pb *problem) applyRateCaps(ctl []control, q, bhp []float64) bool {
+	changed := false
+	for w := range pb.wells {
+		wl, c := &pb.wells[w], &ctl[w]
+		if !c.open || wl.Type != reservoir.Producer || wl.Control != reservoir.BHPControl || !(wl.MaxRate > 0) {
+			continue
+		}
+		if c.capped {
+			if bhp[w] < wl.BHP {
+				*c = control{open: true, bhp: true, target: wl.BHP}
+				changed = true
+			}
+			continue
+		}
+		if c.bhp && -q[w] > wl.MaxRate*(1+1e-9) && pb.otherBHPWell(ctl, w) {
+			*c = control{open: true, target: -wl.MaxRate, capped: true}
+			changed = true
+		}
+	}
 	return changed
+}
+
+// otherBHPWell reports whether the region of well w holds another open
+// BHP-controlled well.
+func (pb *problem) otherBHPWell(ctl []control, w int) bool {
+	c := pb.comp[pb.wells[w].Cell]
+	for v := range pb.wells {
+		if v != w && ctl[v].open && ctl[v].bhp && pb.comp[pb.wells[v].Cell] == c {
+			return true
+		}
+	}
+	return false
 }
 
 // minBHP is the lower BHP limit of well w: its MinBHP, or for a producer
@@ -353,6 +396,8 @@ func (pb *problem) keepDriven(ctl []control, c int) {
 			continue
 		}
 		switch {
+		case net < 0 && ctl[w].capped:
+			ctl[w] = control{open: true, bhp: true, target: wl.BHP}
 		case net < 0 && wl.Type == reservoir.Producer:
 			ctl[w] = control{open: true, bhp: true, target: pb.minBHP(w), switched: true}
 		case net > 0 && wl.Type == reservoir.Injector && wl.MaxBHP > 0:
@@ -465,6 +510,14 @@ func (pb *problem) results(sol *Solution, ctl []control, gauged []bool, q, bhp [
 					"well %s: %s reached; switched from rate %.6g to BHP control, rate now %.6g",
 					wl.Name, what, wl.Rate, math.Abs(q[w])))
 			}
+		}
+		if c.capped {
+			r.Control, r.AtMaxRate = reservoir.RateControl, true
+			sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+				"well %s: max_rate %.6g reached; held at it on rate control (its bhp %.6g would give more)", wl.Name, wl.MaxRate, wl.BHP))
+		} else if c.open && c.bhp && !c.switched && wl.Type == reservoir.Producer && wl.MaxRate > 0 && -q[w] > wl.MaxRate*(1+1e-9) {
+			sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+				"well %s: produces %.6g, above its max_rate %.6g: it is the last well on BHP control of its region, which must produce what is injected", wl.Name, -q[w], wl.MaxRate))
 		}
 		if c.backflow {
 			limit := "bhp"

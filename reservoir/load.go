@@ -217,7 +217,7 @@ func firstInvalidUTF8(b []byte) int {
 	return len(b)
 }
 
-var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history", "calibration"}
+var topKeys = []string{"title", "units", "grid", "rock", "fluids", "relperm", "wells", "faults", "schedule", "run", "crs", "start_date", "history", "calibration", "value"}
 
 // firstPass reads every section of the YAML into the model without
 // touching map files or allocating per-cell arrays (except the relative
@@ -310,6 +310,9 @@ func (d *decoder) firstPass(root *yaml.Node) *rawCase {
 	}
 	if top.has("calibration") {
 		d.readCalibration(m, top)
+	}
+	if top.has("value") {
+		d.readValue(m, top)
 	}
 	return rc
 }
@@ -710,17 +713,24 @@ func (d *decoder) readWells(m *Model, top *section) {
 
 // readRateLimits reads an injector's min_rate and max_rate, the range
 // floodtrace balance may set its rate in: both within the accepted rate
-// range, min_rate not above max_rate, and a rate control inside them.
+// range, min_rate not above max_rate, and a rate control inside them; and
+// a BHP-controlled producer's max_rate, its liquid limit.
 func (d *decoder) readRateLimits(s *section, w *Well) {
 	if !s.has("min_rate") && !s.has("max_rate") {
 		return
 	}
 	if w.Type == Producer {
-		key := "min_rate"
-		if !s.has(key) {
-			key = "max_rate"
+		// A producer's max_rate is its liquid limit (reservoir volume per
+		// day), honoured by every pressure solve while it is on BHP
+		// control.
+		switch {
+		case s.has("min_rate"):
+			d.fail(s, s.keys["min_rate"], "min_rate is an injector limit (the range floodtrace balance may set the injection rate in); a producer takes max_rate, its liquid limit")
+		case w.Control == RateControl:
+			d.fail(s, s.keys["max_rate"], "max_rate is the liquid limit of a producer on bhp control; this producer is on rate control: its rate already is its production")
+		default:
+			w.MaxRate = d.limited(s, "max_rate", 0, limRate, positiveRate)
 		}
-		d.fail(s, s.keys[key], "%s is an injector limit (the range floodtrace balance may set the injection rate in); a producer takes bhp or rate", key)
 		return
 	}
 	before := d.nErrs()

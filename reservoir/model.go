@@ -168,7 +168,9 @@ type Well struct {
 	MaxBHP float64
 	MinBHP float64
 	// MinRate and MaxRate bound the rate floodtrace balance may give an
-	// injector (0 = no bound given); a run does not use them.
+	// injector (0 = no bound given); a run does not use them. A producer
+	// on BHP control may give MaxRate, its liquid limit (reservoir volume
+	// per day), which every pressure solve honours (pressure.Solve).
 	MinRate, MaxRate float64
 	Radius           float64
 	Skin             float64
@@ -333,6 +335,9 @@ type Model struct {
 	// Calibration holds the settings of floodtrace calibrate
 	// (calibration:), nil when the case gives none.
 	Calibration *Calibration
+	// Value prices the flood for floodtrace balance --objective value
+	// (value:), nil when the case gives none.
+	Value *Economics
 
 	// Warnings are the problems Load found that do not stop a run (values
 	// outside their usual range, cells made inactive by NODATA, ...), each

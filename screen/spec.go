@@ -90,15 +90,10 @@ type Realization struct {
 	Perm []float64 // one value per cell (the x permeability)
 }
 
-// Economics are the user's numbers for the Value objective. Prices are
-// per unit of reservoir volume of the case (bbl or m3).
-type Economics struct {
-	OilPrice      float64 // per unit of oil produced
-	WaterCost     float64 // per unit of water produced (handling)
-	InjectionCost float64 // per unit of water injected
-	WellCost      float64 // per new well
-	DiscountRate  float64 // per year, e.g. 0.1
-}
+// Economics are the user's numbers for the Value objective (the type of
+// a case's value block, reservoir.Economics, with WellCost per new well).
+// Prices are per unit of reservoir volume of the case (bbl or m3).
+type Economics = reservoir.Economics
 
 var (
 	topKeys     = []string{"base", "horizon", "objective", "streamlines", "candidates", "realizations", "value"}
@@ -180,17 +175,20 @@ func ParseSpec(path string, data []byte) (spec *Spec, err error) {
 	s.Streamlines = p.integer(top, "streamlines", 0, 1, 1_000_000)
 	if top.has("value") {
 		v := p.mapping(top.vals["value"], "value", valueKeys, nil)
-		s.Economics = Economics{
-			OilPrice:      p.number(v, "oil_price", 0, nonNegative),
-			WaterCost:     p.number(v, "water_cost", 0, nonNegative),
-			InjectionCost: p.number(v, "injection_cost", 0, nonNegative),
-			WellCost:      p.number(v, "well_cost", 0, nonNegative),
-			DiscountRate: p.number(v, "discount_rate", 0, func(r float64) string {
-				if r >= 0 && r < 10 {
-					return ""
+		check := func(key string) func(float64) string {
+			return func(x float64) string {
+				if m := reservoir.EconomicsProblem(key, x); m != "" {
+					return fmt.Sprintf("= %g %s", x, m)
 				}
-				return fmt.Sprintf("= %g must be in [0, 10) per year (0.1 is 10%%)", r)
-			}),
+				return ""
+			}
+		}
+		s.Economics = Economics{
+			OilPrice:      p.number(v, "oil_price", 0, check("oil_price")),
+			WaterCost:     p.number(v, "water_cost", 0, check("water_cost")),
+			InjectionCost: p.number(v, "injection_cost", 0, check("injection_cost")),
+			WellCost:      p.number(v, "well_cost", 0, check("well_cost")),
+			DiscountRate:  p.number(v, "discount_rate", 0, check("discount_rate")),
 		}
 		if p.ok() && s.Objective == Value && !v.has("oil_price") {
 			p.failf(v.node, "value: objective value needs oil_price")

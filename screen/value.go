@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"floodtrace/flood"
+	"floodtrace/reservoir"
 )
 
 // RunOutcome is what a screen keeps of one run (one candidate on one
@@ -36,39 +37,15 @@ func (r RunOutcome) Objective(o Objective) float64 {
 	return r.CumOil
 }
 
-// discountFactor is (1+rate)^(-t/365.25): the present worth of one unit
-// received t days from now at an annual discount rate (end-of-period
-// discounting with a year of 365.25 days; common practice).
-func discountFactor(rate, t float64) float64 {
-	return math.Pow(1+rate, -t/365.25)
-}
+// discountFactor is reservoir.DiscountFactor: the present worth of one
+// unit received t days from now at an annual discount rate.
+func discountFactor(rate, t float64) float64 { return reservoir.DiscountFactor(rate, t) }
 
-// cashFlow returns the discounted cash flow of a run from its cumulative
-// curves at the report times (days): for each report interval the oil,
-// produced water and injected water of the interval are priced
-//
-//	e.OilPrice*oil - e.WaterCost*water - e.InjectionCost*injected
-//
-// and discounted by discountFactor at the end of the interval, and
-// e.WellCost is subtracted per new well at time 0. A simple discounted
-// cash flow (common practice): no taxes, royalties, operating costs per
-// well or price changes. The slices must have equal lengths.
+// cashFlow is e.CashFlow (reservoir.Economics.CashFlow): the discounted
+// cash flow of a run from its cumulative curves at the report times, less
+// e.WellCost per new well.
 func cashFlow(times, cumOil, cumWater, cumInjected []float64, e Economics, newWells int) (float64, error) {
-	n := len(times)
-	if len(cumOil) != n || len(cumWater) != n || len(cumInjected) != n {
-		return 0, fmt.Errorf("cash flow: %d times but %d, %d and %d cumulative values", n, len(cumOil), len(cumWater), len(cumInjected))
-	}
-	v := -e.WellCost * float64(newWells)
-	var t0, o0, w0, i0 float64
-	for k := 0; k < n; k++ {
-		if times[k] < t0 {
-			return 0, fmt.Errorf("cash flow: report times decrease at %g days", times[k])
-		}
-		net := e.OilPrice*(cumOil[k]-o0) - e.WaterCost*(cumWater[k]-w0) - e.InjectionCost*(cumInjected[k]-i0)
-		v += net * discountFactor(e.DiscountRate, times[k])
-		t0, o0, w0, i0 = times[k], cumOil[k], cumWater[k], cumInjected[k]
-	}
-	return v, nil
+	return e.CashFlow(times, cumOil, cumWater, cumInjected, newWells)
 }
 
 // summarize reduces a finished run to its outcome.

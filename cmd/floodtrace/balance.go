@@ -20,6 +20,7 @@ var balanceFlags struct {
 	force       bool
 	streamlines int
 	workers     int
+	fromStart   bool
 	pictures    string
 	size        string
 	quiet       bool
@@ -48,6 +49,13 @@ below 0.05 of the water reaching them by the horizon at the current rates are
 flagged with the injectors that feed
 them (candidates for a rate cut, a shut-in or a conformance job).
 
+--objective value balances for the discounted value of the case's value block
+(value: {oil_price, water_cost, injection_cost, discount_rate}) instead of the
+oil. With a history the forecasts run the history as a run does and the rates
+apply from its end; the horizon must be after it (--from-start plans from day 0
+on the case's controls instead, without the history: faster). A producer's max_rate (its
+liquid limit on bhp control) holds in every forecast.
+
 DIR receives balance.csv, balance.json, balance_forecast.csv,
 case_balanced.yaml (the case as written with the recommended rates, ready to
 run) and pictures.
@@ -60,9 +68,10 @@ Examples:
 		Flags: func(fs *pflag.FlagSet) {
 			fs.StringVarP(&balanceFlags.out, "out", "o", "", "output folder (required)")
 			fs.Float64Var(&balanceFlags.horizon, "horizon", 0, "forecast horizon in days (default: the case's run.end)")
-			fs.StringVar(&balanceFlags.objective, "objective", "oil", "oil (cumulative oil at the horizon) or value (needs a value block)")
+			fs.StringVar(&balanceFlags.objective, "objective", "oil", "oil (oil recovered by the horizon) or value (discounted value of the case's value block)")
 			fs.StringVar(&balanceFlags.total, "total", "same", "same (hold the total injection) or free (let it change within the limits)")
 			fs.BoolVar(&balanceFlags.force, "force", false, "write into a folder that holds other files (they are left alone)")
+			fs.BoolVar(&balanceFlags.fromStart, "from-start", false, "plan from day 0 on the case's own controls, without its production history (faster; for a flood being planned)")
 			fs.IntVar(&balanceFlags.streamlines, "streamlines", 0, "number of streamlines (default: the case's run.streamlines)")
 			fs.IntVar(&balanceFlags.workers, "workers", 0, "forecasts run at once (default: all cores; results do not depend on it)")
 			fs.StringVar(&balanceFlags.pictures, "pictures", "all", "all or none")
@@ -104,10 +113,8 @@ func runBalance(args []string) error {
 	if err != nil {
 		return err
 	}
-	if m.History != nil {
-		// Balancing plans rates from day 0 on the case's own controls: a
-		// production history (for reviewing the flood) is not used.
-		logf("the case's history (%s) is not used: balance forecasts from day 0 on the case's controls", m.History.File)
+	if m.History != nil && f.fromStart {
+		logf("--from-start: the case's history (%s) is not used; balance forecasts from day 0 on the case's controls", m.History.File)
 		m.History = nil
 	}
 	s := balance.Settings{Horizon: f.horizon, Objective: balance.Objective(f.objective), FreeTotal: f.total == "free", Workers: f.workers, Log: logf}
@@ -149,12 +156,16 @@ func printBalance(r *balance.Result) {
 		fmt.Fprintf(stdout, "%-10s %12.1f %12.1f %+10.1f %10.3f %10.3f  %s\n", in.Name, in.RateNow, in.RateRecommended, in.RateRecommended-in.RateNow,
 			in.EfficiencyNow, in.EfficiencyRecommended, in.Limit)
 	}
+	what, amount := objectiveWords(r, vol)
 	gain := r.Recommended.Objective - r.Now.Objective
 	if r.Improved {
-		fmt.Fprintf(stdout, "oil at day %g: %.0f %s now, %.0f recommended (%+.0f, %+.2f%%); total injection %.1f -> %.1f %s\n", r.Horizon,
-			r.Now.Objective, vol, r.Recommended.Objective, gain, 100*gain/r.Now.Objective, r.TotalNow, r.TotalRecommended, rate)
+		fmt.Fprintf(stdout, "%s: %s now, %.0f recommended (%+.0f%s); total injection %.1f -> %.1f %s\n", what,
+			amount(r.Now.Objective), r.Recommended.Objective, gain, percent(r.Now.Objective, r.Recommended.Objective), r.TotalNow, r.TotalRecommended, rate)
 	} else {
-		fmt.Fprintf(stdout, "no rates found that beat the current ones (oil at day %g: %.0f %s); keep the current rates\n", r.Horizon, r.Now.Objective, vol)
+		fmt.Fprintf(stdout, "no rates found that beat the current ones (%s: %s); keep the current rates\n", what, amount(r.Now.Objective))
+	}
+	for _, p := range r.Recommended.AtMaxRate {
+		fmt.Fprintf(stdout, "producer %s is held at its max_rate (liquid limit) in the recommended forecast\n", p)
 	}
 	for _, p := range r.Flagged {
 		fmt.Fprintf(stdout, "FLAG: producer %s mostly cycles water (oil %.3f of the water reaching it), fed by %v: a candidate for a rate cut, a shut-in or a conformance job\n", p.Name, p.Efficiency, p.Injectors)

@@ -43,12 +43,18 @@ func drawBalance(dir string, r *balance.Result, w, h int) ([]string, error) {
 		return nil, err
 	}
 	rep := render.BalanceReport{Title: m.Title, RateUnit: rate}
+	what, amount := objectiveWords(r, vol)
+	What := strings.ToUpper(what[:1]) + what[1:]
 	gain := r.Recommended.Objective - r.Now.Objective
 	if r.Improved {
-		rep.Headline = append(rep.Headline, fmt.Sprintf("Oil at day %g: %.0f %s at the current rates, %.0f %s at the recommended rates (%+.0f %s, %+.2f%%).",
-			r.Horizon, r.Now.Objective, vol, r.Recommended.Objective, vol, gain, vol, 100*gain/r.Now.Objective))
+		rep.Headline = append(rep.Headline, fmt.Sprintf("%s: %s at the current rates, %s at the recommended rates (%s%s).",
+			What, amount(r.Now.Objective), amount(r.Recommended.Objective), signed(amount(gain)), percent(r.Now.Objective, r.Recommended.Objective)))
 	} else {
-		rep.Headline = append(rep.Headline, fmt.Sprintf("No rates found that beat the current ones over %g days (oil %.0f %s): keep the current rates.", r.Horizon, r.Now.Objective, vol))
+		over := fmt.Sprintf("over %g days", r.Horizon)
+		if r.HistoryEnd > 0 || r.Objective == balance.Value {
+			over = "(" + what + ")"
+		}
+		rep.Headline = append(rep.Headline, fmt.Sprintf("No rates found that beat the current ones %s (%s %s): keep the current rates.", over, r.Objective, amount(r.Now.Objective)))
 	}
 	rep.Headline = append(rep.Headline, fmt.Sprintf("Total injection %.1f %s now, %.1f %s recommended (%s).", r.TotalNow, rate, r.TotalRecommended, rate,
 		map[bool]string{true: "free within the limits", false: "held"}[r.FreeTotal]))
@@ -61,9 +67,16 @@ func drawBalance(dir string, r *balance.Result, w, h int) ([]string, error) {
 		rep.Flags = append(rep.Flags, fmt.Sprintf("%s: oil %.3f of the water reaching it, fed by %s. A candidate for a rate cut, a shut-in or a conformance job.",
 			f.Name, f.Efficiency, strings.Join(f.Injectors, ", ")))
 	}
+	of := "the oil at the horizon"
+	if r.Objective == balance.Value {
+		of = "the discounted value at the horizon"
+	}
 	rep.Method = []string{
-		fmt.Sprintf("Each round proposes new rates by the efficiency-weighted reallocation of Thiele and Batycky (2006), q' = q (e/ē)^%g with each change at most the step times the rate, and by a finite-difference gradient of the oil at the horizon through the flood engine; each proposal is forecast and kept only if it beats the best rates so far, otherwise the step is halved.", r.Exponent),
-		fmt.Sprintf("%d rounds, %d forecasts. Efficiencies are taken over the whole horizon: the pair water rates of each forecast's first solve, and each producer's average oil rate from day 0 to day %g shared among its injectors by those rates.", len(r.Iterations), r.Forecasts, r.Horizon),
+		fmt.Sprintf("Each round proposes new rates by the efficiency-weighted reallocation of Thiele and Batycky (2006), q' = q (e/ē)^%g with each change at most the step times the rate, and by a finite-difference gradient of %s through the flood engine; each proposal is forecast and kept only if it beats the best rates so far, otherwise the step is halved.", r.Exponent, of),
+		fmt.Sprintf("%d rounds, %d forecasts. Efficiencies are taken over the whole horizon: the pair water rates of each forecast's first solve, and each producer's average oil rate from day %g to day %g shared among its injectors by those rates.", len(r.Iterations), r.Forecasts, r.HistoryEnd, r.Horizon),
+	}
+	if r.HistoryEnd > 0 {
+		rep.Method = append(rep.Method, fmt.Sprintf("The case's history drives the wells up to its end, day %g, as in a run; the rates apply from there on.", r.HistoryEnd))
 	}
 	rf, err := render.WriteBalanceReport(dir, rep, files)
 	if err != nil {
