@@ -438,8 +438,8 @@ footer { color: var(--soft); font-size: 12.5px; margin-top: 26px; }
 <h2>Cautions</h2>
 <div class="caution">
 <p><b>These are screening estimates for planning.</b> They come from a two-dimensional, incompressible
-streamline model with the simplifications listed in the case (no gravity, formation volume factors of 1,
-fluid and rock properties as entered). They rank and compare flood layouts; they are not forecasts for
+streamline model with the simplifications of the method (no capillary pressure, gravity only along
+the layer's dip where the case gives a depth, fluid and rock properties as entered). They rank and compare flood layouts; they are not forecasts for
 regulatory filings, safety cases or investment decisions, which follow local regulations and a licensed
 engineering review of a full reservoir study.</p>
 {{if .Alerts}}<p><b style="color:var(--alarm)">Pressure limit:</b> {{range $i, $a := .Alerts}}{{if $i}}, {{end}}{{$a}}{{end}}
