@@ -64,8 +64,9 @@ type problem struct {
 	tx, ty []float64
 	comp   []int // connected region per cell, -1 for inactive cells
 	ncomp  int
-	seed   []int  // lowest-numbered cell of each region
-	driven []bool // the region holds an open well
+	seed   []int     // lowest-numbered cell of each region
+	driven []bool    // the region holds an open well
+	mob    []float64 // total mobility per cell (Sequence compares it)
 }
 
 func newProblem(in Input) (*problem, error) {
@@ -77,7 +78,7 @@ func newProblem(in Input) (*problem, error) {
 	if err != nil {
 		return nil, err
 	}
-	pb := &problem{m: m, g: m.Grid, wells: in.Wells}
+	pb := &problem{m: m, g: m.Grid, wells: in.Wells, mob: mob}
 	if pb.wells == nil {
 		pb.wells = m.Wells
 	}
