@@ -33,7 +33,7 @@ const DefaultReuseChange = 0.3
 //     more iterations; when a reused preconditioner needs more than twice
 //     the iterations of the solve that built it (plus 4), the solve builds
 //     a fresh one and goes on from where it stopped, and a reused one that
-//     needed more than 1.5 times as many is dropped after the solve.
+//     needed more than 1.5 times as many (plus 2) is dropped after the solve.
 //
 // The results agree with Solve's to the solve tolerance (they are not
 // bit-identical: the start and the preconditioner differ), and they are
