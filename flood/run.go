@@ -264,6 +264,12 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	if err != nil {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
+	if m.Grid.N() >= largeGrid {
+		// The tracer's garbage (its per-half buffers, the fill lines it
+		// did not keep) is collected before the flat segments are made,
+		// so that they reuse its memory.
+		runtime.GC()
+	}
 	lines, err := newLineSet(tr, pv)
 	if err != nil {
 		return nil, err

@@ -68,8 +68,9 @@ type problem struct {
 	gx, gy []float64 // gravity flux per face at equal pressures; nil without depth
 	comp   []int     // connected region per cell, -1 for inactive cells
 	ncomp  int
-	seed   []int  // lowest-numbered cell of each region
-	driven []bool // the region holds an open well
+	seed   []int     // lowest-numbered cell of each region
+	driven []bool    // the region holds an open well
+	mob    []float64 // total mobility per cell (Sequence compares it)
 }
 
 func newProblem(in Input) (*problem, error) {
@@ -81,7 +82,7 @@ func newProblem(in Input) (*problem, error) {
 	if err != nil {
 		return nil, err
 	}
-	pb := &problem{m: m, g: m.Grid, wells: in.Wells}
+	pb := &problem{m: m, g: m.Grid, wells: in.Wells, mob: mob}
 	if pb.wells == nil {
 		pb.wells = m.Wells
 	}

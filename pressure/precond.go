@@ -59,21 +59,28 @@ func GridPreconditioner(sys *System, g reservoir.Grid) (sparse.Preconditioner, s
 // SMGMaxIterations, it goes on from there with the algebraic multigrid.
 // It returns the name of the last preconditioner used ("" for pre).
 func (pb *problem) linearSolve(sys *System, x []float64, pre sparse.PreconditionerFunc, tol float64) (sparse.CGResult, string, error) {
+	res, name, _, err := pb.linearSolveKeep(sys, x, pre, tol)
+	return res, name, err
+}
+
+// linearSolveKeep is linearSolve that also returns the preconditioner it
+// used last (nil when the set-up failed), for Sequence to keep.
+func (pb *problem) linearSolveKeep(sys *System, x []float64, pre sparse.PreconditionerFunc, tol float64) (sparse.CGResult, string, sparse.Preconditioner, error) {
 	n := len(x)
 	if pre != nil {
 		m, err := pre(sys.A)
 		if err != nil {
-			return sparse.CGResult{}, "", &SolverError{Stage: "preconditioner", Unknowns: n, Err: err}
+			return sparse.CGResult{}, "", nil, &SolverError{Stage: "preconditioner", Unknowns: n, Err: err}
 		}
 		res, err := sparse.CG(sys.A, sys.B, x, m, sparse.CGSettings{Tol: tol})
 		if err != nil {
-			return res, "", &SolverError{Stage: "linear solve", Unknowns: n, Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
+			return res, "", m, &SolverError{Stage: "linear solve", Unknowns: n, Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
 		}
-		return res, "", nil
+		return res, "", m, nil
 	}
 	m, name, err := GridPreconditioner(sys, pb.g)
 	if err != nil {
-		return sparse.CGResult{}, name, &SolverError{Stage: "preconditioner", Unknowns: n, Err: err}
+		return sparse.CGResult{}, name, nil, &SolverError{Stage: "preconditioner", Unknowns: n, Err: err}
 	}
 	cs := sparse.CGSettings{Tol: tol}
 	if name == PrecondSMG {
@@ -83,14 +90,14 @@ func (pb *problem) linearSolve(sys *System, x []float64, pre sparse.Precondition
 	if name == PrecondSMG && errors.Is(err, sparse.ErrNotConverged) {
 		before := res.Iterations
 		if m, err = sparse.NewAMG(sys.A); err != nil {
-			return res, PrecondAMG, &SolverError{Stage: "preconditioner", Unknowns: n, Err: err}
+			return res, PrecondAMG, nil, &SolverError{Stage: "preconditioner", Unknowns: n, Err: err}
 		}
 		name = PrecondAMG
 		res, err = sparse.CG(sys.A, sys.B, x, m, sparse.CGSettings{Tol: tol})
 		res.Iterations += before
 	}
 	if err != nil {
-		return res, name, &SolverError{Stage: "linear solve", Unknowns: n, Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
+		return res, name, m, &SolverError{Stage: "linear solve", Unknowns: n, Iterations: res.Iterations, RelResidual: res.RelativeResidual, Err: err}
 	}
-	return res, name, nil
+	return res, name, m, nil
 }

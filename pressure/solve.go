@@ -72,6 +72,12 @@ import (
 // multigrid on large ones the structured multigrid cannot take or does
 // not solve in SMGMaxIterations).
 func Solve(in Input, s Settings) (*Solution, error) {
+	return solve(in, s, nil)
+}
+
+// solve is Solve; with seq, the first round starts from seq's last
+// pressures and the linear solves go through seq (preconditioner reuse).
+func solve(in Input, s Settings, seq *Sequence) (*Solution, error) {
 	pb, err := newProblem(in)
 	if err != nil {
 		return nil, err
@@ -106,9 +112,15 @@ func Solve(in Input, s Settings) (*Solution, error) {
 			}
 		} else {
 			pb.startLevel(ctl, sys, x)
+			seq.start(pb, sys, x)
 		}
 		if len(x) > 0 {
-			res, _, err := pb.linearSolve(sys, x, s.Preconditioner, tol)
+			var res sparse.CGResult
+			if seq != nil {
+				res, err = seq.linearSolve(pb, sys, x, tol)
+			} else {
+				res, _, err = pb.linearSolve(sys, x, s.Preconditioner, tol)
+			}
 			sol.Iterations += res.Iterations
 			sol.RelResidual = res.RelativeResidual
 			if err != nil {

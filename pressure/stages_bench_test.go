@@ -116,3 +116,48 @@ func BenchmarkStagePressure(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkStageUpdates times ten pressure solves of a run with pressure
+// updates, an invented front of doubling total mobility moving 100 ft per
+// solve from the injectors (frontMobility), as independent Solve calls
+// and through one Sequence (warm start, preconditioner reuse).
+func BenchmarkStageUpdates(b *testing.B) {
+	for _, n := range stageSizes {
+		m := stageModel(b, n)
+		lam, err := InitialMobility(m)
+		if err != nil {
+			b.Fatal(err)
+		}
+		mobs := make([][]float64, 10)
+		for s := range mobs {
+			mobs[s] = frontMobility(m, lam, 1, 1000+100*float64(s))
+		}
+		for _, mode := range []string{"independent", "sequence"} {
+			b.Run(fmt.Sprintf("%dx%d/%s", n, n, mode), func(b *testing.B) {
+				its, built := 0, 0
+				for b.Loop() {
+					seq := NewSequence(Settings{})
+					its, built = 0, 0
+					for _, mob := range mobs {
+						var sol *Solution
+						if mode == "sequence" {
+							sol, err = seq.Solve(Input{Model: m, Mobility: mob})
+						} else {
+							sol, err = Solve(Input{Model: m, Mobility: mob}, Settings{})
+							built++
+						}
+						if err != nil {
+							b.Fatal(err)
+						}
+						its += sol.Iterations
+					}
+					if mode == "sequence" {
+						built = seq.Stats().Built
+					}
+				}
+				b.ReportMetric(float64(its), "iterations")
+				b.ReportMetric(float64(built), "set-ups")
+			})
+		}
+	}
+}

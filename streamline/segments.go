@@ -57,20 +57,20 @@ func (r *Result) Rescale(pv []float64) (*Segments, error) {
 		sg.Start[i+1] = sg.Start[i] + len(l.Cells)
 	}
 	nseg := sg.Start[n]
-	// scale[c]: first the traced volume of cell c, then pv/volume.
+	// scale[c]: first the traced volume of cell c, then pv/volume. One
+	// pass in line order: the sums are those of any split of the cells
+	// into ranges (each cell's terms come in the same order), and a split
+	// over cores would have every core read every segment, twice the
+	// memory traffic for no gain on a memory-bound loop.
 	scale := make([]float64, len(pv))
-	pieces := max(1, min(parallel.Workers(0), len(pv)/4096))
-	parallel.Pieces(len(pv), pieces, pieces, func(_, lo, hi int) {
-		for i := range r.Lines {
-			l := &r.Lines[i]
-			tau := l.Tau[:len(l.Cells)]
-			for s, c := range l.Cells {
-				if int(c) >= lo && int(c) < hi {
-					scale[c] += l.Flux * tau[s]
-				}
-			}
+	for i := range r.Lines {
+		l := &r.Lines[i]
+		q := l.Flux
+		tau := l.Tau[:len(l.Cells)]
+		for s, c := range l.Cells {
+			scale[c] += q * tau[s]
 		}
-	})
+	}
 	for c, raw := range scale {
 		if raw > 0 {
 			scale[c] = pv[c] / raw

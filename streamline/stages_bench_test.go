@@ -72,3 +72,23 @@ func BenchmarkStageTrace(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkStageRescale times Result.Rescale, the flat segments with the
+// time of flight rescaled to the pore volumes, on the lines of
+// BenchmarkStageTrace.
+func BenchmarkStageRescale(b *testing.B) {
+	for _, n := range stageSizes {
+		b.Run(fmt.Sprintf("%dx%d", n, n), func(b *testing.B) {
+			f := stageField(b, n)
+			r, err := streamline.Trace(f, streamline.Settings{Count: 5000})
+			if err != nil {
+				b.Fatal(err)
+			}
+			for b.Loop() {
+				if _, err := r.Rescale(f.PoreVolume); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -240,7 +240,8 @@ func TestSummaryWrittenLast(t *testing.T) {
 
 // TestFramesFlag: --frames takes one rule in run and render (auto, none
 // or a count; runfolder.FramesAuto and FramesNone), 0 and negative counts
-// are usage errors, and --no-pictures is an alias of --pictures none.
+// are usage errors, --no-pictures is an alias of --pictures none, and
+// --pictures minimal keeps no frames unless given a count.
 func TestFramesFlag(t *testing.T) {
 	dir := t.TempDir()
 	if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--pictures", "none", "--frames", "none"); code != 0 {
@@ -266,6 +267,28 @@ func TestFramesFlag(t *testing.T) {
 	// The demo has 122 report times: auto keeps 40 (the cap, flood/fixed.go).
 	if ents, _ := os.ReadDir(filepath.Join(auto, "frames")); len(ents) != 40 {
 		t.Errorf("--frames auto wrote %d frames, want 40", len(ents))
+	}
+	// --pictures minimal draws no animation: auto keeps no frames then,
+	// a count still keeps that many; the other data files are those of
+	// --pictures none.
+	minimal := t.TempDir()
+	if code, _, e := run(t, "run", demo, "--out", minimal, "-q", "--pictures", "minimal"); code != 0 {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	if _, err := os.Stat(filepath.Join(minimal, "frames")); err == nil {
+		t.Error("--pictures minimal wrote animation frames")
+	}
+	for _, name := range []string{"tof.asc", "pressure.asc", "streamlines.geojson", "summary.json"} {
+		if _, err := os.Stat(filepath.Join(minimal, name)); err != nil {
+			t.Errorf("--pictures minimal: %v", err)
+		}
+	}
+	minimal = t.TempDir()
+	if code, _, e := run(t, "run", demo, "--out", minimal, "-q", "--pictures", "minimal", "--frames", "3"); code != 0 {
+		t.Fatalf("code %d: %s", code, e)
+	}
+	if ents, _ := os.ReadDir(filepath.Join(minimal, "frames")); len(ents) != 3 {
+		t.Errorf("--pictures minimal --frames 3 wrote %d frames", len(ents))
 	}
 	for _, bad := range [][]string{{"--frames", "-3"}, {"--frames", "0"}, {"--frames", "lots"}, {"--no-pictures", "--pictures", "minimal"}} {
 		args := append([]string{"run", demo, "--out", t.TempDir()}, bad...)

@@ -68,12 +68,13 @@ Examples:
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
 			fs.StringVar(&runFlags.rasters, "rasters", runfolder.RastersASC, "raster format: asc (GIS ASCII grids) or tif (GeoTIFF: float32, Deflate, tiled)")
 			runFlags.frames = framesValue(runfolder.FramesAuto)
-			fs.Var(&runFlags.frames, "frames", "saturation maps kept for the animation: auto (up to 40, fewer on very large grids), none, or a count from 1 to 1000")
+			fs.Var(&runFlags.frames, "frames", "saturation maps kept for the animation: auto (up to 40, fewer on very large grids; none with --pictures minimal, which draws no animation), none, or a count from 1 to 1000")
 
 			// --pictures minimal draws one map: the saturation at the last
 			// snapshot (maps/saturation_<day>.png), without the other maps,
 			// the charts, the animation or report.html. The data files are
-			// the same as with --pictures all.
+			// the same as with --pictures all, except the animation's
+			// frames/ (--frames auto keeps none then; say --frames N for N).
 			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (data files only; --no-pictures is an alias of none)")
 			// --no-pictures is kept, hidden, as an alias of --pictures none.
 			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "alias of --pictures none")
@@ -106,6 +107,12 @@ func runRun(args []string) error {
 	}
 	if runFlags.pictures != "all" && runFlags.pictures != "minimal" && runFlags.pictures != "none" {
 		return usageError{fmt.Sprintf("--pictures must be all, minimal or none, not %q", runFlags.pictures)}
+	}
+	if runFlags.pictures == "minimal" && runFlags.frames == runfolder.FramesAuto {
+		// The frames feed the animation only, which minimal does not
+		// draw: at a million cells they are 8 maps over every segment
+		// and 70 MB of text (docs/PERFORMANCE.md).
+		runFlags.frames = runfolder.FramesNone
 	}
 	engine, ok := engineFlags[runFlags.engine]
 	if !ok {
