@@ -57,7 +57,8 @@ func readCSV(t *testing.T, path string) ([]string, [][]string) {
 }
 
 // TestSurfaceColumns: with a formation volume factor in the case, the
-// surface columns of wells.csv, producers.csv and field.csv are the
+// surface columns of wells.csv, producers.csv, field.csv, pairs.csv and
+// injectors.csv are the
 // reservoir columns divided by the factor (a formation volume factor is
 // reservoir volume per surface volume: common practice), the surface
 // liquid rate the sum of the surface oil and water rates, and
@@ -98,7 +99,8 @@ func TestSurfaceColumns(t *testing.T) {
 			for _, f := range []struct {
 				file string
 				cols []string
-			}{{runfolder.WellsFile, runfolder.WellsColumns}, {runfolder.ProducersFile, runfolder.ProducersColumns}, {runfolder.FieldFile, runfolder.FieldColumns}} {
+			}{{runfolder.WellsFile, runfolder.WellsColumns}, {runfolder.ProducersFile, runfolder.ProducersColumns}, {runfolder.FieldFile, runfolder.FieldColumns},
+				{runfolder.PairsFile, runfolder.PairsColumns}, {runfolder.InjectorsFile, runfolder.InjectorsColumns}} {
 				head, rows := readCSV(t, filepath.Join(out, f.file))
 				if !c.surface {
 					if !slices.Equal(head, f.cols) {
@@ -121,7 +123,8 @@ func TestSurfaceColumns(t *testing.T) {
 					return v
 				}
 				for _, row := range rows {
-					for res, fvf := range map[string]float64{runfolder.ColOilRate: c.bo, runfolder.ColWaterRate: c.bw, runfolder.ColCumOil: c.bo, runfolder.ColCumWater: c.bw} {
+					for res, fvf := range map[string]float64{runfolder.ColOilRate: c.bo, runfolder.ColWaterRate: c.bw, runfolder.ColCumOil: c.bo, runfolder.ColCumWater: c.bw,
+						runfolder.ColAttributedOilRate: c.bo, runfolder.ColRate: c.bw} {
 						if _, ok := col[res]; !ok {
 							continue
 						}

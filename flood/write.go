@@ -238,18 +238,32 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	}
 	if len(r.Allocation) > 0 {
 		e := r.Efficiencies(r.RunWindow())
+		// With formation volume factors, the rates' surface forms follow
+		// (the injected water and the attributed oil).
+		pairCols, injCols := runfolder.PairsColumns, runfolder.InjectorsColumns
+		if surface {
+			pairCols, injCols = runfolder.WithSurface(pairCols, units), runfolder.WithSurface(injCols, units)
+		}
 		if err := csv(runfolder.PairsFile, func(w *bufio.Writer) {
-			w.WriteString(runfolder.Header(runfolder.PairsColumns))
+			w.WriteString(runfolder.Header(pairCols))
 			for _, p := range e.Pairs {
-				fmt.Fprintf(w, "%s,%s,%s,%s,%s\n", p.Injector, p.Producer, runfolder.Num(p.WaterRate), runfolder.Num(p.AttributedOil), runfolder.Num(p.Efficiency))
+				fmt.Fprintf(w, "%s,%s,%s,%s,%s", p.Injector, p.Producer, runfolder.Num(p.WaterRate), runfolder.Num(p.AttributedOil), runfolder.Num(p.Efficiency))
+				if surface {
+					fmt.Fprintf(w, ",%s,%s", runfolder.Num(p.WaterRate/bw), runfolder.Num(p.AttributedOil/bo))
+				}
+				w.WriteByte('\n')
 			}
 		}); err != nil {
 			return err
 		}
 		if err := csv(runfolder.InjectorsFile, func(w *bufio.Writer) {
-			w.WriteString(runfolder.Header(runfolder.InjectorsColumns))
+			w.WriteString(runfolder.Header(injCols))
 			for _, in := range e.Injectors {
-				fmt.Fprintf(w, "%s,%s,%s,%s\n", in.Name, runfolder.Num(in.Rate), runfolder.Num(in.Efficiency), runfolder.Num(in.AttributedOil))
+				fmt.Fprintf(w, "%s,%s,%s,%s", in.Name, runfolder.Num(in.Rate), runfolder.Num(in.Efficiency), runfolder.Num(in.AttributedOil))
+				if surface {
+					fmt.Fprintf(w, ",%s,%s", runfolder.Num(in.Rate/bw), runfolder.Num(in.AttributedOil/bo))
+				}
+				w.WriteByte('\n')
 			}
 		}); err != nil {
 			return err

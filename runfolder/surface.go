@@ -2,7 +2,7 @@ package runfolder
 
 // Surface volumes (docs/OUTPUTS.md): when the case gives a formation
 // volume factor (fluids.oil_fvf or fluids.water_fvf), wells.csv,
-// producers.csv and field.csv gain, after their reservoir columns, the
+// producers.csv, field.csv, pairs.csv and injectors.csv gain, after their reservoir columns, the
 // surface form of every oil, water and liquid volume and rate, the unit
 // in the column name (SurfaceColumn), and summary.json the surface
 // cumulative volumes and oil in place. A case without either factor
@@ -28,10 +28,11 @@ func SurfaceUnit(units string) string {
 // columns are the others with a surface form.
 var surfaceVolumeCols = map[string]bool{ColCumOil: true, ColCumWater: true}
 
-// HasSurface reports whether a column has a surface form.
+// HasSurface reports whether a column has a surface form (rate is an
+// injector's water rate in injectors.csv).
 func HasSurface(col string) bool {
 	switch col {
-	case ColLiquidRate, ColOilRate, ColWaterRate, ColCumOil, ColCumWater:
+	case ColLiquidRate, ColOilRate, ColWaterRate, ColCumOil, ColCumWater, ColRate, ColAttributedOilRate:
 		return true
 	}
 	return false
