@@ -180,6 +180,19 @@ func Describe(m *Model) string {
 	if r.PressureUpdates != 1 {
 		solves += "s"
 	}
+	var why []string
+	if m.History != nil {
+		why = append(why, "the history")
+	}
+	if len(m.Schedule) > 0 {
+		why = append(why, "the schedule")
+	}
+	if m.HasGravity() {
+		why = append(why, "the depth")
+	}
+	if len(why) > 0 {
+		solves += " asked (runs with pressure updates for " + strings.Join(why, " and ") + ")"
+	}
 	fmt.Fprintf(&b, "  run         %g days, report every %g days, %d streamlines, %s\n", r.End, r.ReportEvery, r.Streamlines, solves)
 	if r.MaxWaterCut > 0 || r.MinOilRate > 0 || r.FieldMaxWaterCut > 0 {
 		var lims []string
