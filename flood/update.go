@@ -165,6 +165,7 @@ type updateRun struct {
 	wells     []reservoir.Well // state in force
 	mob       []float64
 	sol       *pressure.Solution // the solve in force
+	seq       *pressure.Sequence // the run's pressure solves (warm start, set-up reuse)
 
 	// Gravity (cases with depth): the faces (across the streamlines),
 	// the along-line coefficient per cell and per node, the densities of
@@ -330,7 +331,10 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 		densities(m, u.sw, u.rho)
 		in.Density = u.rho
 	}
-	sol, err := pressure.Solve(in, u.s.Pressure)
+	if u.seq == nil {
+		u.seq = pressure.NewSequence(u.s.Pressure)
+	}
+	sol, err := u.seq.Solve(in)
 	if err != nil {
 		return nil, fmt.Errorf("pressure solve at day %g: %w", t, err)
 	}
