@@ -126,6 +126,7 @@ type gridRun struct {
 	rowDt   []float64 // per row: largest stable step
 	rowSum  []float64 // per row: partial sums
 	sol     *pressure.Solution
+	seq     *pressure.Sequence // the run's pressure solves (warm start, set-up reuse)
 
 	prevFw []float64 // producer water fraction at the previous step start
 	prevT  float64
@@ -285,7 +286,10 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		densities(m, g.sw, g.rho)
 		in.Density = g.rho
 	}
-	sol, err := pressure.Solve(in, g.s.Pressure)
+	if g.seq == nil {
+		g.seq = pressure.NewSequence(g.s.Pressure)
+	}
+	sol, err := g.seq.Solve(in)
 	if err != nil {
 		return fmt.Errorf("pressure solve at day %g: %w", t, err)
 	}
