@@ -59,9 +59,9 @@ func (o GridOptions) resolved() (GridOptions, error) {
 // RunGrid runs the case with a conventional cell-based engine on the same
 // grid, wells and fluids: IMPES, implicit pressure and explicit saturation
 // (Sheldon, Harris and Bavly 1959; Stone and Garder 1961; Aziz and Settari
-// 1979, chapter 5, from memory). The pressure is solved with
-// pressure.Solve, the total mobility of each cell taken from its
-// saturation. The saturation step is the single-point upstream finite
+// 1979, chapter 5, from memory). The pressure is solved through one
+// pressure.Sequence per run (each solve warm-started from the last), the
+// total mobility of each cell taken from its saturation. The saturation step is the single-point upstream finite
 // volume scheme: the water crossing a face is fw(upstream saturation)
 // times the face's total flux; injectors inject water (fraction 1),
 // producers produce the water fraction of their cell. The time step is

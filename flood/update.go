@@ -39,7 +39,8 @@ const breakthroughProbes = 32
 
 // RunUpdates runs the case with streamlines updated in time: at each
 // update time the total mobility of every cell is computed from its water
-// saturation, the pressure is solved with the wells in force at that time,
+// saturation, the pressure is solved with the wells in force at that time
+// (through one pressure.Sequence per run: warm start, set-up reuse),
 // streamlines are traced anew, the cell saturations are mapped onto them
 // (each segment takes the saturation of its cell), the 1D transport
 // equation dS/dt + dfw/dtau = 0 is solved numerically along each line over
