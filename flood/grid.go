@@ -59,9 +59,9 @@ func (o GridOptions) resolved() (GridOptions, error) {
 // RunGrid runs the case with a conventional cell-based engine on the same
 // grid, wells and fluids: IMPES, implicit pressure and explicit saturation
 // (Sheldon, Harris and Bavly 1959; Stone and Garder 1961; Aziz and Settari
-// 1979, chapter 5, from memory). The pressure is solved with
-// pressure.Solve, the total mobility of each cell taken from its
-// saturation. The saturation step is the single-point upstream finite
+// 1979, chapter 5, from memory). The pressure is solved through one
+// pressure.Sequence per run (each solve warm-started from the last), the
+// total mobility of each cell taken from its saturation. The saturation step is the single-point upstream finite
 // volume scheme: the water crossing a face is fw(upstream saturation)
 // times the face's total flux; injectors inject water (fraction 1),
 // producers produce the water fraction of their cell. The time step is
@@ -126,6 +126,7 @@ type gridRun struct {
 	rowDt   []float64 // per row: largest stable step
 	rowSum  []float64 // per row: partial sums
 	sol     *pressure.Solution
+	seq     *pressure.Sequence // the run's pressure solves (warm start, set-up reuse)
 
 	prevFw []float64 // producer water fraction at the previous step start
 	prevT  float64
@@ -285,7 +286,10 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 		densities(m, g.sw, g.rho)
 		in.Density = g.rho
 	}
-	sol, err := pressure.Solve(in, g.s.Pressure)
+	if g.seq == nil {
+		g.seq = pressure.NewSequence(g.s.Pressure)
+	}
+	sol, err := g.seq.Solve(in)
 	if err != nil {
 		return fmt.Errorf("pressure solve at day %g: %w", t, err)
 	}

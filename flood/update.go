@@ -39,7 +39,8 @@ const breakthroughProbes = 32
 
 // RunUpdates runs the case with streamlines updated in time: at each
 // update time the total mobility of every cell is computed from its water
-// saturation, the pressure is solved with the wells in force at that time,
+// saturation, the pressure is solved with the wells in force at that time
+// (through one pressure.Sequence per run: warm start, set-up reuse),
 // streamlines are traced anew, the cell saturations are mapped onto them
 // (each segment takes the saturation of its cell), the 1D transport
 // equation dS/dt + dfw/dtau = 0 is solved numerically along each line over
@@ -165,6 +166,7 @@ type updateRun struct {
 	wells     []reservoir.Well // state in force
 	mob       []float64
 	sol       *pressure.Solution // the solve in force
+	seq       *pressure.Sequence // the run's pressure solves (warm start, set-up reuse)
 
 	// Gravity (cases with depth): the faces (across the streamlines),
 	// the along-line coefficient per cell and per node, the densities of
@@ -330,7 +332,10 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 		densities(m, u.sw, u.rho)
 		in.Density = u.rho
 	}
-	sol, err := pressure.Solve(in, u.s.Pressure)
+	if u.seq == nil {
+		u.seq = pressure.NewSequence(u.s.Pressure)
+	}
+	sol, err := u.seq.Solve(in)
 	if err != nil {
 		return nil, fmt.Errorf("pressure solve at day %g: %w", t, err)
 	}
