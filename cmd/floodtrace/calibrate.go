@@ -47,8 +47,10 @@ keep_near_wells with radius, and wells.
 DIR receives perm_calibrated.asc (and perm_y_calibrated.asc when the case gives
 rock.perm_y), case_calibrated.yaml (ready for floodtrace run), calibration.csv,
 calibration.json and pictures: the given and calibrated maps, the change (a
-diverging scale centred on 1), the misfit against iteration and each producer's
-water cut observed, with the given map and calibrated.
+diverging scale centred on 1, with the streamlines), the misfit against
+iteration and each producer's water cut observed, with the given map and
+calibrated; and report.html, one page with the misfit before and after per
+producer and the pictures.
 
 --ensemble reads the argument as a screening spec and calibrates its base case
 on each of its realizations (the base case's history and calibration: block,
