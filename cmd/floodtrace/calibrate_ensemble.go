@@ -13,6 +13,7 @@ import (
 	"strconv"
 	"strings"
 
+	"floodtrace/balance"
 	"floodtrace/calibrate"
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
@@ -254,7 +255,8 @@ func validFolder(s string) bool {
 }
 
 // runCalibrateMerge joins the folders of the shards of an ensemble
-// calibration: the realization subfolders are copied unchanged and
+// calibration: the realization subfolders are copied (case_calibrated.yaml
+// with its paths rewritten for the new folder) and
 // calibration_ensemble.csv lists them all, so the result is the folder an
 // unsharded run writes.
 func runCalibrateMerge(parts []string) error {
@@ -312,6 +314,18 @@ func runCalibrateMerge(parts []string) error {
 			if err != nil {
 				return err
 			}
+			if filepath.ToSlash(rel) == runfolder.CalibratedCaseFile {
+				// Its paths are relative to the part's folder: rewrite them
+				// for the merged one (the same text when both lie at the
+				// same depth beside each other).
+				rock := map[string]string{"perm": runfolder.CalibratedPermFile}
+				if _, err := os.Stat(filepath.Join(from, runfolder.CalibratedPermYFile)); err == nil {
+					rock["perm_y"] = runfolder.CalibratedPermYFile
+				}
+				if b, err = balance.CaseWithRock(b, p, filepath.Join(f.out, folder), rock); err != nil {
+					return err
+				}
+			}
 			return d.Bytes(folder+"/"+filepath.ToSlash(rel), b)
 		})
 		if err != nil {
@@ -334,8 +348,16 @@ func runCalibrateMerge(parts []string) error {
 // printEnsemble prints the misfit before and after per realization.
 func printEnsemble(rows []ensembleRow, total int) {
 	fmt.Fprintf(stdout, "\ncalibrated %d of %d realization(s)\n", len(rows), total)
-	fmt.Fprintf(stdout, "%-24s %12s %12s %10s %10s\n", "realization", "misfit before", "misfit after", "wc before", "wc after")
-	for _, r := range rows {
-		fmt.Fprintf(stdout, "%-24s %12s %12s %10s %10s\n", r.fields[1], r.fields[5], r.fields[6], r.fields[7], r.fields[8])
+	fmt.Fprintf(stdout, "%-24s %14s %14s %10s %10s\n", "realization", "misfit before", "misfit after", "wc before", "wc after")
+	num := func(s string, dec int) string {
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			return s
+		}
+		return strconv.FormatFloat(v, 'f', dec, 64)
 	}
+	for _, r := range rows {
+		fmt.Fprintf(stdout, "%-24s %14s %14s %10s %10s\n", r.fields[1], num(r.fields[5], 1), num(r.fields[6], 1), num(r.fields[7], 3), num(r.fields[8], 3))
+	}
+	fmt.Fprintln(stdout, "(travel-time misfit in days; water-cut RMS)")
 }

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"floodtrace/reservoir"
 	"floodtrace/runfolder"
 	"floodtrace/screen"
 )
@@ -69,7 +70,9 @@ realizations: [maps/real_*.asc]
 // only in its seconds column, a clock time).
 func TestCalibrateEnsemble(t *testing.T) {
 	spec := ensembleSpec(t)
-	base := t.TempDir()
+	// The outputs lie beside the case, so that case_calibrated.yaml holds
+	// relative paths (absolute past two folders up).
+	base := filepath.Dir(spec)
 	whole := filepath.Join(base, "whole")
 	common := []string{"--ensemble", "-q", "--pictures", "none", "--iterations", "2", "--workers", "1"}
 	if code, _, errOut := run(t, append([]string{"calibrate", spec, "--out", whole}, common...)...); code != 0 {
@@ -160,6 +163,20 @@ func TestCalibrateEnsemble(t *testing.T) {
 		b, errB := os.ReadFile(filepath.Join(merged, rel))
 		if errA != nil || errB != nil || !bytes.Equal(a, b) {
 			t.Errorf("%s: merged shards differ from the unsharded run (%v %v)", rel, errA, errB)
+		}
+	}
+	// Merged into a folder two levels deeper, each case_calibrated.yaml
+	// still finds its maps and history (its paths are rewritten).
+	deep := filepath.Join(base, "x", "y", "merged")
+	if code, _, errOut := run(t, "calibrate", "merge", parts[0], parts[1], "--out", deep, "-q"); code != 0 {
+		t.Fatalf("merge: exit %d: %s", code, errOut)
+	}
+	for _, f := range folders {
+		m, err := reservoir.Load(filepath.Join(deep, f, runfolder.CalibratedCaseFile))
+		if err != nil {
+			t.Errorf("%s: %v", f, err)
+		} else if m.History == nil {
+			t.Errorf("%s: the merged case_calibrated.yaml lost its history", f)
 		}
 	}
 	for _, f := range folders {
