@@ -3,6 +3,7 @@ package render
 import (
 	"bytes"
 	"fmt"
+	"image"
 	"math"
 	"os"
 	"path/filepath"
@@ -66,12 +67,15 @@ type CalibrationPictures struct {
 	// Iteration and Misfit are the travel-time misfit per iteration.
 	Iteration, Misfit []float64
 	Producers         []ProducerCurves
+	// Lines, when given, are drawn over the change map: the streamlines
+	// of the calibrated map, which cross the cells the data constrain.
+	Lines []Polyline
 }
 
 // WriteCalibrationPictures draws the calibration pictures into dir (w x h
 // pixels, PNG) and returns their names relative to dir: the prior and the
 // calibrated map on one log scale, the change (multiplier, a diverging
-// scale centred on 1), the misfit against iteration and each producer's
+// scale centred on 1, with the streamlines Lines), the misfit against iteration and each producer's
 // water cut observed, prior and calibrated.
 func WriteCalibrationPictures(dir string, p CalibrationPictures, w, h int) ([]string, error) {
 	if err := checkSize(w, h); err != nil {
@@ -112,7 +116,14 @@ func WriteCalibrationPictures(dir string, p CalibrationPictures, w, h int) ([]st
 	} {
 		s := p.Scene
 		s.Subtitle = m.what
-		img, err := DrawField(s, m.v, m.sc, w, h)
+		var img *image.RGBA
+		var err error
+		if m.file == CalibrationChangeMap && len(p.Lines) > 0 {
+			s.Subtitle += ", with the streamlines of the calibrated map"
+			img, err = drawFieldLines(s, m.v, m.sc, p.Lines, w, h)
+		} else {
+			img, err = DrawField(s, m.v, m.sc, w, h)
+		}
 		if err != nil {
 			return nil, err
 		}

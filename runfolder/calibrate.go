@@ -23,3 +23,18 @@ const (
 
 // CalibrationColumns is the header of calibration.csv.
 var CalibrationColumns = []string{ColIteration, ColTravelTimeMisfitDays, ColWaterCutRMS, ColObjective, ColChangeRMS, ColForwardRuns, ColSeconds}
+
+// CalibrationEnsembleFile is the table of an ensemble calibration
+// (floodtrace calibrate --ensemble): one row per realization calibrated.
+const CalibrationEnsembleFile = "calibration_ensemble.csv"
+
+// CalibrationEnsembleJSONFile records the spec, the size of the ensemble
+// and the shard of an ensemble calibration folder.
+const CalibrationEnsembleJSONFile = "calibration_ensemble.json"
+
+// CalibrationEnsembleColumns is the header of calibration_ensemble.csv.
+var CalibrationEnsembleColumns = []string{"index", "realization", "folder", ColIterations, ColForwardRuns,
+	"travel_time_misfit_before_days", "travel_time_misfit_after_days", "water_cut_rms_before", "water_cut_rms_after"}
+
+// ColIterations is the accepted updates of a calibration.
+const ColIterations = "iterations"

@@ -413,12 +413,18 @@ func objectiveOf(s *Spec) Objective {
 
 // Shard returns the indices of the k-th (1-based) of n disjoint parts of
 // the candidate list, taken round-robin: candidates k-1, k-1+n, ...
-func (p *Plan) Shard(k, n int) []int {
+func (p *Plan) Shard(k, n int) []int { return ShardIndices(k, n, len(p.Candidates)) }
+
+// ShardIndices returns the indices of the k-th (1-based) of n disjoint
+// round-robin parts of a list of count items: k-1, k-1+n, ... (n <= 0:
+// the whole list). The parts 1/n to n/n cover every index once. Screening
+// shards its candidates with it, calibrating an ensemble its realizations.
+func ShardIndices(k, n, count int) []int {
 	if n <= 0 {
 		k, n = 1, 1
 	}
 	var idx []int
-	for i := k - 1; i < len(p.Candidates); i += n {
+	for i := k - 1; i < count; i += n {
 		idx = append(idx, i)
 	}
 	return idx

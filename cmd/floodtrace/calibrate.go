@@ -9,6 +9,7 @@ import (
 	"floodtrace/calibrate"
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
+	"floodtrace/screen"
 )
 
 var calibrateFlags struct {
@@ -20,12 +21,14 @@ var calibrateFlags struct {
 	pictures    string
 	size        string
 	quiet       bool
+	ensemble    bool
+	shard       string
 }
 
 func init() {
 	register(&command{
 		Name:  "calibrate",
-		Usage: "calibrate CASE --out DIR [--iterations N]",
+		Usage: "calibrate CASE --out DIR [--iterations N]  |  calibrate SPEC --ensemble --out DIR [--shard K/N]  |  calibrate merge DIR... --out DIR",
 		Short: "adjust the permeability map to the production history",
 		Long: `Calibrate adjusts the case's permeability (perm and perm_y together, one
 multiplier per cell) so that the model's water arrives at each producer when the
@@ -44,13 +47,25 @@ keep_near_wells with radius, and wells.
 DIR receives perm_calibrated.asc (and perm_y_calibrated.asc when the case gives
 rock.perm_y), case_calibrated.yaml (ready for floodtrace run), calibration.csv,
 calibration.json and pictures: the given and calibrated maps, the change (a
-diverging scale centred on 1), the misfit against iteration and each producer's
-water cut observed, with the given map and calibrated.
+diverging scale centred on 1, with the streamlines), the misfit against
+iteration and each producer's water cut observed, with the given map and
+calibrated; and report.html, one page with the misfit before and after per
+producer and the pictures.
+
+--ensemble reads the argument as a screening spec and calibrates its base case
+on each of its realizations (the base case's history and calibration: block,
+the realization's permeability), one subfolder of DIR per realization (named
+after the map file) and calibration_ensemble.csv with the misfit before and
+after of each. --shard K/N calibrates only the K-th of N round-robin parts of
+the realization list (the rule of screen --shard); "calibrate merge" joins the
+parts' folders into the folder one unsharded run writes.
 
 Examples:
   floodtrace calibrate case.yaml --out runs/calibrated
+  floodtrace calibrate screen.yaml --ensemble --out parts/2 --shard 2/4
+  floodtrace calibrate merge parts/1 parts/2 parts/3 parts/4 --out runs/ensemble
   floodtrace calibrate case.yaml --out runs/calibrated --iterations 10`,
-		NArgs: exactly(1),
+		NArgs: func(n int) bool { return n >= 1 },
 		Flags: func(fs *pflag.FlagSet) {
 			fs.StringVarP(&calibrateFlags.out, "out", "o", "", "output folder (required)")
 			fs.IntVar(&calibrateFlags.iterations, "iterations", 0, "most iterations (default: calibration.iterations of the case, else 5)")
@@ -60,6 +75,8 @@ Examples:
 			fs.StringVar(&calibrateFlags.pictures, "pictures", "all", "all or none")
 			fs.StringVar(&calibrateFlags.size, "size", "1600x1000", "picture size WxH")
 			fs.BoolVarP(&calibrateFlags.quiet, "quiet", "q", false, "print nothing but errors")
+			fs.BoolVar(&calibrateFlags.ensemble, "ensemble", false, "the argument is a screening spec: calibrate on each of its realizations")
+			fs.StringVar(&calibrateFlags.shard, "shard", "", "with --ensemble: calibrate only part K of N of the realizations, as K/N (1-based)")
 		},
 		Run: runCalibrate,
 	})
@@ -80,11 +97,35 @@ func runCalibrate(args []string) error {
 	if err != nil {
 		return usageError{err.Error()}
 	}
+	if args[0] == "merge" && !f.ensemble {
+		if f.shard != "" {
+			return usageError{"--shard does not apply to merge"}
+		}
+		if len(args) < 2 {
+			return usageError{"merge needs the folders of the parts"}
+		}
+		return runCalibrateMerge(args[1:])
+	}
+	if len(args) != 1 {
+		return usageError{"give one case file (or: calibrate merge DIR... --out DIR)"}
+	}
+	k, n := 0, 0
+	if f.shard != "" {
+		if !f.ensemble {
+			return usageError{"--shard applies to --ensemble"}
+		}
+		if k, n, err = screen.ParseShard(f.shard); err != nil {
+			return usageError{err.Error()}
+		}
+	}
 	start := time.Now()
 	logf := func(format string, a ...any) {
 		if !f.quiet {
 			fmt.Fprintf(stderr, "%6.2fs  %s\n", time.Since(start).Seconds(), fmt.Sprintf(format, a...))
 		}
+	}
+	if f.ensemble {
+		return runCalibrateEnsemble(args[0], k, n, w, h, logf)
 	}
 	m, err := reservoir.Load(args[0])
 	if err != nil {

@@ -44,7 +44,16 @@ func drawCalibration(dir string, r *calibrate.Result, prior []float64, w, h int)
 		pc.Calibrated = waterCut(r.FinalRun, pm.Name)
 		p.Producers = append(p.Producers, pc)
 	}
-	return render.WriteCalibrationPictures(dir, p, w, h)
+	p.Lines = calibrationLines(r)
+	files, err := render.WriteCalibrationPictures(dir, p, w, h)
+	if err != nil {
+		return nil, err
+	}
+	rf, err := render.WriteCalibrationReport(dir, calibrationReport(r), files)
+	if err != nil {
+		return nil, err
+	}
+	return append(files, rf), nil
 }
 
 func waterCut(r *flood.Result, name string) []float64 {

@@ -141,6 +141,16 @@ func TestCalibrateCommand(t *testing.T) {
 			t.Errorf("picture %s: %v", name, err)
 		}
 	}
+	// report.html: one row per matched producer, the cells kept named.
+	if b, err := os.ReadFile(filepath.Join(outs[0], runfolder.ReportFile)); err != nil {
+		t.Error(err)
+	} else {
+		for _, want := range []string{"<td>P-1</td>", "<td>P-2</td>", "around I-1 are held at it", "Producer P-2: water cut observed"} {
+			if !strings.Contains(string(b), want) {
+				t.Errorf("report.html lacks %q", want)
+			}
+		}
+	}
 	prior, err := reservoir.Load(path)
 	if err != nil {
 		t.Fatal(err)
