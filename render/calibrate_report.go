@@ -1,17 +1,11 @@
 package render
 
 import (
-	"bytes"
-	"encoding/base64"
 	"fmt"
 	"html/template"
 	"image"
 	"image/color"
 	"math"
-	"os"
-	"path/filepath"
-
-	"floodtrace/runfolder"
 )
 
 // colChangeLines is the colour of the streamlines over the change map:
@@ -127,10 +121,6 @@ type CalibrationReport struct {
 // (files relative to dir, drawn before, embedded). It returns the
 // report's name relative to dir.
 func WriteCalibrationReport(dir string, rep CalibrationReport, files []string) (string, error) {
-	type fig struct {
-		Src     template.URL
-		Caption string
-	}
 	caption := map[string]string{
 		CalibrationPriorMap:      "The given permeability along x (log scale, the same as the calibrated map's).",
 		CalibrationCalibratedMap: "The calibrated permeability along x.",
@@ -140,52 +130,17 @@ func WriteCalibrationReport(dir string, rep CalibrationReport, files []string) (
 	for k, r := range rep.Rows {
 		caption[CalibrationWaterCutChart(k, r.Producer)] = "Producer " + r.Producer + ": water cut observed (period midpoints), with the given map and with the calibrated map."
 	}
-	var figs []fig
-	for _, f := range files {
-		b, err := os.ReadFile(filepath.Join(dir, f))
-		if err != nil {
-			return "", fmt.Errorf("render: %w", err)
-		}
-		figs = append(figs, fig{template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(b)), caption[f]})
-	}
-	var buf bytes.Buffer
-	if err := calibrationTemplate.Execute(&buf, struct {
-		CalibrationReport
-		Figures []fig
-	}{rep, figs}); err != nil {
-		return "", fmt.Errorf("render: calibration report: %w", err)
-	}
-	if err := writeFileAtomic(filepath.Join(dir, runfolder.ReportFile), buf.Bytes()); err != nil {
+	figs, err := embedFigures(dir, files, caption)
+	if err != nil {
 		return "", err
 	}
-	return runfolder.ReportFile, nil
+	return writePage(dir, calibrationTemplate, struct {
+		CalibrationReport
+		Figures []pageFigure
+	}{rep, figs}, "calibration")
 }
 
-var calibrationTemplate = template.Must(template.New("calibration").Parse(`<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<title>{{.Title}} · calibration</title>
-<style>
-body { margin:0; background:#f3f4f6; color:#1f2328; font: 15px/1.5 "Segoe UI", "Helvetica Neue", Arial, "DejaVu Sans", sans-serif; }
-main { max-width: 1180px; margin: 0 auto; padding: 28px 28px 60px; }
-header { border-left: 6px solid #0b5f8a; background: #fff; padding: 20px 26px; }
-header .kicker { letter-spacing: .14em; text-transform: uppercase; font-size: 12px; color: #0b5f8a; font-weight: 600; }
-h1 { margin: 4px 0 6px; font-size: 30px; }
-section { background: #fff; margin-top: 22px; padding: 18px 26px 22px; }
-h2 { font-size: 19px; margin: 0 0 12px; padding-bottom: 6px; border-bottom: 1px solid #d8dce2; }
-table { border-collapse: collapse; width: 100%; font-variant-numeric: tabular-nums; }
-th, td { padding: 6px 10px; text-align: left; border-bottom: 1px solid #d8dce2; }
-th { font-size: 13px; color: #5b6470; background: #f7f8fa; }
-td.n, th.n { text-align: right; }
-.flag { border-left: 5px solid #b3261e; background: #fdecea; padding: 10px 16px; margin: 6px 0; }
-figure { margin: 0 0 26px; }
-figure img { display: block; width: 100%; height: auto; border: 1px solid #d8dce2; }
-figcaption { color: #5b6470; font-size: 13.5px; margin-top: 6px; }
-</style>
-</head>
-<body><main>
+var calibrationTemplate = template.Must(template.New("calibration").Parse(`` + pageHead("calibration") + `<body><main>
 <header><div class="kicker">Calibration to the history</div><h1>{{.Title}}</h1>
 {{range .Headline}}<div>{{.}}</div>{{end}}</header>
 <section><h2>Producers</h2>
