@@ -7,21 +7,15 @@ import (
 	"floodtrace/balance"
 	"floodtrace/flood"
 	"floodtrace/render"
+	"floodtrace/reservoir"
 )
 
 // drawBalance hands render the data of the balance pictures and returns
 // their names relative to dir.
 func drawBalance(dir string, r *balance.Result, w, h int) ([]string, error) {
 	m := r.Model
-	length, _, _, rate, _, vol := m.Units.Labels()
-	s := render.Scene{Title: m.Title, Grid: m.Grid, Active: m.Active, LengthUnit: length}
-	for _, wl := range m.Wells {
-		s.Wells = append(s.Wells, render.WellMark{Name: wl.Name, X: wl.X, Y: wl.Y, Injector: wl.Type == "injector"})
-	}
-	for _, f := range m.Faults {
-		s.Faults = append(s.Faults, f.Trace)
-		s.FaultNames = append(s.FaultNames, f.Name)
-	}
+	_, _, _, rate, _, vol := m.Units.Labels()
+	s := caseScene(m)
 	p := render.BalancePictures{Scene: s, RateUnit: rate, VolumeUnit: vol,
 		Now: forecastCurves(r.Now.Run), Recommended: forecastCurves(r.Recommended.Run)}
 	for _, in := range r.Injectors {
@@ -87,4 +81,19 @@ func drawBalance(dir string, r *balance.Result, w, h int) ([]string, error) {
 
 func forecastCurves(r *flood.Result) render.Forecast {
 	return render.Forecast{Times: r.Times, OilRate: r.FieldOilRate, WaterCut: r.FieldWaterCut}
+}
+
+// caseScene is the map scene of a case: its grid, outline, wells and
+// faults, titled with the case title.
+func caseScene(m *reservoir.Model) render.Scene {
+	length, _, _, _, _, _ := m.Units.Labels()
+	s := render.Scene{Title: m.Title, Grid: m.Grid, Active: m.Active, LengthUnit: length}
+	for _, wl := range m.Wells {
+		s.Wells = append(s.Wells, render.WellMark{Name: wl.Name, X: wl.X, Y: wl.Y, Injector: wl.Type == reservoir.Injector})
+	}
+	for _, f := range m.Faults {
+		s.Faults = append(s.Faults, f.Trace)
+		s.FaultNames = append(s.FaultNames, f.Name)
+	}
+	return s
 }

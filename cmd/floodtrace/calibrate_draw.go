@@ -12,15 +12,7 @@ import (
 // returns their names relative to dir.
 func drawCalibration(dir string, r *calibrate.Result, prior []float64, w, h int) ([]string, error) {
 	m := r.Calibrated
-	length, _, _, _, _, _ := m.Units.Labels()
-	s := render.Scene{Title: m.Title, Grid: m.Grid, Active: m.Active, LengthUnit: length}
-	for _, wl := range m.Wells {
-		s.Wells = append(s.Wells, render.WellMark{Name: wl.Name, X: wl.X, Y: wl.Y, Injector: wl.Type == "injector"})
-	}
-	for _, f := range m.Faults {
-		s.Faults = append(s.Faults, f.Trace)
-		s.FaultNames = append(s.FaultNames, f.Name)
-	}
+	s := caseScene(m)
 	p := render.CalibrationPictures{Scene: s, PermUnit: "md", Prior: prior, Calibrated: m.PermEast,
 		MultiplierRange: math.Max(r.Settings.MaxMultiplier, 1/r.Settings.MinMultiplier)}
 	p.Multiplier = make([]float64, len(prior))
