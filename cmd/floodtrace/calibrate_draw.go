@@ -13,7 +13,8 @@ import (
 func drawCalibration(dir string, r *calibrate.Result, prior []float64, w, h int) ([]string, error) {
 	m := r.Calibrated
 	s := caseScene(m)
-	p := render.CalibrationPictures{Scene: s, PermUnit: "md", Prior: prior, Calibrated: m.PermEast,
+	_, perm, _, _, _, _ := m.Units.Labels()
+	p := render.CalibrationPictures{Scene: s, PermUnit: perm, Prior: prior, Calibrated: m.PermEast,
 		MultiplierRange: math.Max(r.Settings.MaxMultiplier, 1/r.Settings.MinMultiplier)}
 	p.Multiplier = make([]float64, len(prior))
 	for k, x := range r.LogMultiplier {
