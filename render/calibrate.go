@@ -1,7 +1,6 @@
 package render
 
 import (
-	"bytes"
 	"fmt"
 	"image"
 	"math"
@@ -127,11 +126,11 @@ func WriteCalibrationPictures(dir string, p CalibrationPictures, w, h int) ([]st
 		if err != nil {
 			return nil, err
 		}
-		var buf bytes.Buffer
-		if err := pngEncoder.Encode(&buf, img); err != nil {
-			return nil, fmt.Errorf("render: %w", err)
+		b, err := encodePNG(m.file, img)
+		if err != nil {
+			return nil, err
 		}
-		if err := writeFileAtomic(filepath.Join(dir, m.file), buf.Bytes()); err != nil {
+		if err := writeFileAtomic(filepath.Join(dir, m.file), b); err != nil {
 			return nil, err
 		}
 		files = append(files, m.file)
