@@ -337,15 +337,7 @@ func historyModel(m *reservoir.Model) (*reservoir.Model, []string, error) {
 			evs = append(evs, e)
 		}
 	}
-	slices.SortStableFunc(evs, func(a, b reservoir.Event) int {
-		switch {
-		case a.Time < b.Time:
-			return -1
-		case a.Time > b.Time:
-			return 1
-		}
-		return 0
-	})
+	reservoir.SortEvents(evs)
 	mm := *m
 	mm.Schedule = evs
 	return &mm, warns, nil

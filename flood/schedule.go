@@ -45,15 +45,7 @@ func newWellSchedule(m *reservoir.Model) (*WellSchedule, error) {
 			return nil, fmt.Errorf("flood: schedule event %d for well %s converts to unknown type %q", i+1, e.Well, e.Convert)
 		}
 	}
-	slices.SortStableFunc(s.events, func(a, b reservoir.Event) int {
-		switch {
-		case a.Time < b.Time:
-			return -1
-		case a.Time > b.Time:
-			return 1
-		}
-		return 0
-	})
+	reservoir.SortEvents(s.events)
 	for _, w := range m.Wells {
 		if !(w.Open >= 0) || math.IsInf(w.Open, 0) {
 			return nil, fmt.Errorf("flood: well %s opens at day %g", w.Name, w.Open)

@@ -2,6 +2,7 @@ package reservoir
 
 import (
 	"bytes"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
@@ -861,13 +862,11 @@ func (d *decoder) readSchedule(m *Model, top *section) {
 		}
 		m.Schedule = append(m.Schedule, e)
 	}
-	slices.SortStableFunc(m.Schedule, func(a, b Event) int {
-		switch {
-		case a.Time < b.Time:
-			return -1
-		case a.Time > b.Time:
-			return 1
-		}
-		return 0
-	})
+	SortEvents(m.Schedule)
+}
+
+// SortEvents sorts schedule events by time, keeping the order of events
+// at the same time (the case file's order, which decides between them).
+func SortEvents(evs []Event) {
+	slices.SortStableFunc(evs, func(a, b Event) int { return cmp.Compare(a.Time, b.Time) })
 }
