@@ -351,6 +351,11 @@ func (r *run) prepare() error {
 		if r.satSc.Max <= r.satSc.Min {
 			r.satSc.Min, r.satSc.Max = 0, 1
 		}
+	} else {
+		// No saturation map in the folder (run --data without
+		// snapshots): the maps drawn over the saturation show none, on
+		// the full scale.
+		r.satSc.Min, r.satSc.Max = 0, 1
 	}
 
 	if r.opt.Minimal {
