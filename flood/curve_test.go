@@ -31,10 +31,11 @@ func maxGap(x, y []float64, keep []int) float64 {
 // 200 000 unevenly spaced points stays within the tolerance at every
 // point left out, keeps both ends, and needs about as many points as the
 // best interpolation of a smooth curve: linear interpolation over a
-// segment of length h errs by up to h^2 max|f2| / 8, f2 the second derivative (the interpolation error
-// bound, e.g. Burden and Faires, Numerical Analysis, from memory), so a
-// tolerance tol needs about the integral of sqrt(|y”| / (8 tol)) points,
-// here 2 (1 - exp(-L/2)) / sqrt(8 tol).
+// segment of length h errs by up to h^2 |f2| / 8, f2 the second
+// derivative (the interpolation error bound, e.g. Burden and Faires,
+// Numerical Analysis, from memory), so a tolerance tol needs about the
+// integral of sqrt(|f2| / (8 tol)) points, here 2 (1 - exp(-L/2)) /
+// sqrt(8 tol).
 func TestThinCurveBound(t *testing.T) {
 	rng := rand.New(rand.NewPCG(19, 4))
 	const n, L = 200000, 20.0
