@@ -142,7 +142,11 @@ func splitFields(s string) ([]string, string) {
 // parseValue parses one map value. NaN and infinities are refused unless
 // they are the NODATA value; a NODATA value becomes NaN.
 func parseValue(tok string, nodata float64, hasNoData bool) (float64, string) {
-	v, err := strconv.ParseFloat(tok, 64)
+	v, ok := parseDecimal(tok)
+	var err error
+	if !ok {
+		v, err = strconv.ParseFloat(tok, 64)
+	}
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
 			return 0, fmt.Sprintf("%q is out of range", tok)
