@@ -233,13 +233,15 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 
 	// Per report time: outlet water cut and exact cumulative volumes per
 	// streamline (Welge 1952: water in place from the average saturation).
-	wcSum := make([]float64, np)
-	wSum := make([]float64, np) // sum q*tau*(Savg-swi): oil produced
-	vSum := make([]float64, np) // sum q*tau*Savg
-	for k, t := range times {
-		clear(wcSum)
-		clear(wSum)
-		clear(vSum)
+	// The report times are independent: they are summed in parallel, each
+	// over the lines in line order, so the sums do not depend on the
+	// number of cores.
+	sums := make([]float64, 3*np*nt)
+	parallel.Each(nt, s.Workers, 4, func(_, k int) {
+		t := times[k]
+		wcSum := sums[3*np*k : 3*np*k+np]
+		wSum := sums[3*np*k+np : 3*np*k+2*np]  // sum q*tau*(Savg-swi): oil produced
+		vSum := sums[3*np*k+2*np : 3*np*(k+1)] // sum q*tau*Savg
 		for i := range ls.q {
 			p := ls.prod[i]
 			if p < 0 || prodOf[p] < 0 {
@@ -252,6 +254,11 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			wSum[pi] += q * (cs - T*swi)
 			vSum[pi] += q * cs
 		}
+	})
+	for k, t := range times {
+		wcSum := sums[3*np*k : 3*np*k+np]
+		wSum := sums[3*np*k+np : 3*np*k+2*np]
+		vSum := sums[3*np*k+2*np : 3*np*(k+1)]
 		for pi := range r.Producers {
 			P := &r.Producers[pi]
 			if lineFlux[pi] == 0 {
