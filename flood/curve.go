@@ -57,3 +57,60 @@ func thinCurve(x, y []float64, tol float64) []int {
 	}
 	return out
 }
+
+// thinPath returns the indices of the points of the polyline p to keep so
+// that every point left out lies within tol of the segment between the
+// kept points around it. The points are taken greedily: from the last
+// kept point, the segment is stretched to the farthest point (at most
+// thinWindow ahead) whose segment passes within tol of every point in
+// between, measured to the segment itself so the bound holds at its ends
+// too; the first and the last point are kept. idx is scratch space for
+// the indices, reused when long enough.
+func thinPath(p [][2]float64, tol float64, idx []int) []int {
+	n := len(p)
+	idx = append(idx[:0], 0)
+	if n <= 2 {
+		if n == 2 {
+			idx = append(idx, 1)
+		}
+		return idx[:n]
+	}
+	tol2 := tol * tol
+	a := 0
+	for a < n-1 {
+		e := a + 1 // the farthest end found so far
+		for c := a + 2; c < n && c-a <= thinWindow; c++ {
+			ok := true
+			for k := a + 1; k < c; k++ {
+				if segmentDistance2(p[k], p[a], p[c]) > tol2 {
+					ok = false
+					break
+				}
+			}
+			if !ok {
+				break
+			}
+			e = c
+		}
+		idx = append(idx, e)
+		a = e
+	}
+	return idx
+}
+
+// thinWindow is the most points one kept segment of thinPath spans.
+const thinWindow = 32
+
+// segmentDistance2 returns the squared distance from point p to the
+// segment a-b.
+func segmentDistance2(p, a, b [2]float64) float64 {
+	dx, dy := b[0]-a[0], b[1]-a[1]
+	px, py := p[0]-a[0], p[1]-a[1]
+	l2 := dx*dx + dy*dy
+	if l2 > 0 {
+		u := (px*dx + py*dy) / l2
+		u = math.Max(0, math.Min(1, u))
+		px, py = px-u*dx, py-u*dy
+	}
+	return px*px + py*py
+}

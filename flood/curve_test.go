@@ -124,3 +124,58 @@ func TestSweepRows(t *testing.T) {
 		}
 	}
 }
+
+// TestThinPath: a noisy spiral is thinned so that every point left out
+// is within the tolerance of the kept polyline (measured here against
+// every segment of it, independently of how thinPath chose them), the
+// ends kept; a straight line keeps its ends and one point per thinWindow;
+// a circle of radius r sampled every degree keeps about as many points as
+// its chords allow: a chord of angle a is r (1 - cos(a/2)) from the arc,
+// so a tolerance tol needs 360 / a points.
+func TestThinPath(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 19))
+	var spiral [][2]float64
+	for k := 0; k < 400; k++ {
+		a := float64(k) / 20
+		r := 10 + 2*a + 0.05*rng.NormFloat64()
+		spiral = append(spiral, [2]float64{r * math.Cos(a), r * math.Sin(a)})
+	}
+	near := func(p [2]float64, path [][2]float64, idx []int) float64 {
+		d := math.Inf(1)
+		for s := 0; s+1 < len(idx); s++ {
+			d = math.Min(d, math.Sqrt(segmentDistance2(p, path[idx[s]], path[idx[s+1]])))
+		}
+		return d
+	}
+	for _, tol := range []float64{0.01, 0.1, 1} {
+		idx := thinPath(spiral, tol, nil)
+		if idx[0] != 0 || idx[len(idx)-1] != len(spiral)-1 {
+			t.Fatalf("tol %g: ends not kept", tol)
+		}
+		for k, p := range spiral {
+			if d := near(p, spiral, idx); d > tol {
+				t.Errorf("tol %g: point %d is %g from the thinned path", tol, k, d)
+			}
+		}
+		t.Logf("tol %g: %d of %d points", tol, len(idx), len(spiral))
+	}
+	line := make([][2]float64, 50)
+	for k := range line {
+		line[k] = [2]float64{float64(k), 2 * float64(k)}
+	}
+	if idx := thinPath(line, 1e-9, nil); len(idx) != 3 {
+		t.Errorf("straight line: kept %v", idx)
+	}
+	const r, tol = 100.0, 0.5
+	circle := make([][2]float64, 361)
+	for k := range circle {
+		a := float64(k) * math.Pi / 180
+		circle[k] = [2]float64{r * math.Cos(a), r * math.Sin(a)}
+	}
+	idx := thinPath(circle, tol, nil)
+	want := 360 / (2 * math.Acos(1-tol/r) * 180 / math.Pi)
+	if got := float64(len(idx) - 1); got < want || got > 1.35*want {
+		t.Errorf("circle: %d segments, want about %.1f", len(idx)-1, want)
+	}
+	t.Logf("circle: %d segments, chord estimate %.1f", len(idx)-1, want)
+}

@@ -412,6 +412,16 @@ func sweepRows(td, ev []float64) ([]float64, []float64) {
 	return x, y
 }
 
+// PathPoints is the most points streamlines.geojson holds as traced (in
+// all its polylines, each already cut to MaxPathPoints); above it every
+// polyline is thinned to within PathTolerance cells (the smaller cell
+// side) of its traced points: 4.3 million points become 1.8 million at a
+// million cells, and small cases are written whole.
+const (
+	PathPoints    = 1_000_000
+	PathTolerance = 0.1
+)
+
 // WriteSummary writes summary.json; call it last.
 func (r *Result) WriteSummary(d *outdir.Dir) error {
 	b, err := r.Summary().Encode()
@@ -439,6 +449,16 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 		return strconv.AppendQuote(buf, m.Wells[i].Name)
 	}
 	lines := r.Trace.Lines
+	// Large sets of polylines are thinned to within PathTolerance cells
+	// of the traced points (thinPath); small ones are written whole.
+	points := 0
+	for i := range lines {
+		points += len(lines[i].Path)
+	}
+	tol := -1.0
+	if points > PathPoints {
+		tol = PathTolerance * math.Min(m.Grid.DX, m.Grid.DY)
+	}
 	first := len(lines) // the first line written has no comma before it
 	for i := range lines {
 		if len(lines[i].Path) >= 2 {
@@ -447,6 +467,7 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 		}
 	}
 	err := runfolder.WriteBands(w, len(lines), 64, func(lo, hi int, buf []byte) []byte {
+		var idx []int
 		for i := lo; i < hi; i++ {
 			l := &lines[i]
 			if len(l.Path) < 2 {
@@ -464,7 +485,16 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 			buf = append(buf, ",\"tof_days\":"...)
 			buf = runfolder.AppendJSONNum(buf, l.TotalTau)
 			buf = append(buf, "},\"geometry\":{\"type\":\"LineString\",\"coordinates\":["...)
-			for k, p := range l.Path {
+			path, np := l.Path, len(l.Path)
+			if tol >= 0 {
+				idx = thinPath(path, tol, idx)
+				np = len(idx)
+			}
+			for k := range np {
+				p := path[k]
+				if tol >= 0 {
+					p = path[idx[k]]
+				}
 				if k > 0 {
 					buf = append(buf, ',')
 				}
