@@ -69,18 +69,12 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 	}
 	sInit := rs.sInit
 	bounds := ls.cellBounds(workers)
-	if ls.vol == nil {
+	// The first map also sums each cell's volume (flux times time of
+	// flight), in the same pass over the segments: every segment, in line
+	// and segment order within each cell range, as a pass of its own did.
+	withVol := ls.vol == nil
+	if withVol {
 		ls.vol = make([]float64, n)
-		forRanges(bounds, func(lo, hi int32) {
-			for i := range ls.q {
-				q := ls.q[i]
-				for s := ls.start[i]; s < ls.start[i+1]; s++ {
-					if c := ls.cell[s]; c >= lo && c < hi {
-						ls.vol[c] += q * (ls.b[s] - ls.a[s])
-					}
-				}
-			}
-		})
 	}
 	sw := make([]float64, n)
 	forRanges(bounds, func(lo, hi int32) {
@@ -95,11 +89,21 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 			if s1-s0 > 1 && ls.b[s1-2] > reach {
 				end = s0 + 1 + sort.Search(s1-s0-1, func(k int) bool { return ls.b[s0+k] > reach })
 			}
+			stop := end
+			if withVol {
+				stop = s1
+			}
 			prev, last := 0.0, s0-1 // integral of S over [0, a] at entry of segment last+1
-			for s := s0; s < end; s++ {
+			for s := s0; s < stop; s++ {
 				c := ls.cell[s]
 				if c < lo || c >= hi {
 					continue
+				}
+				if withVol {
+					ls.vol[c] += q * (ls.b[s] - ls.a[s])
+					if s >= end {
+						continue
+					}
 				}
 				a, b := 0.0, ls.b[s]
 				if s > s0 {
