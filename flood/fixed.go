@@ -145,17 +145,20 @@ func (ls *lineSet) cellBounds(workers int) []int32 {
 	if len(ls.bounds) == workers+1 {
 		return ls.bounds
 	}
-	cnt := make([]int32, n)
+	// Segments per block of 64 cells: the cuts fall between blocks (a
+	// histogram of n/64 counts instead of n).
+	const block = 64
+	cnt := make([]int32, (n+block-1)/block)
 	for _, c := range ls.cell {
-		cnt[c]++
+		cnt[c/block]++
 	}
 	b := make([]int32, workers+1)
 	b[workers] = int32(n)
 	total, acc, r := len(ls.cell), 0, 1
-	for c := 0; c < n && r < workers; c++ {
-		acc += int(cnt[c])
+	for k := 0; k < len(cnt) && r < workers; k++ {
+		acc += int(cnt[k])
 		for r < workers && acc >= r*total/workers {
-			b[r] = int32(c + 1)
+			b[r] = int32(min(n, (k+1)*block))
 			r++
 		}
 	}
