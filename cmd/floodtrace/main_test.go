@@ -399,6 +399,22 @@ func TestDataFlag(t *testing.T) {
 			}
 		}
 	}
+	// A run into the folder of an earlier one draws nothing from the
+	// earlier run's files that it leaves out, and removes them.
+	dir := t.TempDir()
+	for _, data := range []string{"all", "pressure"} {
+		if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--frames", "none", "--size", "640x360", "--data", data); code != 0 {
+			t.Fatalf("--data %s: code %d: %s", data, code, e)
+		}
+	}
+	for _, name := range []string{"tof.asc", "streamlines.geojson", "saturation_3650.asc", "maps/tof.png", "maps/streamlines.png", "maps/saturation_3650.png", "maps/injector_partition.png"} {
+		if _, err := os.Stat(filepath.Join(dir, name)); err == nil {
+			t.Errorf("rerun with --data pressure: %s is in the folder", name)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(dir, "maps", "pressure.png")); err != nil {
+		t.Errorf("rerun with --data pressure: %v", err)
+	}
 	for _, bad := range []string{"maps", "", "tof,,pressure"} {
 		if code, _, e := run(t, "run", demo, "--out", t.TempDir(), "--data", bad); code != exitUsage || !strings.Contains(e, "snapshots") {
 			t.Errorf("--data %q: exit %d, want 2 and the known groups; stderr %q", bad, code, e)

@@ -182,7 +182,7 @@ func runRun(args []string) error {
 		} else {
 			logf("drawing maps, charts and the report")
 		}
-		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal", Summary: summary})
+		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal", Summary: summary, Omit: res.Omit})
 		if err != nil {
 			return fmt.Errorf("drawing pictures: %w", err)
 		}
