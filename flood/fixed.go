@@ -69,18 +69,12 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 	}
 	sInit := rs.sInit
 	bounds := ls.cellBounds(workers)
-	if ls.vol == nil {
+	// The first map also sums each cell's volume (flux times time of
+	// flight), in the same pass over the segments: every segment, in line
+	// and segment order within each cell range, as a pass of its own did.
+	withVol := ls.vol == nil
+	if withVol {
 		ls.vol = make([]float64, n)
-		forRanges(bounds, func(lo, hi int32) {
-			for i := range ls.q {
-				q := ls.q[i]
-				for s := ls.start[i]; s < ls.start[i+1]; s++ {
-					if c := ls.cell[s]; c >= lo && c < hi {
-						ls.vol[c] += q * (ls.b[s] - ls.a[s])
-					}
-				}
-			}
-		})
 	}
 	sw := make([]float64, n)
 	forRanges(bounds, func(lo, hi int32) {
@@ -95,11 +89,21 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 			if s1-s0 > 1 && ls.b[s1-2] > reach {
 				end = s0 + 1 + sort.Search(s1-s0-1, func(k int) bool { return ls.b[s0+k] > reach })
 			}
+			stop := end
+			if withVol {
+				stop = s1
+			}
 			prev, last := 0.0, s0-1 // integral of S over [0, a] at entry of segment last+1
-			for s := s0; s < end; s++ {
+			for s := s0; s < stop; s++ {
 				c := ls.cell[s]
 				if c < lo || c >= hi {
 					continue
+				}
+				if withVol {
+					ls.vol[c] += q * (ls.b[s] - ls.a[s])
+					if s >= end {
+						continue
+					}
 				}
 				a, b := 0.0, ls.b[s]
 				if s > s0 {
@@ -141,17 +145,20 @@ func (ls *lineSet) cellBounds(workers int) []int32 {
 	if len(ls.bounds) == workers+1 {
 		return ls.bounds
 	}
-	cnt := make([]int32, n)
+	// Segments per block of 64 cells: the cuts fall between blocks (a
+	// histogram of n/64 counts instead of n).
+	const block = 64
+	cnt := make([]int32, (n+block-1)/block)
 	for _, c := range ls.cell {
-		cnt[c]++
+		cnt[c/block]++
 	}
 	b := make([]int32, workers+1)
 	b[workers] = int32(n)
 	total, acc, r := len(ls.cell), 0, 1
-	for c := 0; c < n && r < workers; c++ {
-		acc += int(cnt[c])
+	for k := 0; k < len(cnt) && r < workers; k++ {
+		acc += int(cnt[k])
 		for r < workers && acc >= r*total/workers {
-			b[r] = int32(c + 1)
+			b[r] = int32(min(n, (k+1)*block))
 			r++
 		}
 	}
@@ -233,13 +240,15 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 
 	// Per report time: outlet water cut and exact cumulative volumes per
 	// streamline (Welge 1952: water in place from the average saturation).
-	wcSum := make([]float64, np)
-	wSum := make([]float64, np) // sum q*tau*(Savg-swi): oil produced
-	vSum := make([]float64, np) // sum q*tau*Savg
-	for k, t := range times {
-		clear(wcSum)
-		clear(wSum)
-		clear(vSum)
+	// The report times are independent: they are summed in parallel, each
+	// over the lines in line order, so the sums do not depend on the
+	// number of cores.
+	sums := make([]float64, 3*np*nt)
+	parallel.Each(nt, s.Workers, 4, func(_, k int) {
+		t := times[k]
+		wcSum := sums[3*np*k : 3*np*k+np]
+		wSum := sums[3*np*k+np : 3*np*k+2*np]  // sum q*tau*(Savg-swi): oil produced
+		vSum := sums[3*np*k+2*np : 3*np*(k+1)] // sum q*tau*Savg
 		for i := range ls.q {
 			p := ls.prod[i]
 			if p < 0 || prodOf[p] < 0 {
@@ -252,6 +261,11 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			wSum[pi] += q * (cs - T*swi)
 			vSum[pi] += q * cs
 		}
+	})
+	for k, t := range times {
+		wcSum := sums[3*np*k : 3*np*k+np]
+		wSum := sums[3*np*k+np : 3*np*k+2*np]
+		vSum := sums[3*np*k+2*np : 3*np*(k+1)]
 		for pi := range r.Producers {
 			P := &r.Producers[pi]
 			if lineFlux[pi] == 0 {

@@ -8,6 +8,7 @@ import (
 
 	"floodtrace/pressure"
 	"floodtrace/reservoir"
+	"floodtrace/runfolder"
 	"floodtrace/streamline"
 	"floodtrace/transport"
 )
@@ -20,6 +21,10 @@ type Settings struct {
 	// Workers is the number of goroutines for tracing; 0 = all cores.
 	// Results do not depend on it.
 	Workers int
+	// NoPaths keeps no streamline polylines (streamline.Line.Path): for a
+	// run that writes no streamlines.geojson (Result.Omit holds
+	// runfolder.DataStreamlines). The zero value keeps them.
+	NoPaths bool
 	// Frames is how many saturation maps to keep for the animation
 	// (runfolder.FramesAuto, the zero value: up to 40, fewer on very large
 	// grids; runfolder.FramesNone or any negative value: none; N > 0: N).
@@ -109,6 +114,9 @@ type Result struct {
 	// runfolder.RastersASC (or "") for GIS ASCII grids,
 	// runfolder.RastersTIF for GeoTIFF.
 	Rasters string
+	// Omit is the set of data groups WriteData leaves out (the --data
+	// flag: runfolder.Data); the zero value writes every file.
+	Omit runfolder.Data
 	// Pressure is the first pressure solution and Trace its streamlines.
 	// In a fixed-streamline run the lines' Cells and Tau are released once
 	// mapped (the run keeps them in its own flat arrays); Path, fluxes,
@@ -246,7 +254,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	}
 	logf("streamlines: tracing %d", count)
 	field := Field(m, sol)
-	tr, err := streamline.Trace(field, streamline.Settings{Count: count, Workers: s.Workers, KeepPaths: true, MaxPathPoints: MaxPathPoints})
+	tr, err := streamline.Trace(field, streamline.Settings{Count: count, Workers: s.Workers, KeepPaths: !s.NoPaths, MaxPathPoints: MaxPathPoints})
 	if err != nil {
 		return nil, err
 	}

@@ -87,7 +87,11 @@ func (r *Result) Summary() *runfolder.Summary {
 		s.EndDays = F(r.FieldLimitDay)
 	}
 	for _, sn := range r.Snapshots {
-		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: runfolder.RasterName(runfolder.SnapshotName(sn.Time), r.Rasters), Date: m.Date(sn.Time)})
+		file := "" // not written (Omit)
+		if !r.Omit.Has(runfolder.DataSnapshots) {
+			file = runfolder.RasterName(runfolder.SnapshotName(sn.Time), r.Rasters)
+		}
+		s.Snapshots = append(s.Snapshots, runfolder.Snapshot{TimeDays: F(sn.Time), PVI: F(sn.PVI), File: file, Date: m.Date(sn.Time)})
 	}
 	if !m.StartDate.IsZero() {
 		s.StartDate, s.EndDate = m.Date(0), m.Date(m.Run.End)
@@ -122,10 +126,12 @@ func surfaceOutputs(m *reservoir.Model) bool {
 	return f.FVFGiven || f.OilFVF > 0 && f.OilFVF != 1 || f.WaterFVF > 0 && f.WaterFVF != 1
 }
 
-// WriteData writes every data file of the run (all but summary.json and
-// the pictures) into d.
+// WriteData writes the data files of the run (all but summary.json and
+// the pictures) into d: the tables, and the rasters and polylines of the
+// groups not in r.Omit.
 func (r *Result) WriteData(d *outdir.Dir) error {
 	m := r.Model
+	want := func(g runfolder.Data) bool { return !r.Omit.Has(g) }
 	// With start_date every time_days column has a date column beside it.
 	dated := !m.StartDate.IsZero()
 	surface := surfaceOutputs(m)
@@ -308,7 +314,8 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	if err := pairs(runfolder.FPhiFile, runfolder.FPhiColumns, r.Phi, r.F); err != nil {
 		return err
 	}
-	if err := pairs(runfolder.SweepFile, runfolder.SweepColumns, r.TD, r.Sweep); err != nil {
+	td, sweep := sweepRows(r.TD, r.Sweep)
+	if err := pairs(runfolder.SweepFile, runfolder.SweepColumns, td, sweep); err != nil {
 		return err
 	}
 	raster := func(name string, v []float64) error {
@@ -328,39 +335,47 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 		}
 		return d.Bytes(runfolder.PRJName(name), []byte(m.CRS.WKT+"\n"))
 	}
-	if r.Pressure != nil {
+	if r.Pressure != nil && want(runfolder.DataPressure) {
 		if err := raster(runfolder.PressureFile, r.Pressure.P); err != nil {
 			return err
 		}
 	}
-	if m.DepthFile != "" && m.Depth != nil {
+	if m.DepthFile != "" && m.Depth != nil && want(runfolder.DataDepth) {
 		if err := raster(runfolder.DepthFile, m.Depth); err != nil {
 			return err
 		}
 	}
 	if r.Trace != nil {
-		if err := raster(runfolder.TOFFile, r.Trace.TOF); err != nil {
-			return err
-		}
-		if err := raster(runfolder.ProducerTOFFile, r.Trace.BackTOF); err != nil {
-			return err
-		}
-		for name, part := range map[string][]int{runfolder.InjectorPartFile: r.Trace.InjectorPartition, runfolder.ProducerPartFile: r.Trace.ProducerPartition} {
-			v := make([]float64, len(part))
-			for k, p := range part {
-				v[k] = float64(p + 1)
+		if want(runfolder.DataTOF) {
+			if err := raster(runfolder.TOFFile, r.Trace.TOF); err != nil {
+				return err
 			}
-			if err := raster(name, v); err != nil {
+			if err := raster(runfolder.ProducerTOFFile, r.Trace.BackTOF); err != nil {
 				return err
 			}
 		}
-		if err := d.Create(runfolder.StreamlinesFile, r.writeGeoJSON); err != nil {
-			return err
+		if want(runfolder.DataPartitions) {
+			for name, part := range map[string][]int{runfolder.InjectorPartFile: r.Trace.InjectorPartition, runfolder.ProducerPartFile: r.Trace.ProducerPartition} {
+				v := make([]float64, len(part))
+				for k, p := range part {
+					v[k] = float64(p + 1)
+				}
+				if err := raster(name, v); err != nil {
+					return err
+				}
+			}
+		}
+		if want(runfolder.DataStreamlines) {
+			if err := d.Create(runfolder.StreamlinesFile, r.writeGeoJSON); err != nil {
+				return err
+			}
 		}
 	}
-	for _, sn := range r.Snapshots {
-		if err := raster(runfolder.SnapshotName(sn.Time), sn.Sw); err != nil {
-			return err
+	if want(runfolder.DataSnapshots) {
+		for _, sn := range r.Snapshots {
+			if err := raster(runfolder.SnapshotName(sn.Time), sn.Sw); err != nil {
+				return err
+			}
 		}
 	}
 	for _, sn := range r.Frames {
@@ -370,6 +385,42 @@ func (r *Result) WriteData(d *outdir.Dir) error {
 	}
 	return nil
 }
+
+// SweepRows is the most rows sweep.csv holds as the curve is computed
+// (one per distinct travel time, so up to one per cell); a longer curve
+// is written thinned to within SweepTolerance (thinCurve), so that a
+// million-cell run writes a few hundred rows instead of a million, and a
+// small case's file is unchanged.
+const (
+	SweepRows      = 10000
+	SweepTolerance = 1e-6
+)
+
+// sweepRows returns the rows of sweep.csv: the curve itself up to
+// SweepRows points, else the points thinCurve keeps within
+// SweepTolerance of the sweep efficiency.
+func sweepRows(td, ev []float64) ([]float64, []float64) {
+	n := min(len(td), len(ev))
+	if n <= SweepRows {
+		return td[:n], ev[:n]
+	}
+	keep := thinCurve(td, ev, SweepTolerance)
+	x, y := make([]float64, len(keep)), make([]float64, len(keep))
+	for i, k := range keep {
+		x[i], y[i] = td[k], ev[k]
+	}
+	return x, y
+}
+
+// PathPoints is the most points streamlines.geojson holds as traced (in
+// all its polylines, each already cut to MaxPathPoints); above it every
+// polyline is thinned to within PathTolerance cells (the smaller cell
+// side) of its traced points: 4.3 million points become 1.8 million at a
+// million cells, and small cases are written whole.
+const (
+	PathPoints    = 1_000_000
+	PathTolerance = 0.1
+)
 
 // WriteSummary writes summary.json; call it last.
 func (r *Result) WriteSummary(d *outdir.Dir) error {
@@ -398,6 +449,16 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 		return strconv.AppendQuote(buf, m.Wells[i].Name)
 	}
 	lines := r.Trace.Lines
+	// Large sets of polylines are thinned to within PathTolerance cells
+	// of the traced points (thinPath); small ones are written whole.
+	points := 0
+	for i := range lines {
+		points += len(lines[i].Path)
+	}
+	tol := -1.0
+	if points > PathPoints {
+		tol = PathTolerance * math.Min(m.Grid.DX, m.Grid.DY)
+	}
 	first := len(lines) // the first line written has no comma before it
 	for i := range lines {
 		if len(lines[i].Path) >= 2 {
@@ -406,6 +467,7 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 		}
 	}
 	err := runfolder.WriteBands(w, len(lines), 64, func(lo, hi int, buf []byte) []byte {
+		var idx []int
 		for i := lo; i < hi; i++ {
 			l := &lines[i]
 			if len(l.Path) < 2 {
@@ -423,7 +485,16 @@ func (r *Result) writeGeoJSON(w io.Writer) error {
 			buf = append(buf, ",\"tof_days\":"...)
 			buf = runfolder.AppendJSONNum(buf, l.TotalTau)
 			buf = append(buf, "},\"geometry\":{\"type\":\"LineString\",\"coordinates\":["...)
-			for k, p := range l.Path {
+			path, np := l.Path, len(l.Path)
+			if tol >= 0 {
+				idx = thinPath(path, tol, idx)
+				np = len(idx)
+			}
+			for k := range np {
+				p := path[k]
+				if tol >= 0 {
+					p = path[idx[k]]
+				}
 				if k > 0 {
 					buf = append(buf, ',')
 				}

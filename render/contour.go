@@ -337,7 +337,7 @@ func meanDip(g reservoir.Grid, d []float64, on func(int) bool) (dip, az float64,
 // readStructure reads depth.asc, when the run wrote one (rock.depth as a
 // map), into the scene: its contours and dip are drawn on every map.
 func (r *run) readStructure() error {
-	p := runfolder.FindRaster(r.dir, runfolder.DepthFile)
+	p := r.raster(runfolder.DataDepth, runfolder.DepthFile)
 	if !exists(p) {
 		return nil
 	}

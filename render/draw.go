@@ -6,6 +6,8 @@ import (
 	"image/color"
 	"math"
 	"sort"
+
+	"floodtrace/internal/parallel"
 )
 
 // Polyline is a streamline in map coordinates. TOF, when it has one value
@@ -25,16 +27,24 @@ type Polyline struct {
 func cellColours(s Scene, values []float64, sc Scale) []color.RGBA {
 	cm := sc.colormap()
 	col := make([]color.RGBA, len(values))
-	for k, v := range values {
-		switch {
-		case s.Active != nil && !s.Active[k]:
-			col[k] = colInactive
-		case math.IsNaN(v):
-			col[k] = color.RGBA{}
-		default:
-			col[k] = cm.At(sc.T(v))
-		}
+	// Each cell's colour is its own: large grids are coloured in pieces
+	// in parallel (a million cells take about 20 ms on one core).
+	pieces := 1
+	if len(values) >= 1<<16 {
+		pieces = 16
 	}
+	parallel.Pieces(len(values), pieces, 0, func(_, lo, hi int) {
+		for k := lo; k < hi; k++ {
+			switch v := values[k]; {
+			case s.Active != nil && !s.Active[k]:
+				col[k] = colInactive
+			case math.IsNaN(v):
+				col[k] = color.RGBA{}
+			default:
+				col[k] = cm.At(sc.T(v))
+			}
+		}
+	})
 	return col
 }
 

@@ -41,6 +41,10 @@ type Options struct {
 	// summary.json: a run draws its pictures before it writes
 	// summary.json, which marks the folder as finished.
 	Summary *runfolder.Summary
+	// Omit lists the data groups the run did not write (run --data): the
+	// pictures drawn from them are left out even if a file of their name
+	// is in the folder, from an earlier run. The zero value omits none.
+	Omit runfolder.Data
 }
 
 // Report lists what Run wrote.
@@ -259,6 +263,16 @@ func (r *run) readASC(path string) ([]float64, error) {
 
 func exists(p string) bool { _, err := os.Stat(p); return err == nil }
 
+// raster returns the path of the run-folder raster name of data group g
+// (runfolder.FindRaster), or "" when the run left g out (Options.Omit):
+// a file of that name would be left from an earlier run.
+func (r *run) raster(g runfolder.Data, name string) string {
+	if r.opt.Omit.Has(g) {
+		return ""
+	}
+	return runfolder.FindRaster(r.dir, name)
+}
+
 // prepare builds the scene (active cells from the rasters) and the shared
 // colour scales.
 func (r *run) prepare() error {
@@ -303,7 +317,7 @@ func (r *run) prepare() error {
 	if len(sat0) > 0 {
 		candidates = append(candidates, sat0[0].Path)
 	}
-	candidates = append(candidates, runfolder.FindRaster(r.dir, runfolder.TOFFile), runfolder.FindRaster(r.dir, runfolder.PressureFile))
+	candidates = append(candidates, r.raster(runfolder.DataTOF, runfolder.TOFFile), r.raster(runfolder.DataPressure, runfolder.PressureFile))
 	for i, p := range candidates {
 		if !exists(p) {
 			continue
@@ -351,6 +365,11 @@ func (r *run) prepare() error {
 		if r.satSc.Max <= r.satSc.Min {
 			r.satSc.Min, r.satSc.Max = 0, 1
 		}
+	} else {
+		// No saturation map in the folder (run --data without
+		// snapshots): the maps drawn over the saturation show none, on
+		// the full scale.
+		r.satSc.Min, r.satSc.Max = 0, 1
 	}
 
 	if r.opt.Minimal {
@@ -363,7 +382,7 @@ func (r *run) prepare() error {
 	// Time of flight: stagnant corners reach huge values, so the scale
 	// spans the 1st to 99th percentiles and the bar shows the clipping.
 	r.tofSc = Scale{Label: "Time of flight", Unit: "days from injection, log scale", Log: true, Map: &TimeOfFlightColors}
-	if p := runfolder.FindRaster(r.dir, runfolder.TOFFile); exists(p) {
+	if p := r.raster(runfolder.DataTOF, runfolder.TOFFile); exists(p) {
 		v, err := readASC(p, g)
 		if err != nil {
 			return err
@@ -415,14 +434,17 @@ func niceLogCeil(v float64) float64 {
 	return 10 * p
 }
 
-// snapshotFiles lists the saturation snapshots of the summary (or, when
-// it names none, the saturation_<day>.asc files in the folder).
+// snapshotFiles lists the saturation snapshots of the summary that were
+// written (a snapshot whose file is empty was not), or, when the summary
+// lists none, the saturation_<day>.asc files in the folder.
 func (r *run) snapshotFiles() []frameFile {
 	var out []frameFile
 	for _, s := range r.sum.Snapshots {
 		name := s.File
 		if name == "" {
-			name = runfolder.SnapshotName(float64(s.TimeDays))
+			// Not written (run --data without snapshots): a file of that
+			// name would be left from an earlier run in the folder.
+			continue
 		}
 		p := filepath.Join(r.dir, filepath.Base(name))
 		if exists(p) {
@@ -536,7 +558,7 @@ func (r *run) saturationMaps() error {
 
 func (r *run) streamlineMap() error {
 	p := filepath.Join(r.dir, runfolder.StreamlinesFile)
-	if !exists(p) {
+	if r.opt.Omit.Has(runfolder.DataStreamlines) || !exists(p) {
 		r.rep.note("streamlines.geojson missing: no streamline map")
 		return nil
 	}
@@ -568,7 +590,7 @@ func (r *run) streamlineMap() error {
 }
 
 func (r *run) tofMap() error {
-	p := runfolder.FindRaster(r.dir, runfolder.TOFFile)
+	p := r.raster(runfolder.DataTOF, runfolder.TOFFile)
 	if !exists(p) {
 		r.rep.note("tof.asc missing: no time-of-flight map")
 		return nil
@@ -599,7 +621,7 @@ func (r *run) partitionMaps() error {
 		{"injector_partition", "Injector partition", "Injector partition · which injector floods each cell", "Injector partition: the injector whose water reaches each cell first."},
 		{"producer_partition", "Producer partition", "Producer partition · which producer drains each cell", "Producer partition: the producer each cell drains to."},
 	} {
-		p := runfolder.FindRaster(r.dir, pm.file+".asc")
+		p := r.raster(runfolder.DataPartitions, pm.file+".asc")
 		if !exists(p) {
 			r.rep.note("%s.asc missing: no %s map", pm.file, strings.ToLower(pm.title))
 			continue
@@ -629,7 +651,7 @@ func (r *run) partitionMaps() error {
 }
 
 func (r *run) pressureMap() error {
-	p := runfolder.FindRaster(r.dir, runfolder.PressureFile)
+	p := r.raster(runfolder.DataPressure, runfolder.PressureFile)
 	if !exists(p) {
 		r.rep.note("pressure.asc missing: no pressure map")
 		return nil

@@ -142,7 +142,11 @@ func splitFields(s string) ([]string, string) {
 // parseValue parses one map value. NaN and infinities are refused unless
 // they are the NODATA value; a NODATA value becomes NaN.
 func parseValue(tok string, nodata float64, hasNoData bool) (float64, string) {
-	v, err := strconv.ParseFloat(tok, 64)
+	v, ok := parseDecimal(tok)
+	var err error
+	if !ok {
+		v, err = strconv.ParseFloat(tok, 64)
+	}
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
 			return 0, fmt.Sprintf("%q is out of range", tok)
@@ -178,11 +182,12 @@ func checkSize(name string, line int, nx, ny int64, limit int) error {
 // flipped so that index j*nx+i has j = 0 at the south. Row and column
 // numbers in messages count from 1 at the top left of the file.
 //
-// The lines are first collected and checked for their shape (row count,
-// values per row) in file order, up to the first defect; the values are
-// then parsed in parallel bands of rows. The error reported is the one a
-// value-by-value reading meets first: a bad value before the first shape
-// defect, else that defect.
+// The lines are first collected in file order (up to ny+1 rows or a line
+// that cannot be read); the values of each row are then counted and parsed
+// in parallel bands of rows. The error reported is the one a
+// value-by-value reading meets first: the first row, in file order, with
+// the wrong number of values or a bad value (the count first, within a
+// row), else the defect that ended the collection.
 func readRows(lr *lineReader, nx, ny int, nodata float64, hasNoData bool, what string) ([]float64, error) {
 	var first []string // a row the header reader pushed back
 	if lr.pending != nil {
@@ -190,35 +195,27 @@ func readRows(lr *lineReader, nx, ny int, nodata float64, hasNoData bool, what s
 	}
 	var arena []byte // the text of the rows after first
 	var ends []int   // end of each row in arena
-	var shapeErr error
+	var lines []int  // file line of each row in arena
+	var endErr error // what ended the collection early
 	rows := 0
 	if first != nil {
 		rows = 1
 		if len(first) != nx {
-			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", 1, len(first), nx)}
+			endErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", 1, len(first), nx)}
 		}
 	}
-	for shapeErr == nil {
+	for endErr == nil {
 		b, err := lr.nextLine()
 		if err != nil {
-			shapeErr = err
+			endErr = err
 			break
 		}
 		if b == nil {
 			break
 		}
-		nf, msg := countFields(b)
-		if msg != "" {
-			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: msg}
-			break
-		}
 		rows++
 		if rows > ny {
-			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("more than %d rows; expected %d (%s)", ny, ny, what)}
-			break
-		}
-		if nf != nx {
-			shapeErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("row %d has %d values; expected %d", rows, nf, nx)}
+			endErr = &InputError{Path: lr.name, Line: lr.line, Msg: fmt.Sprintf("more than %d rows; expected %d (%s)", ny, ny, what)}
 			break
 		}
 		if arena == nil {
@@ -227,20 +224,23 @@ func readRows(lr *lineReader, nx, ny int, nodata float64, hasNoData bool, what s
 			expect := min(ny-rows+1, (256<<20)/(len(b)+len(b)/8))
 			arena = make([]byte, 0, expect*(len(b)+len(b)/8))
 			ends = make([]int, 0, expect)
+			lines = make([]int, 0, expect)
 		}
 		arena = append(arena, b...)
 		ends = append(ends, len(arena))
+		lines = append(lines, lr.line)
 	}
 	nfirst := 0
 	if first != nil && len(first) == nx {
 		nfirst = 1
 	}
 	nrows := nfirst + len(ends)
+	complete := endErr == nil && nrows == ny
 	vals := make([]float64, nrows*nx)
 	// Row r (north first) goes to j = ny-1-r when the file is complete;
 	// otherwise the values are dropped anyway.
 	dst := func(r int) []float64 {
-		if nrows == ny {
+		if complete {
 			return vals[(ny-1-r)*nx : (ny-r)*nx]
 		}
 		return vals[r*nx : (r+1)*nx]
@@ -255,36 +255,23 @@ func readRows(lr *lineReader, nx, ny int, nodata float64, hasNoData bool, what s
 			out[c] = v
 		}
 	}
-	if err := parseRowsParallel(arena, ends, func(r int) []float64 { return dst(nfirst + r) }, nodata, hasNoData, func(r, col int, msg string) error {
-		return &InputError{Path: lr.name, Row: nfirst + r + 1, Col: col, Msg: msg}
-	}); err != nil {
-		return nil, err
+	if bad := parseRowsParallel(arena, ends, nx, func(r int) []float64 { return dst(nfirst + r) }, nodata, hasNoData); bad.msg != "" || bad.count >= 0 {
+		row := nfirst + bad.row + 1
+		switch {
+		case bad.count >= 0:
+			return nil, &InputError{Path: lr.name, Line: lines[bad.row], Msg: fmt.Sprintf("row %d has %d values; expected %d", row, bad.count, nx)}
+		case bad.col == 0:
+			return nil, &InputError{Path: lr.name, Line: lines[bad.row], Msg: bad.msg}
+		}
+		return nil, &InputError{Path: lr.name, Row: row, Col: bad.col, Msg: bad.msg}
 	}
-	if shapeErr != nil {
-		return nil, shapeErr
+	if endErr != nil {
+		return nil, endErr
 	}
 	if rows < ny {
 		return nil, &InputError{Path: lr.name, Msg: fmt.Sprintf("only %d rows; expected %d (%s)", rows, ny, what)}
 	}
 	return vals, nil
-}
-
-// countFields counts the values of a trimmed row as splitFields splits
-// them, without allocating for rows of ASCII text without commas.
-func countFields(b []byte) (int, string) {
-	if bytes.IndexByte(b, ',') >= 0 || !isASCII(b) {
-		f, msg := splitFields(string(b))
-		return len(f), msg
-	}
-	n, in := 0, false
-	for _, c := range b {
-		sp := asciiSpace(c)
-		if !sp && !in {
-			n++
-		}
-		in = !sp
-	}
-	return n, ""
 }
 
 func isASCII(b []byte) bool {
@@ -301,71 +288,96 @@ func asciiSpace(c byte) bool {
 	return c == ' ' || c == '\t' || c == '\n' || c == '\v' || c == '\f' || c == '\r'
 }
 
-// parseRowsParallel parses rows arena[ends[r-1]:ends[r]] (each already
-// known to hold the right number of values) into dst(r), in bands of rows
-// on up to GOMAXPROCS goroutines. On bad values it returns fail for the
-// first one in row order.
-func parseRowsParallel(arena []byte, ends []int, dst func(r int) []float64, nodata float64, hasNoData bool, fail func(r, col int, msg string) error) error {
+// badRow is the first defect parseRowsParallel met: in row (0-based in
+// its rows), count >= 0 values where nx were expected, else msg, at column
+// col (1-based), or for the whole row when col is 0 (a malformed row). The
+// zero defect has count -1 and no msg.
+type badRow struct {
+	row, col, count int
+	msg             string
+}
+
+// parseRowsParallel counts and parses the rows arena[ends[r-1]:ends[r]]
+// into dst(r), in bands of rows on up to GOMAXPROCS goroutines, and
+// returns the first defect in row order: a row whose values are not nx
+// (as splitFields splits them), or a bad value.
+func parseRowsParallel(arena []byte, ends []int, nx int, dst func(r int) []float64, nodata float64, hasNoData bool) badRow {
+	none := badRow{count: -1}
 	n := len(ends)
 	if n == 0 {
-		return nil
+		return none
 	}
 	const band = 16
 	nb := (n + band - 1) / band
-	type bad struct {
-		row, col int
-		msg      string
-	}
-	errs := make([]bad, nb)
-	parseRow := func(r int) (int, string) {
+	errs := make([]badRow, nb)
+	// parseRow returns the row's defect, if any, as (count, col, msg).
+	parseRow := func(r int) (int, int, string) {
 		lo := 0
 		if r > 0 {
 			lo = ends[r-1]
 		}
 		line := arena[lo:ends[r]]
 		out := dst(r)
-		if bytes.IndexByte(line, ',') >= 0 || !isASCII(line) {
-			f, _ := splitFields(string(line))
+		slow := func() (int, int, string) {
+			f, msg := splitFields(string(line))
+			if msg != "" {
+				return -1, 0, msg
+			}
+			if len(f) != nx {
+				return len(f), 0, ""
+			}
 			for c, tok := range f {
 				v, msg := parseValue(tok, nodata, hasNoData)
 				if msg != "" {
-					return c + 1, msg
+					return -1, c + 1, msg
 				}
 				out[c] = v
 			}
-			return 0, ""
+			return -1, 0, ""
 		}
-		c := 0
+		// Values are parsed as they are counted; the first bad one is
+		// kept, and reported only when the count is right.
+		c, badCol, badMsg := 0, 0, ""
 		for i := 0; i < len(line); {
 			for i < len(line) && asciiSpace(line[i]) {
 				i++
 			}
 			j := i
 			for j < len(line) && !asciiSpace(line[j]) {
+				if ch := line[j]; ch == ',' || ch >= 0x80 {
+					return slow()
+				}
 				j++
 			}
 			if j == i {
 				break
 			}
-			// The token is only read during the call: no copy needed.
-			v, msg := parseValue(unsafe.String(&line[i], j-i), nodata, hasNoData)
-			if msg != "" {
-				return c + 1, msg
+			if c < nx && badMsg == "" {
+				// The token is only read during the call: no copy needed.
+				v, msg := parseValue(unsafe.String(&line[i], j-i), nodata, hasNoData)
+				if msg != "" {
+					badCol, badMsg = c+1, msg
+				} else {
+					out[c] = v
+				}
 			}
-			out[c] = v
 			c++
 			i = j
 		}
-		return 0, ""
+		if c != nx {
+			return c, 0, ""
+		}
+		return -1, badCol, badMsg
 	}
 	var stop atomic.Int64 // lowest band with an error, plus one (0: none)
 	parallel.Each(nb, 0, 1, func(_, b int) {
+		errs[b] = none
 		if s := stop.Load(); s > 0 && int(s) <= b {
 			return // an earlier band already failed
 		}
 		for r := b * band; r < min((b+1)*band, n); r++ {
-			if col, msg := parseRow(r); msg != "" {
-				errs[b] = bad{r, col, msg}
+			if count, col, msg := parseRow(r); count >= 0 || msg != "" {
+				errs[b] = badRow{r, col, count, msg}
 				for {
 					s := stop.Load()
 					if (s > 0 && int(s) <= b+1) || stop.CompareAndSwap(s, int64(b+1)) {
@@ -377,11 +389,11 @@ func parseRowsParallel(arena []byte, ends []int, dst func(r int) []float64, noda
 		}
 	})
 	for _, e := range errs {
-		if e.msg != "" {
-			return fail(e.row, e.col, e.msg)
+		if e.count >= 0 || e.msg != "" {
+			return e
 		}
 	}
-	return nil
+	return none
 }
 
 // ReadASCIIRaster reads a GIS ASCII raster from r; name is used in

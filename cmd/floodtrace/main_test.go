@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strings"
 	"testing"
 
@@ -269,19 +270,13 @@ func TestFramesFlag(t *testing.T) {
 		t.Errorf("--frames auto wrote %d frames, want 40", len(ents))
 	}
 	// --pictures minimal draws no animation: auto keeps no frames then,
-	// a count still keeps that many; the other data files are those of
-	// --pictures none.
+	// a count still keeps that many (its data files: TestDataFlag).
 	minimal := t.TempDir()
 	if code, _, e := run(t, "run", demo, "--out", minimal, "-q", "--pictures", "minimal"); code != 0 {
 		t.Fatalf("code %d: %s", code, e)
 	}
 	if _, err := os.Stat(filepath.Join(minimal, "frames")); err == nil {
 		t.Error("--pictures minimal wrote animation frames")
-	}
-	for _, name := range []string{"tof.asc", "pressure.asc", "streamlines.geojson", "summary.json"} {
-		if _, err := os.Stat(filepath.Join(minimal, name)); err != nil {
-			t.Errorf("--pictures minimal: %v", err)
-		}
 	}
 	minimal = t.TempDir()
 	if code, _, e := run(t, "run", demo, "--out", minimal, "-q", "--pictures", "minimal", "--frames", "3"); code != 0 {
@@ -315,6 +310,118 @@ func TestFramesFlag(t *testing.T) {
 // TestSolverErrorIsInternal checks that a breakdown of the pressure solver
 // on a validated case reaches the user as an internal error, exit code 3,
 // saying what broke.
+// TestDataFlag: --data chooses the rasters and polylines beside the
+// tables (runfolder.Data). auto writes them all with --pictures all or
+// none and only the snapshots with --pictures minimal; a list writes
+// exactly its groups; every file written is byte-identical to the same
+// file of a run that writes them all; render and compare work on a folder
+// of tables only; an unknown group is a usage error.
+func TestDataFlag(t *testing.T) {
+	heavy := []string{"pressure.asc", "tof.asc", "tof_producers.asc", "injector_partition.asc", "producer_partition.asc", "streamlines.geojson", "saturation_3650.asc"}
+	folder := func(args ...string) (string, map[string][]byte) {
+		t.Helper()
+		dir := t.TempDir()
+		if code, _, e := run(t, append([]string{"run", demo, "--out", dir, "-q", "--frames", "none"}, args...)...); code != 0 {
+			t.Fatalf("%v: code %d: %s", args, code, e)
+		}
+		files := map[string][]byte{}
+		ents, _ := os.ReadDir(dir)
+		for _, e := range ents {
+			if !e.IsDir() && !strings.HasPrefix(e.Name(), ".") {
+				b, err := os.ReadFile(filepath.Join(dir, e.Name()))
+				if err != nil {
+					t.Fatal(err)
+				}
+				files[e.Name()] = b
+			}
+		}
+		return dir, files
+	}
+	_, all := folder("--pictures", "none")
+	for _, name := range heavy {
+		if all[name] == nil {
+			t.Fatalf("--pictures none (data auto) did not write %s", name)
+		}
+	}
+	for _, c := range []struct {
+		args []string
+		want []string // of heavy
+	}{
+		{[]string{"--pictures", "minimal"}, []string{"saturation_3650.asc"}},
+		{[]string{"--pictures", "minimal", "--data", "all"}, heavy},
+		{[]string{"--pictures", "none", "--data", "tof,streamlines"}, []string{"tof.asc", "tof_producers.asc", "streamlines.geojson"}},
+		{[]string{"--pictures", "none", "--data", "Pressure, partitions"}, []string{"pressure.asc", "injector_partition.asc", "producer_partition.asc"}},
+		{[]string{"--pictures", "none", "--data", "tables"}, nil},
+	} {
+		dir, files := folder(c.args...)
+		for _, name := range heavy {
+			if got, want := files[name] != nil, slices.Contains(c.want, name); got != want {
+				t.Errorf("%v: %s written %v, want %v", c.args, name, got, want)
+			}
+		}
+		for name, b := range files {
+			if name == "summary.json" {
+				continue
+			}
+			if !bytes.Equal(b, all[name]) {
+				t.Errorf("%v: %s differs from the run that writes every file", c.args, name)
+			}
+		}
+		for _, name := range []string{"summary.json", "producers.csv", "field.csv", "wells.csv", "sweep.csv", "f_phi.csv", "allocation.csv"} {
+			if files[name] == nil {
+				t.Errorf("%v: no %s", c.args, name)
+			}
+		}
+		// The summary names a snapshot file only when it is written.
+		var sum struct {
+			Snapshots []struct{ File string } `json:"snapshots"`
+		}
+		if err := json.Unmarshal(files["summary.json"], &sum); err != nil || len(sum.Snapshots) == 0 {
+			t.Fatalf("%v: summary.json: %v", c.args, err)
+		}
+		for _, sn := range sum.Snapshots {
+			if written := slices.Contains(c.want, "saturation_3650.asc"); (sn.File != "") != written {
+				t.Errorf("%v: snapshot file %q, written %v", c.args, sn.File, written)
+			}
+		}
+		if slices.Contains(c.args, "minimal") {
+			if m, _ := filepath.Glob(filepath.Join(dir, "maps", "saturation_*.png")); len(m) != 1 {
+				t.Errorf("%v: %d saturation maps drawn, want 1", c.args, len(m))
+			}
+		}
+		if slices.Contains(c.args, "tables") {
+			// What the folder lacks is noted, not an error.
+			if code, _, e := run(t, "render", dir, "--size", "640x360"); code != 0 {
+				t.Errorf("render of a tables-only folder: code %d: %s", code, e)
+			}
+			if code, _, e := run(t, "compare", dir, dir, "--out", filepath.Join(t.TempDir(), "compare.png")); code != 0 {
+				t.Errorf("compare of a tables-only folder: code %d: %s", code, e)
+			}
+		}
+	}
+	// A run into the folder of an earlier one draws nothing from the
+	// earlier run's files that it leaves out, and removes them.
+	dir := t.TempDir()
+	for _, data := range []string{"all", "pressure"} {
+		if code, _, e := run(t, "run", demo, "--out", dir, "-q", "--frames", "none", "--size", "640x360", "--data", data); code != 0 {
+			t.Fatalf("--data %s: code %d: %s", data, code, e)
+		}
+	}
+	for _, name := range []string{"tof.asc", "streamlines.geojson", "saturation_3650.asc", "maps/tof.png", "maps/streamlines.png", "maps/saturation_3650.png", "maps/injector_partition.png"} {
+		if _, err := os.Stat(filepath.Join(dir, name)); err == nil {
+			t.Errorf("rerun with --data pressure: %s is in the folder", name)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(dir, "maps", "pressure.png")); err != nil {
+		t.Errorf("rerun with --data pressure: %v", err)
+	}
+	for _, bad := range []string{"maps", "", "tof,,pressure"} {
+		if code, _, e := run(t, "run", demo, "--out", t.TempDir(), "--data", bad); code != exitUsage || !strings.Contains(e, "snapshots") {
+			t.Errorf("--data %q: exit %d, want 2 and the known groups; stderr %q", bad, code, e)
+		}
+	}
+}
+
 func TestSolverErrorIsInternal(t *testing.T) {
 	register(&command{Name: "zz-solver", Usage: "zz-solver", Short: "test", Long: "Example: none", Run: func([]string) error {
 		return fmt.Errorf("flood: solve at day 0: %w", &pressure.SolverError{Stage: "preconditioner", Unknowns: 12, Err: errors.New("sparse: incomplete Cholesky: diagonal entry 0 is +Inf, not positive")})

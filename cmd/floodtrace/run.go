@@ -28,6 +28,7 @@ var runFlags struct {
 	noPictures  bool
 	pictures    string
 	frames      framesValue
+	data        string
 	quiet       bool
 	engine      string
 	updates     int
@@ -54,6 +55,8 @@ Examples:
   floodtrace run case.yaml --out runs/quick --pictures none
   floodtrace run case.yaml --out runs/nogif --frames none
   floodtrace run case.yaml --out runs/fast --pictures minimal
+  floodtrace run case.yaml --out runs/gis --pictures minimal --data tof,streamlines
+  floodtrace run case.yaml --out runs/tables --pictures none --data tables
   floodtrace run case.yaml --out runs/updated --updates 20
   floodtrace run case.yaml --out runs/grid --engine grid`,
 		NArgs: exactly(1),
@@ -68,6 +71,11 @@ Examples:
 			fs.StringVar(&runFlags.format, "format", "png", "chart format: png or svg")
 			fs.StringVar(&runFlags.rasters, "rasters", runfolder.RastersASC, "raster format: asc (GIS ASCII grids) or tif (GeoTIFF: float32, Deflate, tiled)")
 			runFlags.frames = framesValue(runfolder.FramesAuto)
+			// --data chooses the rasters and polylines written beside the
+			// tables (runfolder.Data; docs/OUTPUTS.md, "Choosing the data
+			// files"). auto is all of them, except with --pictures minimal:
+			// the snapshots only, from which its one picture is drawn.
+			fs.StringVar(&runFlags.data, "data", "auto", "data files beside the tables: auto (all; with --pictures minimal only the snapshots), all, tables, or a list of "+strings.Join(runfolder.DataGroupNames(), ","))
 			fs.Var(&runFlags.frames, "frames", "saturation maps kept for the animation: auto (up to 40, fewer on very large grids; none with --pictures minimal, which draws no animation), none, or a count from 1 to 1000")
 
 			// --pictures minimal draws one map: the saturation at the last
@@ -114,6 +122,17 @@ func runRun(args []string) error {
 		// and 70 MB of text (docs/PERFORMANCE.md).
 		runFlags.frames = runfolder.FramesNone
 	}
+	data := runfolder.DataAll
+	if runFlags.data == "auto" {
+		if runFlags.pictures == "minimal" {
+			// The one picture is drawn from the last snapshot: the other
+			// rasters and the polylines are 120 MB of text at a million
+			// cells that nobody asked for (docs/PERFORMANCE.md).
+			data = runfolder.DataMinimal
+		}
+	} else if data, err = runfolder.ParseData(runFlags.data); err != nil {
+		return usageError{"--data: " + err.Error()}
+	}
 	engine, ok := engineFlags[runFlags.engine]
 	if !ok {
 		return usageError{fmt.Sprintf("--engine must be streamline or grid, not %q", runFlags.engine)}
@@ -139,11 +158,13 @@ func runRun(args []string) error {
 	if err != nil {
 		return err
 	}
-	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: engine, Frames: int(runFlags.frames)})
+	res, err := flood.Run(m, flood.Settings{Streamlines: runFlags.streamlines, Workers: runFlags.workers, Log: logf, Engine: engine, Frames: int(runFlags.frames),
+		NoPaths: !data.Has(runfolder.DataStreamlines)})
 	if err != nil {
 		return err
 	}
 	res.Rasters = runFlags.rasters
+	res.Omit = runfolder.DataAll &^ data
 	logf("writing %s", runFlags.out)
 	if err := res.WriteData(d); err != nil {
 		return err
@@ -161,7 +182,7 @@ func runRun(args []string) error {
 		} else {
 			logf("drawing maps, charts and the report")
 		}
-		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal", Summary: summary})
+		rep, err := render.Run(runFlags.out, render.Options{Width: w, Height: h, Format: runFlags.format, Minimal: runFlags.pictures == "minimal", Summary: summary, Omit: res.Omit})
 		if err != nil {
 			return fmt.Errorf("drawing pictures: %w", err)
 		}
