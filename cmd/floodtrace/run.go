@@ -80,9 +80,10 @@ Examples:
 
 			// --pictures minimal draws one map: the saturation at the last
 			// snapshot (maps/saturation_<day>.png), without the other maps,
-			// the charts, the animation or report.html. The data files are
-			// the same as with --pictures all, except the animation's
-			// frames/ (--frames auto keeps none then; say --frames N for N).
+			// the charts, the animation or report.html. The tables are the
+			// same as with --pictures all; --data auto then writes only the
+			// snapshot rasters and --frames auto keeps no frames/ (say
+			// --data all or --frames N for more).
 			fs.StringVar(&runFlags.pictures, "pictures", "all", "all, minimal (only the last saturation map) or none (data files only; --no-pictures is an alias of none)")
 			// --no-pictures is kept, hidden, as an alias of --pictures none.
 			fs.BoolVar(&runFlags.noPictures, "no-pictures", false, "alias of --pictures none")
