@@ -270,13 +270,12 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		// so that they reuse its memory.
 		runtime.GC()
 	}
-	lines, err := newLineSet(tr, pv)
+	// The lines' cell lists become the segments of lines, without a copy.
+	lines, err := newFixedLineSet(tr, pv)
 	if err != nil {
 		return nil, err
 	}
 	r.Allocation = append(r.Allocation, AllocationBlock{Time: 0, Pairs: tr.Pairs, PoreVolumes: tr.PairVolumes(lines.seg)})
-	// The cell lists now live in lines; drop the tracer's copies.
-	tr.ReleaseCells()
 	if lines.uncovered > 0 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}
