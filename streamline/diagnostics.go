@@ -137,7 +137,8 @@ func Sweep(phi, F []float64) (tD, Ev []float64) {
 	if !validCurve(phi, F) {
 		return nil, nil
 	}
-	tD, Ev = []float64{0}, []float64{0}
+	// At most one point per segment: sized once, not grown by appends.
+	tD, Ev = make([]float64, 1, len(phi)), make([]float64, 1, len(phi))
 	for m := 1; m < len(phi); m++ {
 		dF := F[m] - F[m-1]
 		if !(dF > 0) {

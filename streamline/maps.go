@@ -28,9 +28,20 @@ func (b *builder) maps(lowFlow []bool) *Result {
 		ProducerPartition: make([]int, n),
 		Stagnant:          make([]bool, n),
 	}
-	wF := make([]float64, n) // weights of lines from an injector
-	wB := make([]float64, n) // weights of lines to a producer
-	wT := make([]float64, n) // weights of lines with both
+	// Weights: wF of the lines from an injector, wB of the lines to a
+	// producer, wT of the lines with both. The lines with flux all end at
+	// a producer (assignFluxes gives the others none), so wB is the traced
+	// volume and wT is wF: the same terms in the same order. Only when
+	// that does not hold are they summed apart.
+	wF := make([]float64, n)
+	wB, wT := r.Volume, wF
+	for i := range b.lines {
+		if b.lines[i].Flux > 0 && b.lines[i].Producer < 0 {
+			wB, wT = make([]float64, n), make([]float64, n)
+			break
+		}
+	}
+	apart := &wT[0] != &wF[0]
 	nan := math.NaN()
 	injOrder := b.byWell(func(l *Line) int { return l.Injector })
 	prodOrder := b.byWell(func(l *Line) int { return l.Producer })
@@ -40,8 +51,11 @@ func (b *builder) maps(lowFlow []bool) *Result {
 	parallel.Each(2*ranges, b.workers, 1, func(_, task int) {
 		if task >= ranges {
 			lo, hi := bound(task - ranges)
-			b.partition(r.InjectorPartition, injOrder, lo, hi)
-			b.partition(r.ProducerPartition, prodOrder, lo, hi)
+			best := make([]float64, hi-lo)
+			acc := make([]float64, hi-lo)
+			b.partition(r.InjectorPartition, injOrder, lo, hi, best, acc)
+			clear(best)
+			b.partition(r.ProducerPartition, prodOrder, lo, hi, best, acc)
 			return
 		}
 		lo, hi := bound(task)
@@ -56,7 +70,7 @@ func (b *builder) maps(lowFlow []bool) *Result {
 			tau := taus[start[i]:start[i+1]]
 			tau = tau[:len(seg)]
 			switch {
-			case l.Injector >= 0 && l.Producer >= 0:
+			case !apart && l.Injector >= 0:
 				for m, c := range seg {
 					tm := tau[m]
 					if c >= lo && c < hi {
@@ -65,42 +79,43 @@ func (b *builder) maps(lowFlow []bool) *Result {
 						r.Volume[c] += v
 						wF[c] += v
 						r.TOF[c] += v * mid
-						wB[c] += v
 						r.BackTOF[c] += v * (total - mid)
-						wT[c] += v
 						r.Travel[c] += v * total
 					}
 					cum += tm
 				}
-			case l.Injector >= 0:
+			case !apart:
 				for m, c := range seg {
 					tm := tau[m]
 					if c >= lo && c < hi {
 						v := q * tm
 						mid := cum + 0.5*tm
 						r.Volume[c] += v
-						wF[c] += v
-						r.TOF[c] += v * mid
-					}
-					cum += tm
-				}
-			case l.Producer >= 0:
-				for m, c := range seg {
-					tm := tau[m]
-					if c >= lo && c < hi {
-						v := q * tm
-						mid := cum + 0.5*tm
-						r.Volume[c] += v
-						wB[c] += v
 						r.BackTOF[c] += v * (total - mid)
 					}
 					cum += tm
 				}
 			default:
 				for m, c := range seg {
+					tm := tau[m]
 					if c >= lo && c < hi {
-						r.Volume[c] += q * tau[m]
+						v := q * tm
+						mid := cum + 0.5*tm
+						r.Volume[c] += v
+						if l.Injector >= 0 {
+							wF[c] += v
+							r.TOF[c] += v * mid
+						}
+						if l.Producer >= 0 {
+							wB[c] += v
+							r.BackTOF[c] += v * (total - mid)
+						}
+						if l.Injector >= 0 && l.Producer >= 0 {
+							wT[c] += v
+							r.Travel[c] += v * total
+						}
 					}
+					cum += tm
 				}
 			}
 		}
@@ -155,11 +170,9 @@ func (b *builder) byWell(well func(*Line) int) wellOrder {
 // partition sets part[k], for the cells k of [lo, hi), to the well whose
 // lines carry the largest traced volume through cell k (ties to the lower
 // well index), or -1. Lines are visited well by well, each well's lines in
-// line order, so each cell's sums do not depend on the range.
-func (b *builder) partition(part []int, ord wellOrder, lo, hi int32) {
-	m := int(hi - lo)
-	best := make([]float64, m)
-	acc := make([]float64, m)
+// line order, so each cell's sums do not depend on the range. best and acc
+// are zero scratch of hi-lo values; acc is left zero.
+func (b *builder) partition(part []int, ord wellOrder, lo, hi int32, best, acc []float64) {
 	var touched []int32 // cells of the range whose acc was 0 before an addition
 	for k := lo; k < hi; k++ {
 		part[k] = -1
