@@ -49,11 +49,14 @@ type traced struct {
 	lo, hi    int32
 }
 
-// traceBlockLines is the number of lines traced in parallel before they
-// are appended to the flat storage in order: the block buffers (a few
-// megabytes) are reused from block to block, so the lines are written
-// once into memory touched before and once into the flat arrays.
-const traceBlockLines = 256
+// blockSegments sets the number of lines traced in parallel before they
+// are appended to the flat storage in order: as many as would hold
+// blockSegments segments if each crossed NX+NY cells (lines cross about
+// 0.4 of that on the benchmark pattern), at least 256. The block buffers,
+// a few megabytes, are reused from block to block, so the lines are
+// written once into memory touched before and once into the flat arrays;
+// fewer, larger blocks on small grids wait less at the ends of blocks.
+const blockSegments = 1 << 19
 
 func newBuilder(t *tracer, f *Field, workers int) *builder {
 	return &builder{t: t, f: f, workers: workers, start: []int{0}, work: make([]worker, workers)}
@@ -64,8 +67,9 @@ func newBuilder(t *tracer, f *Field, workers int) *builder {
 // segments per line for the other seeds.
 func (b *builder) trace(seeds []seed) {
 	base := len(b.cells)
-	for lo := 0; lo < len(seeds); lo += traceBlockLines {
-		block := seeds[lo:min(len(seeds), lo+traceBlockLines)]
+	per := max(256, blockSegments/(b.t.g.NX+b.t.g.NY))
+	for lo := 0; lo < len(seeds); lo += per {
+		block := seeds[lo:min(len(seeds), lo+per)]
 		out := b.traceBlock(block)
 		if lo == 0 {
 			segs := 0
