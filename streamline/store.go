@@ -26,8 +26,8 @@ type builder struct {
 	out []traced
 	// expect is the expected number of segments when all lines are
 	// traced (0 = not known), for the flat storage to grow to about its
-	// final size rather than by doubling (the slack of a doubled array
-	// and the copies cost memory).
+	// final size rather than by a fixed factor (the slack of an array
+	// grown by a factor, and the copies, cost memory).
 	expect int
 }
 
