@@ -100,7 +100,7 @@ func (ls *Lines) Arrival(w int) (float64, int) {
 func (ls *Lines) addLine(row map[int]float64, i int, weight float64) {
 	sg := ls.Seg
 	for s := sg.Start[i]; s < sg.Start[i+1]; s++ {
-		row[int(sg.Cell[s])] -= weight * (sg.Exit[s] - sg.Entry[s]) / ls.Front
+		row[int(sg.Cell[s])] -= weight * (sg.Exit[s] - sg.Entry(i, s)) / ls.Front
 	}
 }
 
@@ -173,7 +173,7 @@ func (ls *Lines) RateShiftRow(w int) map[int]float64 {
 		vol += l.Flux * sg.Total[i]
 		q += l.Flux
 		for s := sg.Start[i]; s < sg.Start[i+1]; s++ {
-			share[int(sg.Cell[s])] += l.Flux * (sg.Exit[s] - sg.Entry[s])
+			share[int(sg.Cell[s])] += l.Flux * (sg.Exit[s] - sg.Entry(i, s))
 		}
 	}
 	if len(all) == 0 || !(vol > 0) {

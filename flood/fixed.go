@@ -22,7 +22,7 @@ type lineSet struct {
 	seg       *streamline.Segments
 	start     []int     // segment offsets, one per line plus one
 	cell      []int32   // cell of each segment
-	a, b      []float64 // rescaled time of flight at entry and exit of each segment (days)
+	a, b      []float64 // rescaled time of flight at entry and exit of each segment (days); a is nil in the fixed engine
 	q         []float64 // flux of each line
 	total     []float64 // rescaled total time of flight of each line
 	inj, prod []int     // well index or -1
@@ -32,19 +32,45 @@ type lineSet struct {
 	bounds    []int32   // cell ranges of cellSaturation (see cellBounds)
 }
 
+// newLineSet returns the bookkeeping of the lines of tr, which keeps them
+// (Result.Rescale), with the entry time of flight of every segment (a),
+// which the pressure-update and grid engines read.
 func newLineSet(tr *streamline.Result, pv []float64) (*lineSet, error) {
 	sg, err := tr.Rescale(pv)
 	if err != nil {
 		return nil, err
 	}
+	ls := lineSetOf(tr, sg, pv)
+	ls.a = make([]float64, len(sg.Exit))
+	for i := range tr.Lines {
+		for s := sg.Start[i] + 1; s < sg.Start[i+1]; s++ {
+			ls.a[s] = sg.Exit[s-1]
+		}
+	}
+	return ls, nil
+}
+
+// newFixedLineSet returns the bookkeeping of the fixed-streamline engine,
+// made in the storage of the lines of tr (Result.TakeSegments: their
+// Cells and Tau are released) and without entry times (a is nil): the
+// engine reads only the exits.
+func newFixedLineSet(tr *streamline.Result, pv []float64) (*lineSet, error) {
+	sg, err := tr.TakeSegments(pv)
+	if err != nil {
+		return nil, err
+	}
+	return lineSetOf(tr, sg, pv), nil
+}
+
+func lineSetOf(tr *streamline.Result, sg *streamline.Segments, pv []float64) *lineSet {
 	n := len(tr.Lines)
-	ls := &lineSet{seg: sg, start: sg.Start, cell: sg.Cell, a: sg.Entry, b: sg.Exit, total: sg.Total,
+	ls := &lineSet{seg: sg, start: sg.Start, cell: sg.Cell, b: sg.Exit, total: sg.Total,
 		uncovered: sg.Uncovered, q: make([]float64, n), inj: make([]int, n), prod: make([]int, n), pv: pv}
 	for i := range tr.Lines {
 		l := &tr.Lines[i]
 		ls.q[i], ls.inj[i], ls.prod[i] = l.Flux, l.Injector, l.Producer
 	}
-	return ls, nil
+	return ls
 }
 
 // cellSaturation maps the streamline solution at time t to cells by the
@@ -99,15 +125,15 @@ func (ls *lineSet) cellSaturation(m *reservoir.Model, rs *blTable, t, swi float6
 				if c < lo || c >= hi {
 					continue
 				}
-				if withVol {
-					ls.vol[c] += q * (ls.b[s] - ls.a[s])
-					if s >= end {
-						continue
-					}
-				}
 				a, b := 0.0, ls.b[s]
 				if s > s0 {
 					a = ls.b[s-1]
+				}
+				if withVol {
+					ls.vol[c] += q * (b - a)
+					if s >= end {
+						continue
+					}
 				}
 				if last != s-1 {
 					// Entering the range: a is the exit of the segment before,

@@ -261,8 +261,14 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	r.Trace = tr
 	r.StreamlineCount = len(tr.Lines)
 	r.Warnings = append(r.Warnings, tr.Warnings...)
+	if m.Grid.N() >= largeGrid {
+		// The tracer's garbage (its grown storage, cell-map scratch, fill
+		// lines it did not keep) is collected before the diagnostics and
+		// the transport allocate theirs.
+		runtime.GC()
+	}
 
-	pv := m.PoreVolumes()
+	pv := field.PoreVolume // m.PoreVolumes(), made once (8 MB on a million cells)
 	r.setDiagnostics(tr, pv)
 
 	logf("transport: Buckley-Leverett along %d streamlines", len(tr.Lines))
@@ -273,18 +279,16 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		return nil, fmt.Errorf("fractional flow: %w", err)
 	}
 	if m.Grid.N() >= largeGrid {
-		// The tracer's garbage (its per-half buffers, the fill lines it
-		// did not keep) is collected before the flat segments are made,
-		// so that they reuse its memory.
+		// The diagnostics' garbage (the sorted cells, the full F-Phi
+		// curve) is collected before the transport allocates.
 		runtime.GC()
 	}
-	lines, err := newLineSet(tr, pv)
+	// The lines' cell lists become the segments of lines, without a copy.
+	lines, err := newFixedLineSet(tr, pv)
 	if err != nil {
 		return nil, err
 	}
 	r.Allocation = append(r.Allocation, AllocationBlock{Time: 0, Pairs: tr.Pairs, PoreVolumes: tr.PairVolumes(lines.seg)})
-	// The cell lists now live in lines; drop the tracer's copies.
-	tr.ReleaseCells()
 	if lines.uncovered > 0 {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("%d active cell(s) carry flow but no streamline crosses them; they keep their initial saturation", lines.uncovered))
 	}

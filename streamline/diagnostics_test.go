@@ -2,6 +2,9 @@ package streamline
 
 import (
 	"math"
+	"math/rand/v2"
+	"slices"
+	"sort"
 	"testing"
 
 	"floodtrace/reservoir"
@@ -155,6 +158,52 @@ func TestLorenzTwoLayers(t *testing.T) {
 				if math.Abs(tD[m]-wantT[m]) > 1e-12*wantT[m] || math.Abs(Ev[m]-wantE[m]) > 1e-12 {
 					t.Errorf("r=%g: sweep point %d (%g, %g), want (%g, %g)", r, m, tD[m], Ev[m], wantT[m], wantE[m])
 				}
+			}
+		}
+	}
+}
+
+// TestSortByTravel checks the radix sort of FPhi against the standard
+// library's stable sort of the cell numbers by travel time (sort.SliceStable),
+// on times with many ties, times spread over many orders of magnitude and
+// cells left out (zero, negative, NaN and infinite values).
+func TestSortByTravel(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for _, n := range []int{1, 7, 1000, 50000} {
+		for _, spread := range []string{"ties", "wide", "narrow"} {
+			pv := make([]float64, n)
+			tr := make([]float64, n)
+			for k := range tr {
+				pv[k] = rng.Float64()
+				switch spread {
+				case "ties":
+					tr[k] = float64(rng.IntN(20))
+				case "wide":
+					tr[k] = math.Exp(rng.NormFloat64() * 30)
+				default:
+					tr[k] = 1 + rng.Float64()*1e-9
+				}
+				switch rng.IntN(40) {
+				case 0:
+					tr[k] = math.NaN()
+				case 1:
+					tr[k] = math.Inf(1)
+				case 2:
+					pv[k] = 0
+				case 3:
+					tr[k] = -tr[k]
+				}
+			}
+			var want []int32
+			for k := range tr {
+				if pv[k] > 0 && finite(pv[k]) && tr[k] > 0 && finite(tr[k]) {
+					want = append(want, int32(k))
+				}
+			}
+			sort.SliceStable(want, func(a, b int) bool { return tr[want[a]] < tr[want[b]] })
+			got := sortByTravel(pv, tr)
+			if !slices.Equal(got, want) {
+				t.Fatalf("n=%d %s: radix order differs from the stable sort", n, spread)
 			}
 		}
 	}

@@ -3,13 +3,18 @@ package streamline
 import (
 	"fmt"
 	"math"
-	"sync"
 
 	"floodtrace/internal/parallel"
 	"floodtrace/reservoir"
 )
 
 // maps accumulates the cell maps from the lines, in line order.
+//
+// The cells are cut into contiguous ranges, one per worker; each range
+// takes the lines in line order (skipping those whose cells all lie
+// outside it), so every cell's sum is made in the same order whatever the
+// number of ranges. The partitions are made range by range too, as tasks
+// of their own beside the maps.
 func (b *builder) maps(lowFlow []bool) *Result {
 	t := b.t
 	n := t.g.N()
@@ -23,47 +28,95 @@ func (b *builder) maps(lowFlow []bool) *Result {
 		ProducerPartition: make([]int, n),
 		Stagnant:          make([]bool, n),
 	}
-	wF := make([]float64, n) // weights of lines from an injector
-	wB := make([]float64, n) // weights of lines to a producer
-	wT := make([]float64, n) // weights of lines with both
+	// Weights: wF of the lines from an injector, wB of the lines to a
+	// producer, wT of the lines with both. The lines with flux all end at
+	// a producer (assignFluxes gives the others none), so wB is the traced
+	// volume and wT is wF: the same terms in the same order. Only when
+	// that does not hold are they summed apart.
+	wF := make([]float64, n)
+	wB, wT := r.Volume, wF
+	for i := range b.lines {
+		if b.lines[i].Flux > 0 && b.lines[i].Producer < 0 {
+			wB, wT = make([]float64, n), make([]float64, n)
+			break
+		}
+	}
+	apart := &wT[0] != &wF[0]
 	nan := math.NaN()
-	var wg sync.WaitGroup
-	// The partitions read only the lines; they run beside the maps.
-	wg.Go(func() { b.partition(r.InjectorPartition, func(l *Line) int { return l.Injector }) })
-	wg.Go(func() { b.partition(r.ProducerPartition, func(l *Line) int { return l.Producer }) })
-	// The cells are cut into one contiguous range per worker; each range
-	// takes the lines in line order, so every sum is made in the same order
-	// whatever the number of ranges.
+	injOrder := b.byWell(func(l *Line) int { return l.Injector })
+	prodOrder := b.byWell(func(l *Line) int { return l.Producer })
 	ranges := max(1, b.workers)
-	parallel.Each(ranges, b.workers, 0, func(_, rg int) {
-		lo, hi := int32(rg*n/ranges), int32((rg+1)*n/ranges)
+	bound := func(rg int) (int32, int32) { return int32(rg * n / ranges), int32((rg + 1) * n / ranges) }
+	cells, taus, start := b.cells, b.taus, b.start
+	parallel.Each(2*ranges, b.workers, 1, func(_, task int) {
+		if task >= ranges {
+			lo, hi := bound(task - ranges)
+			best := make([]float64, hi-lo)
+			acc := make([]float64, hi-lo)
+			b.partition(r.InjectorPartition, injOrder, lo, hi, best, acc)
+			clear(best)
+			b.partition(r.ProducerPartition, prodOrder, lo, hi, best, acc)
+			return
+		}
+		lo, hi := bound(task)
 		for i := range b.lines {
 			l := &b.lines[i]
-			if !(l.Flux > 0) {
+			if !(l.Flux > 0) || b.hi[i] < lo || b.lo[i] >= hi {
 				continue
 			}
+			q, total := l.Flux, l.TotalTau
 			cum := 0.0
-			tau := l.Tau[:len(l.Cells)]
-			for m, c := range l.Cells {
-				tm := tau[m]
-				if c >= lo && c < hi {
-					v := l.Flux * tm
-					mid := cum + 0.5*tm
-					r.Volume[c] += v
-					if l.Injector >= 0 {
+			seg := cells[start[i]:start[i+1]]
+			tau := taus[start[i]:start[i+1]]
+			tau = tau[:len(seg)]
+			switch {
+			case !apart && l.Injector >= 0:
+				for m, c := range seg {
+					tm := tau[m]
+					if c >= lo && c < hi {
+						v := q * tm
+						mid := cum + 0.5*tm
+						r.Volume[c] += v
 						wF[c] += v
 						r.TOF[c] += v * mid
+						r.BackTOF[c] += v * (total - mid)
+						r.Travel[c] += v * total
 					}
-					if l.Producer >= 0 {
-						wB[c] += v
-						r.BackTOF[c] += v * (l.TotalTau - mid)
-					}
-					if l.Injector >= 0 && l.Producer >= 0 {
-						wT[c] += v
-						r.Travel[c] += v * l.TotalTau
-					}
+					cum += tm
 				}
-				cum += tm
+			case !apart:
+				for m, c := range seg {
+					tm := tau[m]
+					if c >= lo && c < hi {
+						v := q * tm
+						mid := cum + 0.5*tm
+						r.Volume[c] += v
+						r.BackTOF[c] += v * (total - mid)
+					}
+					cum += tm
+				}
+			default:
+				for m, c := range seg {
+					tm := tau[m]
+					if c >= lo && c < hi {
+						v := q * tm
+						mid := cum + 0.5*tm
+						r.Volume[c] += v
+						if l.Injector >= 0 {
+							wF[c] += v
+							r.TOF[c] += v * mid
+						}
+						if l.Producer >= 0 {
+							wB[c] += v
+							r.BackTOF[c] += v * (total - mid)
+						}
+						if l.Injector >= 0 && l.Producer >= 0 {
+							wT[c] += v
+							r.Travel[c] += v * total
+						}
+					}
+					cum += tm
+				}
 			}
 		}
 		for k := int(lo); k < int(hi); k++ {
@@ -73,7 +126,6 @@ func (b *builder) maps(lowFlow []bool) *Result {
 			r.Stagnant[k] = t.isActive(k) && (lowFlow[k] || !(r.Volume[k] > 0))
 		}
 	})
-	wg.Wait()
 	return r
 }
 
@@ -84,12 +136,17 @@ func ratio(num, den, none float64) float64 {
 	return none
 }
 
-// partition sets part[k] to the well whose lines carry the largest traced
-// volume through cell k (ties to the lower well index), or -1. Lines are
-// visited well by well, each well's lines in line order.
-func (b *builder) partition(part []int, well func(*Line) int) {
+// wellOrder lists the lines with flux by well: the lines of well w, in
+// line order, are line[start[w]:start[w+1]].
+type wellOrder struct {
+	start []int
+	line  []int
+}
+
+// byWell orders the lines with flux by the well that well(line) names (a
+// counting sort, stable), leaving out lines with no well (-1).
+func (b *builder) byWell(well func(*Line) int) wellOrder {
 	nw := len(b.t.q)
-	// Order the lines by well with a counting sort (stable).
 	start := make([]int, nw+1)
 	for i := range b.lines {
 		if w := well(&b.lines[i]); w >= 0 && b.lines[i].Flux > 0 {
@@ -107,26 +164,47 @@ func (b *builder) partition(part []int, well func(*Line) int) {
 			next[w]++
 		}
 	}
-	best := make([]float64, len(part))
-	acc := make([]float64, len(part))
-	for k := range part {
+	return wellOrder{start: start, line: order}
+}
+
+// partition sets part[k], for the cells k of [lo, hi), to the well whose
+// lines carry the largest traced volume through cell k (ties to the lower
+// well index), or -1. Lines are visited well by well, each well's lines in
+// line order, so each cell's sums do not depend on the range. best and acc
+// are zero scratch of hi-lo values; acc is left zero.
+func (b *builder) partition(part []int, ord wellOrder, lo, hi int32, best, acc []float64) {
+	var touched []int32 // cells of the range whose acc was 0 before an addition
+	for k := lo; k < hi; k++ {
 		part[k] = -1
 	}
-	for w := 0; w < nw; w++ {
-		group := order[start[w]:start[w+1]]
-		for _, i := range group {
-			l := &b.lines[i]
-			for m, c := range l.Cells {
-				acc[c] += l.Flux * l.Tau[m]
+	cells, taus, start := b.cells, b.taus, b.start
+	for w := 0; w+1 < len(ord.start); w++ {
+		touched = touched[:0]
+		for _, i := range ord.line[ord.start[w]:ord.start[w+1]] {
+			if b.hi[i] < lo || b.lo[i] >= hi {
+				continue
+			}
+			q := b.lines[i].Flux
+			seg := cells[start[i]:start[i+1]]
+			tau := taus[start[i]:start[i+1]]
+			tau = tau[:len(seg)]
+			for s, c := range seg {
+				if c >= lo && c < hi {
+					c -= lo
+					if acc[c] == 0 {
+						touched = append(touched, c)
+					}
+					acc[c] += q * tau[s]
+				}
 			}
 		}
-		for _, i := range group {
-			for _, c := range b.lines[i].Cells {
-				if acc[c] > best[c] {
-					best[c], part[c] = acc[c], w
-				}
-				acc[c] = 0
+		// A cell listed twice has acc 0 at its second visit, which never
+		// beats best (>= 0).
+		for _, c := range touched {
+			if acc[c] > best[c] {
+				best[c], part[lo+c] = acc[c], w
 			}
+			acc[c] = 0
 		}
 	}
 }

@@ -5,8 +5,6 @@ import (
 	"fmt"
 	"math"
 	"runtime"
-
-	"floodtrace/internal/parallel"
 )
 
 // Launch tells how a streamline was started.
@@ -104,6 +102,11 @@ type Result struct {
 	// injector then producer.
 	Pairs    []Pair
 	Warnings []string
+
+	// flat holds the lines' cells and times of flight, of which their
+	// Cells and Tau are views; nil once released.
+	flat     *flatLines
+	released bool
 }
 
 // Breakthrough returns the smallest time of flight, days, of the lines
@@ -132,16 +135,6 @@ type seed struct {
 	cell   int
 	face   int
 	s      float64
-}
-
-// builder collects the lines of one Trace.
-type builder struct {
-	t       *tracer
-	f       *Field
-	workers int
-	lines   []Line
-	meta    []lineMeta
-	scratch [][2]half
 }
 
 // Trace traces streamlines through the field with Pollock's (1988)
@@ -190,38 +183,26 @@ func Trace(f *Field, s Settings) (*Result, error) {
 		s.Workers = runtime.GOMAXPROCS(0)
 	}
 	t := newTracer(f, s)
-	b := &builder{t: t, f: f, workers: s.Workers, scratch: make([][2]half, s.Workers)}
+	b := newBuilder(t, f, s.Workers)
 	var warn []string
-
 	b.trace(injectorSeeds(t, f, s.Count))
 	b.trace(producerSeeds(t, f, s.Count, b.lines))
 	lowFlow := t.lowFlow(f)
 	b.fill(lowFlow)
 	warn = append(warn, b.assignFluxes()...)
 	r := b.maps(lowFlow)
+	b.finish(r)
 	r.Pairs = pairs(f, r.Lines)
 	r.Warnings = append(warn, b.endWarnings(s.MaxSteps)...)
 	r.Warnings = append(r.Warnings, t.balanceWarnings(f)...)
 	return r, nil
 }
 
-// trace traces the seeds in parallel and appends their lines.
-func (b *builder) trace(seeds []seed) {
-	if len(seeds) == 0 {
-		return
-	}
-	base := len(b.lines)
-	b.lines = append(b.lines, make([]Line, len(seeds))...)
-	b.meta = append(b.meta, make([]lineMeta, len(seeds))...)
-	parallel.Each(len(seeds), b.workers, 0, func(w, i int) {
-		sc := &b.scratch[w]
-		b.lines[base+i], b.meta[base+i] = b.t.line(seeds[i], &sc[0], &sc[1])
-	})
-}
-
 // line traces one seed: its upstream half against the flux and its
-// downstream half with it, joined.
-func (t *tracer) line(sd seed, up, down *half) (Line, lineMeta) {
+// downstream half with it, joined: the line's cells and times of flight
+// are appended to the worker's block buffers.
+func (t *tracer) line(sd seed, wk *worker, w int) traced {
+	up, down := &wk.up, &wk.down
 	up.reset()
 	down.reset()
 	l := Line{Injector: -1, Producer: -1, Launch: sd.launch}
@@ -256,33 +237,31 @@ func (t *tracer) line(sd seed, up, down *half) (Line, lineMeta) {
 	// cell-centre line has its start cell at the head of both halves.
 	nu, nd := len(up.cells), len(down.cells)
 	merge := sd.launch == FromCell && nu > 0 && nd > 0 && up.cells[0] == down.cells[0]
-	n := nu + nd
-	if merge {
-		n--
+	off := len(wk.cells)
+	for i := nu - 1; i >= 0; i-- {
+		wk.cells = append(wk.cells, up.cells[i])
+		wk.taus = append(wk.taus, up.tau[i])
 	}
-	l.Cells = make([]int32, n)
-	l.Tau = make([]float64, n)
-	for i := 0; i < nu; i++ {
-		l.Cells[i] = up.cells[nu-1-i]
-		l.Tau[i] = up.tau[nu-1-i]
-	}
-	off := nu
 	if merge {
-		l.Tau[nu-1] += down.tau[0]
-		off--
-		copy(l.Cells[nu:], down.cells[1:])
-		copy(l.Tau[nu:], down.tau[1:])
+		wk.taus[len(wk.taus)-1] += down.tau[0]
+		wk.cells = append(wk.cells, down.cells[1:]...)
+		wk.taus = append(wk.taus, down.tau[1:]...)
 	} else {
-		copy(l.Cells[off:], down.cells)
-		copy(l.Tau[off:], down.tau)
+		wk.cells = append(wk.cells, down.cells...)
+		wk.taus = append(wk.taus, down.tau...)
 	}
-	for _, v := range l.Tau {
+	tr := traced{w: w, off: off, n: len(wk.cells) - off, lo: math.MaxInt32, hi: -1}
+	for _, v := range wk.taus[off:] {
 		l.TotalTau += v
+	}
+	for _, c := range wk.cells[off:] {
+		tr.lo, tr.hi = min(tr.lo, c), max(tr.hi, c)
 	}
 	if t.paths {
 		l.Path = joinThin(up.path, down.path, t.maxPath)
 	}
-	return l, m
+	tr.line, tr.meta = l, m
+	return tr
 }
 
 // wellCell returns the cell of well w.

@@ -2,8 +2,6 @@ package streamline
 
 import (
 	"math"
-
-	"floodtrace/internal/parallel"
 )
 
 // injectorSeeds returns the launch points on the outflow faces of the
@@ -162,13 +160,8 @@ func (b *builder) fill(lowFlow []bool) {
 	n := t.g.N()
 	nx := t.g.NX
 	covered := make([]bool, n)
-	mark := func(l *Line) {
-		for _, c := range l.Cells {
-			covered[c] = true
-		}
-	}
-	for i := range b.lines {
-		mark(&b.lines[i])
+	for _, c := range b.cells {
+		covered[c] = true
 	}
 	var cand []int32
 	for k := 0; k < n; k++ {
@@ -177,9 +170,13 @@ func (b *builder) fill(lowFlow []bool) {
 		}
 	}
 	done := make([]bool, n) // seeds already traced
+	isCand := make([]bool, n)
+	for _, k := range cand {
+		isCand[k] = true
+	}
+	resolved := 0 // candidates covered or traced, for the expected storage
+	fill0 := len(b.cells)
 	batch := make([]seed, 0, fillBatch)
-	lines := make([]Line, fillBatch)
-	meta := make([]lineMeta, fillBatch)
 	far := func(k int) bool {
 		i, j := k%nx, k/nx
 		for _, sd := range batch {
@@ -202,20 +199,29 @@ func (b *builder) fill(lowFlow []bool) {
 			if k := int(cand[q]); !covered[k] && !done[k] && far(k) {
 				batch = append(batch, seed{launch: FromCell, cell: k})
 				done[k] = true
+				resolved++
 			}
 		}
-		parallel.Each(len(batch), b.workers, 0, func(w, i int) {
-			sc := &b.scratch[w]
-			lines[i], meta[i] = t.line(batch[i], &sc[0], &sc[1])
-		})
+		out := b.traceBlock(batch)
 		for i, sd := range batch {
 			if covered[sd.cell] {
 				continue // an earlier line of the batch crossed the seed
 			}
-			mark(&lines[i])
-			b.lines = append(b.lines, lines[i])
-			b.meta = append(b.meta, meta[i])
+			for _, c := range b.cellsOf(&out[i]) {
+				if isCand[c] && !covered[c] && !done[c] {
+					resolved++
+				}
+				covered[c] = true
+			}
+			// Expected size of the flat storage: as many segments per
+			// candidate cell resolved (covered or traced) for the others,
+			// once a tenth are resolved, and 10% over.
+			if fr := float64(resolved) / float64(len(cand)); fr >= 0.1 {
+				b.expect = fill0 + int(float64(len(b.cells)+out[i].n-fill0)/fr*1.1)
+			} else {
+				b.expect = 0
+			}
+			b.commit(&out[i])
 		}
-		clear(lines)
 	}
 }

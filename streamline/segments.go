@@ -1,6 +1,7 @@
 package streamline
 
 import (
+	"errors"
 	"fmt"
 
 	"floodtrace/internal/parallel"
@@ -19,10 +20,11 @@ type Segments struct {
 	Start []int
 	// Cell is the cell of each segment.
 	Cell []int32
-	// Entry and Exit are the rescaled time of flight along the line at the
-	// entry and the exit of each segment, days; a segment's Entry is the
-	// Exit of the segment before it on its line, exactly.
-	Entry, Exit []float64
+	// Exit is the rescaled time of flight along the line at the exit of
+	// each segment, days. The time at a segment's entry is the Exit of
+	// the segment before it on its line, or 0 for a line's first segment
+	// (Entry); the time spent in segment s is their difference.
+	Exit []float64
 	// Total is each line's rescaled time of flight from end to end.
 	Total []float64
 	// Uncovered counts the cells with pore volume that carry flow (not
@@ -30,45 +32,92 @@ type Segments struct {
 	Uncovered int
 }
 
+// Entry returns the rescaled time of flight at the entry of segment s of
+// line i (Start[i] <= s < Start[i+1]): the Exit of the segment before it,
+// or 0 for the line's first segment.
+func (sg *Segments) Entry(i, s int) float64 {
+	if s == sg.Start[i] {
+		return 0
+	}
+	return sg.Exit[s-1]
+}
+
 // Rescale returns the lines' segments with their time of flight rescaled
 // to the pore volumes pv (one per cell of the traced field): in every cell
 // crossed by lines the time of flight of each crossing is multiplied by
-// pv over the traced volume of the cell (the sum of flux times time of
-// flight of its crossings). The result does not depend on the number of
-// cores: every cell's sum is taken over the lines in line order.
+// pv over the traced volume of the cell (Result.Volume for the lines of
+// Trace: the sum of flux times time of flight of its crossings, over the
+// lines in line order). The result does not depend on the number of cores.
+// The segments' Cell shares the lines' cell storage (neither is to be
+// modified); see TakeSegments for a result that needs the lines no more.
 //
 // It needs the lines' Cells and Tau; see ReleaseCells.
 func (r *Result) Rescale(pv []float64) (*Segments, error) {
+	return r.rescale(pv, false)
+}
+
+// TakeSegments is Rescale for a caller that keeps the segments instead of
+// the lines' Cells and Tau: the segments are made in the lines' storage,
+// their Exit over the times of flight, without a copy (a million-cell case
+// holds hundreds of megabytes of them), and the lines' Cells and Tau are
+// released (ReleaseCells). The segments are those of Rescale, bit for bit.
+func (r *Result) TakeSegments(pv []float64) (*Segments, error) {
+	sg, err := r.rescale(pv, true)
+	if err != nil {
+		return nil, err
+	}
+	r.ReleaseCells()
+	return sg, nil
+}
+
+// rescale makes the segments; inPlace writes Exit over the flat times of
+// flight of the lines of Trace.
+func (r *Result) rescale(pv []float64, inPlace bool) (*Segments, error) {
 	if r.TOF != nil && len(pv) != len(r.TOF) {
 		return nil, fmt.Errorf("streamline: %d pore volumes for %d cells", len(pv), len(r.TOF))
 	}
+	if r.released {
+		return nil, errors.New("streamline: the lines' cells were released")
+	}
 	n := len(r.Lines)
 	sg := &Segments{Start: make([]int, n+1), Total: make([]float64, n)}
+	fl := r.flat
 	for i := range r.Lines {
 		l := &r.Lines[i]
 		if len(l.Tau) < len(l.Cells) {
 			return nil, fmt.Errorf("streamline: line %d has %d cells but %d times of flight (cells released?)", i, len(l.Cells), len(l.Tau))
 		}
-		for _, c := range l.Cells {
-			if c < 0 || int(c) >= len(pv) {
-				return nil, fmt.Errorf("streamline: line %d crosses cell %d, outside the %d pore volumes", i, c, len(pv))
-			}
-		}
 		sg.Start[i+1] = sg.Start[i] + len(l.Cells)
+		if fl != nil && (len(fl.start) != n+1 || fl.start[i+1] != sg.Start[i+1] ||
+			len(l.Cells) > 0 && (&l.Cells[0] != &fl.cells[fl.start[i]] || &l.Tau[0] != &fl.taus[fl.start[i]])) {
+			fl = nil // the lines are not (all) views of the flat storage
+		}
 	}
 	nseg := sg.Start[n]
-	// scale[c]: first the traced volume of cell c, then pv/volume. One
-	// pass in line order: the sums are those of any split of the cells
-	// into ranges (each cell's terms come in the same order), and a split
-	// over cores would have every core read every segment, twice the
-	// memory traffic for no gain on a memory-bound loop.
+	if fl == nil {
+		for i := range r.Lines {
+			for _, c := range r.Lines[i].Cells {
+				if c < 0 || int(c) >= len(pv) {
+					return nil, fmt.Errorf("streamline: line %d crosses cell %d, outside the %d pore volumes", i, c, len(pv))
+				}
+			}
+		}
+	}
+	// scale[c]: first the traced volume of cell c, then pv/volume. The
+	// traced volume is the sum of flux times time of flight over the
+	// cell's crossings in line order; for the lines of Trace that is
+	// Result.Volume, summed so by the maps (lines without flux add +0).
 	scale := make([]float64, len(pv))
-	for i := range r.Lines {
-		l := &r.Lines[i]
-		q := l.Flux
-		tau := l.Tau[:len(l.Cells)]
-		for s, c := range l.Cells {
-			scale[c] += q * tau[s]
+	if fl != nil && len(r.Volume) == len(pv) {
+		copy(scale, r.Volume)
+	} else {
+		for i := range r.Lines {
+			l := &r.Lines[i]
+			q := l.Flux
+			tau := l.Tau[:len(l.Cells)]
+			for s, c := range l.Cells {
+				scale[c] += q * tau[s]
+			}
 		}
 	}
 	for c, raw := range scale {
@@ -78,20 +127,26 @@ func (r *Result) Rescale(pv []float64) (*Segments, error) {
 			sg.Uncovered++
 		}
 	}
-	sg.Cell = make([]int32, nseg)
-	sg.Entry = make([]float64, nseg)
-	sg.Exit = make([]float64, nseg)
+	switch {
+	case fl != nil && inPlace:
+		sg.Cell, sg.Exit = fl.cells[:nseg], fl.taus[:nseg]
+	case fl != nil:
+		sg.Cell, sg.Exit = fl.cells[:nseg], make([]float64, nseg)
+	default:
+		sg.Cell, sg.Exit = make([]int32, nseg), make([]float64, nseg)
+	}
 	parallel.Pieces(n, lineBlocks, 0, func(_, lo, hi int) {
 		for i := lo; i < hi; i++ {
 			l := &r.Lines[i]
 			off := sg.Start[i]
 			cell := sg.Cell[off : off+len(l.Cells)]
-			a, b := sg.Entry[off:off+len(cell)], sg.Exit[off:off+len(cell)]
+			b := sg.Exit[off : off+len(cell)]
 			tau := l.Tau[:len(cell)]
-			copy(cell, l.Cells)
+			if fl == nil {
+				copy(cell, l.Cells)
+			}
 			t := 0.0
 			for s, c := range cell {
-				a[s] = t
 				t += tau[s] * scale[c]
 				b[s] = t
 			}
@@ -113,6 +168,7 @@ func (r *Result) ReleaseCells() {
 	for i := range r.Lines {
 		r.Lines[i].Cells, r.Lines[i].Tau = nil, nil
 	}
+	r.flat, r.released = nil, true
 }
 
 // PairVolumes returns the pore volume of each injector-producer pair of

@@ -2,6 +2,7 @@ package streamline
 
 import (
 	"math"
+	"slices"
 	"testing"
 )
 
@@ -26,13 +27,10 @@ func TestRescaleHoldsPoreVolume(t *testing.T) {
 		for i := range res.Lines {
 			q := res.Lines[i].Flux
 			for s := sg.Start[i]; s < sg.Start[i+1]; s++ {
-				if s > sg.Start[i] && sg.Entry[s] != sg.Exit[s-1] {
-					t.Fatalf("r=%g line %d segment %d: entry %g is not the exit %g before it", r, i, s, sg.Entry[s], sg.Exit[s-1])
-				}
-				if sg.Exit[s] < sg.Entry[s] {
+				if sg.Exit[s] < sg.Entry(i, s) {
 					t.Fatalf("r=%g line %d segment %d: time of flight decreases", r, i, s)
 				}
-				held[sg.Cell[s]] += q * (sg.Exit[s] - sg.Entry[s])
+				held[sg.Cell[s]] += q * (sg.Exit[s] - sg.Entry(i, s))
 			}
 			if n := sg.Start[i+1]; n > sg.Start[i] && sg.Total[i] != sg.Exit[n-1] {
 				t.Fatalf("r=%g line %d: total %g, last exit %g", r, i, sg.Total[i], sg.Exit[n-1])
@@ -57,6 +55,61 @@ func TestRescaleHoldsPoreVolume(t *testing.T) {
 	}
 }
 
+// TestTakeSegments checks that the segments made in the lines' storage
+// (TakeSegments), and those of Rescale from the traced volumes of the
+// maps, are bit for bit those of the definition: the traced volume of
+// each cell summed over the lines in line order, then each line's time of
+// flight rescaled and accumulated (computed here from copies of the lines,
+// which Rescale cannot take for views of its storage).
+func TestTakeSegments(t *testing.T) {
+	f := twoChannels(25, 10, false)
+	res, err := Trace(f, Settings{Count: 60})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The definition, on copies of the lines.
+	own := &Result{Lines: append([]Line(nil), res.Lines...), TOF: res.TOF, Stagnant: res.Stagnant}
+	for i := range own.Lines {
+		own.Lines[i].Cells = append([]int32(nil), res.Lines[i].Cells...)
+		own.Lines[i].Tau = append([]float64(nil), res.Lines[i].Tau...)
+	}
+	want, err := own.Rescale(f.PoreVolume)
+	if err != nil {
+		t.Fatal(err)
+	}
+	viaRescale, err := res.Rescale(f.PoreVolume)
+	if err != nil {
+		t.Fatal(err)
+	}
+	taken, err := res.TakeSegments(f.PoreVolume)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, sg := range map[string]*Segments{"Rescale": viaRescale, "TakeSegments": taken} {
+		if !slices.Equal(sg.Start, want.Start) || !slices.Equal(sg.Cell, want.Cell) || sg.Uncovered != want.Uncovered {
+			t.Fatalf("%s: segments differ in their lines or cells", name)
+		}
+		for s := range want.Exit {
+			if math.Float64bits(sg.Exit[s]) != math.Float64bits(want.Exit[s]) {
+				t.Fatalf("%s: segment %d exits at %v, the definition gives %v", name, s, sg.Exit[s], want.Exit[s])
+			}
+		}
+		for i := range want.Total {
+			if math.Float64bits(sg.Total[i]) != math.Float64bits(want.Total[i]) {
+				t.Fatalf("%s: line %d total %v, the definition gives %v", name, i, sg.Total[i], want.Total[i])
+			}
+		}
+	}
+	for i := range res.Lines {
+		if res.Lines[i].Cells != nil || res.Lines[i].Tau != nil {
+			t.Fatalf("line %d keeps its cells after TakeSegments", i)
+		}
+	}
+	if _, err := res.Rescale(f.PoreVolume); err == nil {
+		t.Error("Rescale after TakeSegments: no error")
+	}
+}
+
 // TestRescaleBadInput checks that Rescale reports a pore-volume count that
 // does not match the grid and lines whose cells were released.
 func TestRescaleBadInput(t *testing.T) {
@@ -69,6 +122,9 @@ func TestRescaleBadInput(t *testing.T) {
 		t.Error("short pore volumes: no error")
 	}
 	res.ReleaseCells()
+	if _, err := res.Rescale(f.PoreVolume); err == nil {
+		t.Error("Rescale after ReleaseCells: no error")
+	}
 	for i := range res.Lines {
 		if res.Lines[i].Cells != nil || res.Lines[i].Tau != nil {
 			t.Fatalf("line %d keeps its cells after ReleaseCells", i)

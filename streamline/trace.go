@@ -178,7 +178,14 @@ func (h *half) reset() {
 
 func (t *tracer) point(h *half, k int, xi, eta float64) {
 	if t.paths {
-		i, j := k%t.g.NX, k/t.g.NX
+		t.pointIJ(h, k%t.g.NX, k/t.g.NX, xi, eta)
+	}
+}
+
+// pointIJ adds the point (xi, eta) of cell (i, j) to the path, when paths
+// are kept.
+func (t *tracer) pointIJ(h *half, i, j int, xi, eta float64) {
+	if t.paths {
 		h.path = append(h.path, [2]float64{t.g.X0 + (float64(i)+xi)*t.g.DX, t.g.Y0 + (float64(j)+eta)*t.g.DY})
 	}
 }
@@ -258,18 +265,19 @@ func (t *tracer) launch(h *half, k, face int, s, sign float64) {
 // run traces from local position (xi, eta) of cell k, in the direction of
 // the flux (sign +1) or against it (sign -1), until the trace ends.
 // entryFace and entryS tell where the trace entered k (-1 for a start
-// inside the cell).
+// inside the cell). The column i and row j of k are carried along with it,
+// the neighbours being one column or row away.
 func (t *tracer) run(h *half, k int, xi, eta, sign float64, entryFace int, entryS float64) {
-	nx := t.g.NX
+	nx, ny := t.g.NX, t.g.NY
+	i, j := k%nx, k/nx
 	lastFace, lastS := entryFace, entryS
 	for step := 0; ; step++ {
 		if step >= t.maxSteps {
 			h.end = StepCap
 			return
 		}
-		i, j := k%nx, k/nx
 		inv := sign / t.pv[k]
-		xf := j*(nx+1) + i
+		xf := k + j // j*(nx+1) + i
 		vW, vE := t.fx[xf]*inv, t.fx[xf+1]*inv
 		vS, vN := t.fy[k]*inv, t.fy[k+nx]*inv
 		dtx, dirx := exitTime(xi, vW, vE)
@@ -284,39 +292,53 @@ func (t *tracer) run(h *half, k int, xi, eta, sign float64, entryFace int, entry
 			h.end = Stagnation
 			return
 		}
-		var face int
 		var dt float64
+		// The cell n across the exit face (-1 at the grid edge), the face
+		// of n crossed, and the local position there.
+		n, nface := -1, 0
 		if dtx <= dty {
 			dt = dtx
 			eta = advance(eta, vS, vN, dt)
 			if dirx > 0 {
-				face, xi = east, 1
+				xi = 1
+				t.pointIJ(h, i, j, xi, eta)
+				nface, xi = west, 0
+				if i < nx-1 {
+					n = k + 1
+					i++
+				}
 			} else {
-				face, xi = west, 0
+				xi = 0
+				t.pointIJ(h, i, j, xi, eta)
+				nface, xi = east, 1
+				if i > 0 {
+					n = k - 1
+					i--
+				}
 			}
 		} else {
 			dt = dty
 			xi = advance(xi, vW, vE, dt)
 			if diry > 0 {
-				face, eta = north, 1
+				eta = 1
+				t.pointIJ(h, i, j, xi, eta)
+				nface, eta = south, 0
+				if j < ny-1 {
+					n = k + nx
+					j++
+				}
 			} else {
-				face, eta = south, 0
+				eta = 0
+				t.pointIJ(h, i, j, xi, eta)
+				nface, eta = north, 1
+				if j > 0 {
+					n = k - nx
+					j--
+				}
 			}
 		}
 		if dt > 0 {
 			h.add(k, dt)
-		}
-		t.point(h, k, xi, eta)
-		n, nface := t.neighbour(k, face)
-		switch face {
-		case east:
-			xi = 0
-		case west:
-			xi = 1
-		case north:
-			eta = 0
-		default:
-			eta = 1
 		}
 		if t.enter(h, n, nface, xi, eta, sign) {
 			return
