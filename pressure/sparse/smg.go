@@ -75,27 +75,54 @@ const SMGCoarsest = 200
 // padded by pad = nx+2 entries on both sides, so that point (i, j) is at
 // pad + j*nx + i and every neighbour index of a grid point is in range;
 // coefficients are zero across the box edges and in the padding.
+//
+// The cycle's arrays are float32: the cycle is bound by memory traffic,
+// and a preconditioner needs no more than single precision (the conjugate
+// gradients around it work in float64 on the float64 matrix, so the
+// solution's accuracy is theirs). The set-up works in float64 (set): the
+// Galerkin products of a high-contrast field cancel, and coarse operators
+// formed from rounded ones would lose their definiteness.
 type smgLevel struct {
 	nx, ny, pad int
-	// The stencil by its lower half: d the diagonal (kept for the set-up
-	// only; the cycle uses the inverse diagonal inv), w the coupling to
-	// (i-1, j), s to (i, j-1), sw to (i-1, j-1), se to (i+1, j-1); the
-	// upper half follows by symmetry. sw and se are nil on the finest
-	// (five-point) level.
-	d, inv, w, s, sw, se []float64
-	dir                  int       // coarsening direction to the next level: 0 x, 1 y
-	plo, phi             []float64 // interpolation weights of the fine points between coarse ones
-	x, b, r              []float64
+	// The stencil by its lower half: the inverse diagonal inv, w the
+	// coupling to (i-1, j), s to (i, j-1), sw to (i-1, j-1), se to
+	// (i+1, j-1); the upper half follows by symmetry. sw and se are nil
+	// on the finest (five-point) level.
+	inv, w, s, sw, se []float32
+	dir               int       // coarsening direction to the next level: 0 x, 1 y
+	plo, phi          []float32 // interpolation weights of the fine points between coarse ones
+	x, b, r           []float32
+	set               smgSet // the float64 stencil, during the set-up only
 }
 
-func newSMGLevel(nx, ny int, corners bool) smgLevel {
+// smgSet is a level's stencil in float64 while the hierarchy is built: d
+// the diagonal, w, s, sw, se as in smgLevel.
+type smgSet struct {
+	d, w, s, sw, se []float64
+}
+
+// newSMGLevel returns a level with its float64 set-up stencil carved out
+// of *scratch (grown when too small, cleared when reused): the set-up
+// keeps two levels' stencils at a time, so two scratch buffers used in
+// turn serve the whole hierarchy.
+func newSMGLevel(nx, ny int, corners bool, scratch *[]float64) smgLevel {
 	pad := nx + 2
 	m := nx*ny + 2*pad
-	l := smgLevel{nx: nx, ny: ny, pad: pad,
-		d: make([]float64, m), inv: make([]float64, m), w: make([]float64, m), s: make([]float64, m),
-		x: make([]float64, m), b: make([]float64, m), r: make([]float64, m)}
+	l := smgLevel{nx: nx, ny: ny, pad: pad}
+	k := 3
 	if corners {
-		l.sw, l.se = make([]float64, m), make([]float64, m)
+		k = 5
+	}
+	if cap(*scratch) < k*m {
+		*scratch = make([]float64, k*m)
+	} else {
+		*scratch = (*scratch)[:k*m]
+		clear(*scratch)
+	}
+	buf := *scratch
+	l.set.d, l.set.w, l.set.s = buf[:m:m], buf[m:2*m:2*m], buf[2*m:3*m:3*m]
+	if corners {
+		l.set.sw, l.set.se = buf[3*m:4*m:4*m], buf[4*m:5*m:5*m]
 	}
 	return l
 }
@@ -119,18 +146,20 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 	if len(cells) != a.N {
 		return nil, fmt.Errorf("sparse: SMG: %d cells for a matrix of order %d", len(cells), a.N)
 	}
-	fine := newSMGLevel(nx, ny, false)
+	var scratch [2][]float64
+	fine := newSMGLevel(nx, ny, false, &scratch[0])
+	d := fine.set.d
 	for k := 0; k < nx*ny; k++ {
-		fine.d[fine.pad+k] = math.NaN() // marks cells that are not unknowns
+		d[fine.pad+k] = math.NaN() // marks cells that are not unknowns
 	}
 	for _, k := range cells {
 		if k < 0 || k >= nx*ny {
 			return nil, fmt.Errorf("sparse: SMG: cell %d is outside the %d x %d grid", k, nx, ny)
 		}
-		if p := fine.pad + k; !math.IsNaN(fine.d[p]) {
+		if p := fine.pad + k; !math.IsNaN(d[p]) {
 			return nil, fmt.Errorf("sparse: SMG: cell %d is given twice", k)
 		} else {
-			fine.d[p] = 0
+			d[p] = 0
 		}
 	}
 	for u, k := range cells {
@@ -142,56 +171,79 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 			v := a.Val[q]
 			switch {
 			case di == 0 && dj == 0:
-				fine.d[p] = v
+				d[p] = v
 			case di == -1 && dj == 0:
-				fine.w[p] = v
+				fine.set.w[p] = v
 			case di == 0 && dj == -1:
-				fine.s[p] = v
+				fine.set.s[p] = v
 			case (di == 1 && dj == 0) || (di == 0 && dj == 1):
 				// the upper half, taken from the neighbour's row
 			default:
 				return nil, fmt.Errorf("sparse: SMG: row %d (cell %d) couples to cell %d, not a box neighbour", u, k, l)
 			}
 		}
-		if !(fine.d[p] > 0) || math.IsInf(fine.d[p], 0) {
-			return nil, fmt.Errorf("sparse: SMG: diagonal entry %d (cell %d) is %g, not positive", u, k, fine.d[p])
+		if !(d[p] > 0) || math.IsInf(d[p], 0) {
+			return nil, fmt.Errorf("sparse: SMG: diagonal entry %d (cell %d) is %g, not positive", u, k, d[p])
 		}
 	}
 	for k := 0; k < nx*ny; k++ {
-		if p := fine.pad + k; math.IsNaN(fine.d[p]) {
-			fine.d[p] = 1
+		if p := fine.pad + k; math.IsNaN(d[p]) {
+			d[p] = 1
 		}
 	}
 	h := &SMG{cells: cells}
 	h.levels = append(h.levels, fine)
 	for {
-		l := &h.levels[len(h.levels)-1]
-		l.finish()
+		k := len(h.levels) - 1
+		l := &h.levels[k]
 		if l.nx*l.ny <= SMGCoarsest || (l.nx == 1 && l.ny == 1) {
+			if err := h.factorCoarse(); err != nil {
+				return nil, err
+			}
+			l.finish(false)
 			break
 		}
 		l.dir = l.direction()
 		l.weights()
-		c := l.coarsen()
+		c := l.coarsen(&scratch[(k+1)%2])
+		l.finish(true)
 		h.levels = append(h.levels, c)
-	}
-	if err := h.factorCoarse(); err != nil {
-		return nil, err
-	}
-	// The cycle needs only the inverse diagonal: dropping the diagonal
-	// saves memory traffic in the residual.
-	for k := range h.levels {
-		h.levels[k].d = nil
 	}
 	return h, nil
 }
 
-// finish sets the inverse diagonal.
-func (l *smgLevel) finish() {
-	for k := 0; k < l.nx*l.ny; k++ {
-		p := l.pad + k
-		l.inv[p] = 1 / l.d[p]
+// finish sets the cycle's float32 arrays (the stencil when coefs) from
+// the set-up stencil and lets the set-up stencil go (its scratch buffer
+// serves the level after next).
+func (l *smgLevel) finish(coefs bool) {
+	m := len(l.set.d)
+	l.x, l.b, l.r = make([]float32, m), make([]float32, m), make([]float32, m)
+	if coefs {
+		l.inv, l.w, l.s = make([]float32, m), make([]float32, m), make([]float32, m)
+		if l.set.sw != nil {
+			l.sw, l.se = make([]float32, m), make([]float32, m)
+		}
+		parallel.Pieces(m, smgPieces(l), smgWorkers(l), func(_, lo, hi int) {
+			for p := lo; p < hi; p++ {
+				if d := l.set.d[p]; d != 0 {
+					l.inv[p] = float32(1 / d)
+				}
+				l.w[p], l.s[p] = float32(l.set.w[p]), float32(l.set.s[p])
+				if l.sw != nil {
+					l.sw[p], l.se[p] = float32(l.set.sw[p]), float32(l.set.se[p])
+				}
+			}
+		})
 	}
+	l.set = smgSet{}
+}
+
+// smgPieces is the number of ranges finish splits a large level into.
+func smgPieces(l *smgLevel) int {
+	if smgWorkers(l) == 1 {
+		return 1
+	}
+	return 16
 }
 
 // direction picks the coarsening direction: the one with the larger sum
@@ -204,14 +256,15 @@ func (l *smgLevel) direction() int {
 		return 0
 	}
 	var mx, my float64
+	st := &l.set
 	for k := 0; k < l.nx*l.ny; k++ {
 		p := l.pad + k
 		c := 0.0
-		if l.sw != nil {
-			c = math.Abs(l.sw[p]) + math.Abs(l.se[p])
+		if st.sw != nil {
+			c = math.Abs(st.sw[p]) + math.Abs(st.se[p])
 		}
-		mx += math.Abs(l.w[p]) + c
-		my += math.Abs(l.s[p]) + c
+		mx += math.Abs(st.w[p]) + c
+		my += math.Abs(st.s[p]) + c
 	}
 	if mx >= my {
 		return 0
@@ -223,8 +276,9 @@ func (l *smgLevel) direction() int {
 // coordinate along the coarsening direction from their collapsed stencil.
 func (l *smgLevel) weights() {
 	nx, ny := l.nx, l.ny
-	m := len(l.d)
-	l.plo, l.phi = make([]float64, m), make([]float64, m)
+	m := len(l.set.d)
+	l.plo, l.phi = make([]float32, m), make([]float32, m)
+	d := l.set.d
 	st := l.stencil()
 	parallel.Each(ny, smgWorkers(l), 0, func(_, j int) {
 		for i := 0; i < nx; i++ {
@@ -240,18 +294,18 @@ func (l *smgLevel) weights() {
 			if l.dir == 0 {
 				lo = coef(&st, p, -1, -1) + coef(&st, p, -1, 0) + coef(&st, p, -1, 1)
 				hi = coef(&st, p, 1, -1) + coef(&st, p, 1, 0) + coef(&st, p, 1, 1)
-				c = l.d[p] + coef(&st, p, 0, -1) + coef(&st, p, 0, 1)
+				c = d[p] + coef(&st, p, 0, -1) + coef(&st, p, 0, 1)
 			} else {
 				lo = coef(&st, p, -1, -1) + coef(&st, p, 0, -1) + coef(&st, p, 1, -1)
 				hi = coef(&st, p, -1, 1) + coef(&st, p, 0, 1) + coef(&st, p, 1, 1)
-				c = l.d[p] + coef(&st, p, -1, 0) + coef(&st, p, 1, 0)
+				c = d[p] + coef(&st, p, -1, 0) + coef(&st, p, 1, 0)
 			}
 			lo, hi = max(0, -lo), max(0, -hi)
 			// A collapsed row that is not diagonally dominant (possible
 			// on coarse levels) interpolates with weights summing to 1.
 			c = max(c, lo+hi)
 			if c > 0 {
-				l.plo[p], l.phi[p] = lo/c, hi/c
+				l.plo[p], l.phi[p] = float32(lo/c), float32(hi/c)
 			}
 		}
 	})
@@ -259,7 +313,9 @@ func (l *smgLevel) weights() {
 
 // coarsen returns the next level: every second line across the coarsening
 // direction, with the Galerkin operator P^T A P.
-func (l *smgLevel) coarsen() smgLevel {
+//
+// The coarse stencil goes to *scratch (see newSMGLevel).
+func (l *smgLevel) coarsen(scratch *[]float64) smgLevel {
 	nx, ny := l.nx, l.ny
 	cnx, cny := nx, ny
 	sa, sc, na := 1, nx, nx // fine strides along and across, points along
@@ -269,7 +325,7 @@ func (l *smgLevel) coarsen() smgLevel {
 		cny = (ny + 1) / 2
 		sa, sc, na = nx, 1, ny
 	}
-	c := newSMGLevel(cnx, cny, true)
+	c := newSMGLevel(cnx, cny, true, scratch)
 	st := l.stencil()
 	// o[da+1][dc+1] is the stencil entry of offset da along and dc across.
 	var o [3][3]int
@@ -303,9 +359,9 @@ func (l *smgLevel) coarsen() smgLevel {
 				wf := 1.0
 				switch m {
 				case -1:
-					wf = phi[pf]
+					wf = float64(phi[pf])
 				case 1:
-					wf = plo[pf]
+					wf = float64(plo[pf])
 				}
 				if wf == 0 {
 					continue
@@ -328,9 +384,9 @@ func (l *smgLevel) coarsen() smgLevel {
 							continue
 						}
 						lo := (ga - 1) / 2
-						acc[dc+1][lo-ca+1] += v * plo[pg]
+						acc[dc+1][lo-ca+1] += v * float64(plo[pg])
 						if w := phi[pg]; w != 0 {
-							acc[dc+1][lo-ca+2] += v * w
+							acc[dc+1][lo-ca+2] += v * float64(w)
 						}
 					}
 				}
@@ -344,11 +400,11 @@ func (l *smgLevel) coarsen() smgLevel {
 				return acc[dx+1][dy+1]
 			}
 			p := c.pad + cj*cnx + ci
-			c.d[p] = at(0, 0)
-			c.w[p] = at(-1, 0)
-			c.s[p] = at(0, -1)
-			c.sw[p] = at(-1, -1)
-			c.se[p] = at(1, -1)
+			c.set.d[p] = at(0, 0)
+			c.set.w[p] = at(-1, 0)
+			c.set.s[p] = at(0, -1)
+			c.set.sw[p] = at(-1, -1)
+			c.set.se[p] = at(1, -1)
 		}
 	})
 	return c
@@ -361,12 +417,13 @@ func (l *smgLevel) coarsen() smgLevel {
 func (l *smgLevel) stencil() [9][]float64 {
 	nx := l.nx
 	var st [9][]float64
-	st[4] = l.d
-	st[3], st[5] = l.w, l.w[1:]
-	st[1], st[7] = l.s, l.s[nx:]
-	if l.sw != nil {
-		st[0], st[8] = l.sw, l.sw[nx+1:]
-		st[2], st[6] = l.se, l.se[nx-1:]
+	t := &l.set
+	st[4] = t.d
+	st[3], st[5] = t.w, t.w[1:]
+	st[1], st[7] = t.s, t.s[nx:]
+	if t.sw != nil {
+		st[0], st[8] = t.sw, t.sw[nx+1:]
+		st[2], st[6] = t.se, t.se[nx-1:]
 	}
 	return st
 }
@@ -384,20 +441,21 @@ func (h *SMG) factorCoarse() error {
 	l := &h.levels[len(h.levels)-1]
 	n := l.nx * l.ny
 	sym := mat.NewSymDense(n, nil)
+	t := &l.set
 	for k := 0; k < n; k++ {
 		p := l.pad + k
 		i, j := k%l.nx, k/l.nx
-		sym.SetSym(k, k, l.d[p])
+		sym.SetSym(k, k, t.d[p])
 		if i > 0 {
-			sym.SetSym(k, k-1, l.w[p])
+			sym.SetSym(k, k-1, t.w[p])
 		}
 		if j > 0 {
-			sym.SetSym(k, k-l.nx, l.s[p])
-			if l.sw != nil && i > 0 {
-				sym.SetSym(k, k-l.nx-1, l.sw[p])
+			sym.SetSym(k, k-l.nx, t.s[p])
+			if t.sw != nil && i > 0 {
+				sym.SetSym(k, k-l.nx-1, t.sw[p])
 			}
-			if l.se != nil && i+1 < l.nx {
-				sym.SetSym(k, k-l.nx+1, l.se[p])
+			if t.se != nil && i+1 < l.nx {
+				sym.SetSym(k, k-l.nx+1, t.se[p])
 			}
 		}
 	}
@@ -436,11 +494,11 @@ func (h *SMG) Apply(dst, r []float64) {
 	}
 	f := &h.levels[0]
 	for u, k := range h.cells {
-		f.b[f.pad+k] = r[u]
+		f.b[f.pad+k] = float32(r[u])
 	}
 	h.cycle(0)
 	for u, k := range h.cells {
-		dst[u] = f.x[f.pad+k]
+		dst[u] = float64(f.x[f.pad+k])
 	}
 }
 
@@ -449,15 +507,19 @@ func (h *SMG) cycle(k int) {
 	l := &h.levels[k]
 	if k == len(h.levels)-1 {
 		n := l.nx * l.ny
-		copy(h.cb.RawVector().Data, l.b[l.pad:l.pad+n])
+		cb, cx := h.cb.RawVector().Data, h.cx.RawVector().Data
+		for k, v := range l.b[l.pad : l.pad+n] {
+			cb[k] = float64(v)
+		}
 		// The only possible error is a condition-number warning; the
 		// solution is still the best available, so it is used.
 		_ = h.chol.SolveVecTo(h.cx, h.cb)
-		copy(l.x[l.pad:l.pad+n], h.cx.RawVector().Data)
+		for k, v := range cx {
+			l.x[l.pad+k] = float32(v)
+		}
 		return
 	}
-	clear(l.x)
-	l.relax(true)
+	l.relaxFromZero()
 	l.residual()
 	c := &h.levels[k+1]
 	l.restrict(c)
@@ -481,6 +543,60 @@ func (l *smgLevel) relax(forward bool) {
 		parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
 			l.relaxRow(parity+2*r, forward)
 		})
+	}
+}
+
+// relaxFromZero is the forward sweep of relax from x = 0, without
+// clearing x first: an even row sees only its own relaxed points (its
+// neighbour rows and the points east of it are still 0), an odd row the
+// relaxed even rows and its own relaxed points. It gives the same x as
+// clearing x and calling relax(true), with fewer loads and no clearing
+// pass; every point of the box is written (the padding stays 0).
+func (l *smgLevel) relaxFromZero() {
+	nx := l.nx
+	rows := (l.ny + 1) / 2
+	parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
+		p0 := l.pad + 2*r*nx
+		x := l.x[p0-1 : p0+nx]
+		b, inv, w := l.b[p0:p0+nx], l.inv[p0:p0+nx], l.w[p0:p0+nx]
+		prev := float32(0) // x of the point west of i; 0 west of the box
+		for i := range b {
+			prev = (b[i] - w[i]*prev) * inv[i]
+			x[i+1] = prev
+		}
+	})
+	rows = l.ny / 2
+	parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
+		l.relaxOddFromZero(1 + 2*r)
+	})
+}
+
+// relaxOddFromZero is relaxRow forward on odd row j whose own points are
+// still 0 (their old values are not read).
+func (l *smgLevel) relaxOddFromZero(j int) {
+	nx := l.nx
+	p0 := l.pad + j*nx
+	x := l.x[p0-nx-1 : p0+2*nx+1]
+	xs, xc, xn := x[:nx+2], x[nx+1:2*nx+1], x[2*nx:]
+	b, inv := l.b[p0:p0+nx], l.inv[p0:p0+nx]
+	w := l.w[p0 : p0+nx]
+	s, sn := l.s[p0:p0+nx], l.s[p0+nx:p0+2*nx]
+	prev := float32(0)
+	if l.sw == nil {
+		for i := range b {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1]
+			prev = (t - w[i]*prev) * inv[i]
+			xc[i] = prev
+		}
+		return
+	}
+	sw, ne := l.sw[p0:p0+nx], l.sw[p0+nx+1:p0+2*nx+1]
+	se, nw := l.se[p0:p0+nx], l.se[p0+nx-1:p0+2*nx-1]
+	for i := range b {
+		t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+			ne[i]*xn[i+2] - nw[i]*xn[i]
+		prev = (t - w[i]*prev) * inv[i]
+		xc[i] = prev
 	}
 }
 

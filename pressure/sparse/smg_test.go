@@ -59,8 +59,9 @@ func TestSMGMatchesDenseCholesky(t *testing.T) {
 }
 
 // The V-cycle is a symmetric positive definite operator: (M^-1 u, v) =
-// (u, M^-1 v) to round-off and (M^-1 u, u) > 0 for random vectors, on
-// fields with inactive cells, faults and strong contrast.
+// (u, M^-1 v) to the round-off of its float32 arithmetic and (M^-1 u, u)
+// > 0 for random vectors, on fields with inactive cells, faults and
+// strong contrast.
 func TestSMGSymmetricPositive(t *testing.T) {
 	for _, kind := range []amgFieldKind{fieldInactive, fieldChannel1e6, fieldAnisotropic} {
 		a, _, cells := newAMGProblem(kind, 45, 38, 4).assemble()
@@ -73,7 +74,11 @@ func TestSMGSymmetricPositive(t *testing.T) {
 		h.Apply(mu, u)
 		h.Apply(mv, v)
 		uv, vu := dot(mu, v), dot(u, mv)
-		if math.Abs(uv-vu) > 1e-10*math.Sqrt(dot(mu, mu)*dot(v, v)) {
+		// Single precision (epsilon 6e-8): measured 1.5e-9 to 2.6e-8 of the
+		// scale below; the float64 cycle gave 1e-16.
+		scale := math.Sqrt(dot(mu, mu) * dot(v, v))
+		t.Logf("%v: asymmetry %.2g", kind, math.Abs(uv-vu)/scale)
+		if math.Abs(uv-vu) > 1e-7*scale {
 			t.Errorf("%v: (Mu, v) = %.15g, (u, Mv) = %.15g", kind, uv, vu)
 		}
 		if dot(mu, u) <= 0 || dot(mv, v) <= 0 {
