@@ -12,6 +12,13 @@ type Preconditioner interface {
 	Apply(dst, r []float64)
 }
 
+// Operator is a square matrix as conjugate gradients use it: *CSR, or a
+// StencilOperator.
+type Operator interface {
+	// MulVec sets dst = A x.
+	MulVec(dst, x []float64)
+}
+
 // PreconditionerFunc builds a preconditioner for a symmetric positive
 // definite matrix.
 type PreconditionerFunc func(a *CSR) (Preconditioner, error)
@@ -65,9 +72,13 @@ var ErrNotConverged = errors.New("sparse: conjugate gradients did not converge")
 // CG solves A x = b by preconditioned conjugate gradients (Hestenes and
 // Stiefel 1952; Saad, Iterative Methods for Sparse Linear Systems, 2003,
 // algorithm 9.1), starting from the x given. A must be symmetric positive
-// definite and m (nil for none) symmetric positive definite.
-func CG(a *CSR, b, x []float64, m Preconditioner, s CGSettings) (CGResult, error) {
-	n := a.N
+// definite (of the order of b and x) and m (nil for none) symmetric
+// positive definite.
+func CG(a Operator, b, x []float64, m Preconditioner, s CGSettings) (CGResult, error) {
+	n := len(b)
+	if len(x) != n {
+		return CGResult{}, fmt.Errorf("sparse: CG: %d unknowns for a right-hand side of %d", len(x), n)
+	}
 	if s.Tol <= 0 {
 		s.Tol = 1e-10
 	}

@@ -66,6 +66,7 @@ type SMG struct {
 	cells  []int // box cell of each unknown
 	chol   *mat.Cholesky
 	cb, cx *mat.VecDense
+	op     *StencilOperator // the matrix as a stencil; nil unless every box cell is an unknown
 }
 
 // SMGCoarsest is the largest number of points of the coarsest SMG level.
@@ -192,6 +193,12 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 		}
 	}
 	h := &SMG{cells: cells}
+	if whole(cells, nx*ny) {
+		// The fine set-up stencil is the matrix: keep it for Operator
+		// (its scratch buffer is not reused).
+		h.op = &StencilOperator{nx: nx, ny: ny, pad: fine.pad, d: fine.set.d, w: fine.set.w, s: fine.set.s}
+		scratch[0] = nil
+	}
 	h.levels = append(h.levels, fine)
 	for {
 		k := len(h.levels) - 1
@@ -210,6 +217,19 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 		h.levels = append(h.levels, c)
 	}
 	return h, nil
+}
+
+// whole reports whether cells lists every one of the n box cells in order.
+func whole(cells []int, n int) bool {
+	if len(cells) != n {
+		return false
+	}
+	for u, k := range cells {
+		if k != u {
+			return false
+		}
+	}
+	return true
 }
 
 // finish sets the cycle's float32 arrays (the stencil when coefs) from
@@ -483,6 +503,103 @@ func (h *SMG) String() string {
 		fmt.Fprintf(&b, "%dx%d", l.nx, l.ny)
 	}
 	return b.String()
+}
+
+// Operator returns the matrix the SMG was built from as a five-point
+// stencil in float64 (the fine level's set-up stencil, kept), or nil when
+// the unknowns are not every cell of the box in order. Its products are
+// bit-identical to those of the CSR matrix and read about a third of the
+// memory. Conjugate gradients can use it in place of the matrix, but
+// only for that matrix: an SMG kept as the preconditioner of a changed
+// matrix must not lend its operator.
+func (h *SMG) Operator() *StencilOperator { return h.op }
+
+// StencilOperator is a five-point matrix on an nx by ny box, every box
+// cell an unknown, held by its diagonal and lower couplings in padded
+// arrays (see smgLevel).
+type StencilOperator struct {
+	nx, ny, pad int
+	d, w, s     []float64
+}
+
+// stencilPieces is the number of row ranges MulVec splits a large box
+// into; rows are independent, so the product does not depend on it.
+const stencilPieces = 32
+
+// MulVec sets dst = A x. Each row is summed in the order of the CSR
+// matrix's columns (south, west, self, east, north) from zero, and an
+// entry the CSR matrix leaves out is a zero coefficient here, which adds
+// nothing: the products are bit-identical for finite x. Large boxes are
+// multiplied in parallel over fixed row ranges.
+func (o *StencilOperator) MulVec(dst, x []float64) {
+	n := o.nx * o.ny
+	if len(dst) != n || len(x) != n {
+		panic(fmt.Sprintf("sparse: StencilOperator.MulVec with vectors of length %d and %d for a matrix of order %d", len(dst), len(x), n))
+	}
+	if n < 1<<15 {
+		o.mulRows(dst, x, 0, o.ny)
+		return
+	}
+	parallel.Pieces(o.ny, stencilPieces, procs(), func(_, lo, hi int) { o.mulRows(dst, x, lo, hi) })
+}
+
+// mulRows sets rows [lo, hi) of dst = A x.
+func (o *StencilOperator) mulRows(dst, x []float64, lo, hi int) {
+	nx, ny := o.nx, o.ny
+	for j := lo; j < hi; j++ {
+		u0 := j * nx
+		if j == 0 || j == ny-1 || nx < 3 {
+			for i := 0; i < nx; i++ {
+				u := u0 + i
+				p := o.pad + u
+				v := 0.0
+				if j > 0 {
+					v += o.s[p] * x[u-nx]
+				}
+				if i > 0 {
+					v += o.w[p] * x[u-1]
+				}
+				v += o.d[p] * x[u]
+				if i+1 < nx {
+					v += o.w[p+1] * x[u+1]
+				}
+				if j+1 < ny {
+					v += o.s[p+nx] * x[u+nx]
+				}
+				dst[u] = v
+			}
+			continue
+		}
+		// An interior row: the edge points, then the rest without tests.
+		for _, i := range [2]int{0, nx - 1} {
+			u := u0 + i
+			p := o.pad + u
+			v := 0.0
+			v += o.s[p] * x[u-nx]
+			if i > 0 {
+				v += o.w[p] * x[u-1]
+			}
+			v += o.d[p] * x[u]
+			if i+1 < nx {
+				v += o.w[p+1] * x[u+1]
+			}
+			v += o.s[p+nx] * x[u+nx]
+			dst[u] = v
+		}
+		p0 := o.pad + u0
+		d, w, s := o.d[p0:p0+nx], o.w[p0:p0+nx+1], o.s[p0:p0+2*nx]
+		xs, xc, xn := x[u0-nx:u0], x[u0:u0+nx], x[u0+nx:u0+2*nx]
+		out := dst[u0 : u0+nx]
+		for i := 1; i < nx-1; i++ {
+			v := 0.0
+			v += s[i] * xs[i]
+			v += w[i] * xc[i-1]
+			v += d[i] * xc[i]
+			v += w[i+1] * xc[i+1]
+			v += s[nx+i] * xn[i]
+			out[i] = v
+		}
+	}
 }
 
 // Apply sets dst = M^-1 r for one V-cycle M^-1 started from zero. dst and
