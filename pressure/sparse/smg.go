@@ -165,19 +165,20 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 	}
 	for u, k := range cells {
 		p := fine.pad + k
-		ki, kj := k%nx, k/nx
+		ki := k % nx
 		for q := a.RowPtr[u]; q < a.RowPtr[u+1]; q++ {
 			l := cells[a.Col[q]]
-			di, dj := l%nx-ki, l/nx-kj
 			v := a.Val[q]
-			switch {
-			case di == 0 && dj == 0:
+			// By the difference of cell numbers: south first, since with
+			// nx = 1 the south neighbour is also one cell down.
+			switch diff := l - k; {
+			case diff == 0:
 				d[p] = v
-			case di == -1 && dj == 0:
-				fine.set.w[p] = v
-			case di == 0 && dj == -1:
+			case diff == -nx:
 				fine.set.s[p] = v
-			case (di == 1 && dj == 0) || (di == 0 && dj == 1):
+			case diff == -1 && ki > 0:
+				fine.set.w[p] = v
+			case diff == nx || (diff == 1 && ki < nx-1):
 				// the upper half, taken from the neighbour's row
 			default:
 				return nil, fmt.Errorf("sparse: SMG: row %d (cell %d) couples to cell %d, not a box neighbour", u, k, l)
@@ -358,10 +359,29 @@ func (l *smgLevel) coarsen(scratch *[]float64) smgLevel {
 			o[da+1][dc+1] = (oy+1)*3 + ox + 1
 		}
 	}
+	// The coarse operator is stored by its lower half, so only five of
+	// the nine entries of a coarse row are formed: need[dc+1][slot] marks
+	// them by offset across and slot along (see at below).
+	var need [3][3]bool
+	if l.dir == 0 {
+		need[1][1], need[1][0], need[0][0], need[0][1], need[0][2] = true, true, true, true, true
+	} else {
+		need[1][1], need[0][1], need[1][0], need[0][0], need[2][0] = true, true, true, true, true
+	}
+	// a3[da+1][dc+1] is the fine coefficient array of offset da along and
+	// dc across (nil for the corners of a five-point level).
+	var a3 [3][3][]float64
+	for da := 0; da < 3; da++ {
+		for dc := 0; dc < 3; dc++ {
+			a3[da][dc] = st[o[da][dc]]
+		}
+	}
 	plo, phi := l.plo, l.phi
 	parallel.Each(cny, smgWorkers(&c), 0, func(_, cj int) {
 		for ci := 0; ci < cnx; ci++ {
 			// acc[dc+1][dA+1]: the coarse row by offsets across and along.
+			// Contributions to an entry come in the order of (m, da),
+			// whatever entries are skipped.
 			var acc [3][3]float64
 			ca := ci // coarse coordinate along the direction
 			fi, fj := 2*ci, cj
@@ -386,10 +406,14 @@ func (l *smgLevel) coarsen(scratch *[]float64) smgLevel {
 				if wf == 0 {
 					continue
 				}
-				for da := -1; da <= 1; da++ {
-					ga := fa + da
-					for dc := -1; dc <= 1; dc++ {
-						a := st[o[da+1][dc+1]]
+				for dc := -1; dc <= 1; dc++ {
+					nd := &need[dc+1]
+					if !nd[0] && !nd[1] && !nd[2] {
+						continue
+					}
+					ac := &acc[dc+1]
+					for da := -1; da <= 1; da++ {
+						a := a3[da+1][dc+1]
 						if a == nil {
 							continue
 						}
@@ -399,14 +423,36 @@ func (l *smgLevel) coarsen(scratch *[]float64) smgLevel {
 						}
 						v *= wf
 						pg := pf + da*sa + dc*sc
-						if ga%2 == 0 {
-							acc[dc+1][ga/2-ca+1] += v
-							continue
-						}
-						lo := (ga - 1) / 2
-						acc[dc+1][lo-ca+1] += v * float64(plo[pg])
-						if w := phi[pg]; w != 0 {
-							acc[dc+1][lo-ca+2] += v * float64(w)
+						// The neighbour's along coordinate less 2*ca: even
+						// is a coarse point, odd one interpolated from the
+						// coarse points either side.
+						switch m + da {
+						case -2:
+							if nd[0] {
+								ac[0] += v
+							}
+						case -1:
+							if nd[0] {
+								ac[0] += v * float64(plo[pg])
+							}
+							if w := phi[pg]; w != 0 && nd[1] {
+								ac[1] += v * float64(w)
+							}
+						case 0:
+							if nd[1] {
+								ac[1] += v
+							}
+						case 1:
+							if nd[1] {
+								ac[1] += v * float64(plo[pg])
+							}
+							if w := phi[pg]; w != 0 && nd[2] {
+								ac[2] += v * float64(w)
+							}
+						case 2:
+							if nd[2] {
+								ac[2] += v
+							}
 						}
 					}
 				}
