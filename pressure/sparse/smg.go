@@ -805,21 +805,27 @@ func (l *smgLevel) relaxRow(j int, forward bool) {
 	}
 }
 
-// residual sets r = b - A x.
+// residual sets r = b - A x, by rows through row slices (as relaxRow).
 func (l *smgLevel) residual() {
-	nx := l.nx
-	x, b, r, inv, w, s, sw, se := l.x, l.b, l.r, l.inv, l.w, l.s, l.sw, l.se
 	parallel.Each(l.ny, smgWorkers(l), 0, func(_, j int) {
+		nx := l.nx
 		p0 := l.pad + j*nx
-		if sw == nil {
-			for p := p0; p < p0+nx; p++ {
-				r[p] = b[p] - x[p]/inv[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx]
+		x := l.x[p0-nx-1 : p0+2*nx+1]
+		xs, xc, xn := x[:nx+2], x[nx:2*nx+2], x[2*nx:] // rows j-1, j, j+1 from i = -1
+		b, inv, r := l.b[p0:p0+nx], l.inv[p0:p0+nx], l.r[p0:p0+nx]
+		w := l.w[p0 : p0+nx+1]
+		s, sn := l.s[p0:p0+nx], l.s[p0+nx:p0+2*nx]
+		if l.sw == nil {
+			for i := range b {
+				r[i] = b[i] - xc[i+1]/inv[i] - w[i]*xc[i] - w[i+1]*xc[i+2] - s[i]*xs[i+1] - sn[i]*xn[i+1]
 			}
 			return
 		}
-		for p := p0; p < p0+nx; p++ {
-			r[p] = b[p] - x[p]/inv[p] - w[p]*x[p-1] - w[p+1]*x[p+1] - s[p]*x[p-nx] - s[p+nx]*x[p+nx] -
-				sw[p]*x[p-nx-1] - sw[p+nx+1]*x[p+nx+1] - se[p]*x[p-nx+1] - se[p+nx-1]*x[p+nx-1]
+		sw, ne := l.sw[p0:p0+nx], l.sw[p0+nx+1:p0+2*nx+1]
+		se, nw := l.se[p0:p0+nx], l.se[p0+nx-1:p0+2*nx-1]
+		for i := range b {
+			r[i] = b[i] - xc[i+1]/inv[i] - w[i]*xc[i] - w[i+1]*xc[i+2] - s[i]*xs[i+1] - sn[i]*xn[i+1] -
+				sw[i]*xs[i] - ne[i]*xn[i+2] - se[i]*xs[i+2] - nw[i]*xn[i]
 		}
 	})
 }
