@@ -703,9 +703,74 @@ func (l *smgLevel) relax(forward bool) {
 			parity = 1 - q
 		}
 		rows := (l.ny - parity + 1) / 2
-		parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
-			l.relaxRow(parity+2*r, forward)
+		// Two rows of a parity at a time: their chains of dependent
+		// operations (each point waits for its west or east neighbour)
+		// interleave. Every row is relaxed as alone.
+		parallel.Each((rows+1)/2, smgWorkers(l), 0, func(_, r int) {
+			j := parity + 4*r
+			if j+2 < l.ny {
+				l.relaxRows(j, j+2, forward)
+			} else {
+				l.relaxRow(j, forward)
+			}
 		})
+	}
+}
+
+// relaxRows is relaxRow on rows j and k together (rows of one parity, so
+// independent), one point of each in turn.
+func (l *smgLevel) relaxRows(j, k int, forward bool) {
+	nx := l.nx
+	p0, q0 := l.pad+j*nx, l.pad+k*nx
+	x := l.x[p0-nx-1 : p0+2*nx+1]
+	xs, xc, xn := x[:nx+2], x[nx:2*nx+2], x[2*nx:]
+	y := l.x[q0-nx-1 : q0+2*nx+1]
+	ys, yc, yn := y[:nx+2], y[nx:2*nx+2], y[2*nx:]
+	b, inv := l.b[p0:p0+nx], l.inv[p0:p0+nx]
+	bk, invk := l.b[q0:q0+nx], l.inv[q0:q0+nx]
+	w, wk := l.w[p0:p0+nx+1], l.w[q0:q0+nx+1]
+	s, sn := l.s[p0:p0+nx], l.s[p0+nx:p0+2*nx]
+	sk, snk := l.s[q0:q0+nx], l.s[q0+nx:q0+2*nx]
+	if l.sw == nil {
+		if forward {
+			for i := range b {
+				t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - w[i+1]*xc[i+2]
+				u := bk[i] - sk[i]*ys[i+1] - snk[i]*yn[i+1] - wk[i+1]*yc[i+2]
+				xc[i+1] = (t - w[i]*xc[i]) * inv[i]
+				yc[i+1] = (u - wk[i]*yc[i]) * invk[i]
+			}
+			return
+		}
+		for i := nx - 1; i >= 0; i-- {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - w[i]*xc[i]
+			u := bk[i] - sk[i]*ys[i+1] - snk[i]*yn[i+1] - wk[i]*yc[i]
+			xc[i+1] = (t - w[i+1]*xc[i+2]) * inv[i]
+			yc[i+1] = (u - wk[i+1]*yc[i+2]) * invk[i]
+		}
+		return
+	}
+	sw, ne := l.sw[p0:p0+nx], l.sw[p0+nx+1:p0+2*nx+1]
+	se, nw := l.se[p0:p0+nx], l.se[p0+nx-1:p0+2*nx-1]
+	swk, nek := l.sw[q0:q0+nx], l.sw[q0+nx+1:q0+2*nx+1]
+	sek, nwk := l.se[q0:q0+nx], l.se[q0+nx-1:q0+2*nx-1]
+	if forward {
+		for i := range b {
+			t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+				ne[i]*xn[i+2] - nw[i]*xn[i] - w[i+1]*xc[i+2]
+			u := bk[i] - sk[i]*ys[i+1] - snk[i]*yn[i+1] - swk[i]*ys[i] - sek[i]*ys[i+2] -
+				nek[i]*yn[i+2] - nwk[i]*yn[i] - wk[i+1]*yc[i+2]
+			xc[i+1] = (t - w[i]*xc[i]) * inv[i]
+			yc[i+1] = (u - wk[i]*yc[i]) * invk[i]
+		}
+		return
+	}
+	for i := nx - 1; i >= 0; i-- {
+		t := b[i] - s[i]*xs[i+1] - sn[i]*xn[i+1] - sw[i]*xs[i] - se[i]*xs[i+2] -
+			ne[i]*xn[i+2] - nw[i]*xn[i] - w[i]*xc[i]
+		u := bk[i] - sk[i]*ys[i+1] - snk[i]*yn[i+1] - swk[i]*ys[i] - sek[i]*ys[i+2] -
+			nek[i]*yn[i+2] - nwk[i]*yn[i] - wk[i]*yc[i]
+		xc[i+1] = (t - w[i+1]*xc[i+2]) * inv[i]
+		yc[i+1] = (u - wk[i+1]*yc[i+2]) * invk[i]
 	}
 }
 
@@ -716,22 +781,37 @@ func (l *smgLevel) relax(forward bool) {
 // clearing x and calling relax(true), with fewer loads and no clearing
 // pass; every point of the box is written (the padding stays 0).
 func (l *smgLevel) relaxFromZero() {
-	nx := l.nx
-	rows := (l.ny + 1) / 2
-	parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
-		p0 := l.pad + 2*r*nx
-		x := l.x[p0-1 : p0+nx]
-		b, inv, w := l.b[p0:p0+nx], l.inv[p0:p0+nx], l.w[p0:p0+nx]
-		prev := float32(0) // x of the point west of i; 0 west of the box
-		for i := range b {
-			prev = (b[i] - w[i]*prev) * inv[i]
-			x[i+1] = prev
+	// Two rows at a time, as in relax.
+	even := (l.ny + 1) / 2
+	parallel.Each((even+1)/2, smgWorkers(l), 0, func(_, r int) {
+		j := 4 * r
+		if j+2 >= l.ny {
+			l.relaxEvenFromZero(j, j)
+			return
 		}
+		l.relaxEvenFromZero(j, j+2)
 	})
-	rows = l.ny / 2
-	parallel.Each(rows, smgWorkers(l), 0, func(_, r int) {
+	parallel.Each(l.ny/2, smgWorkers(l), 0, func(_, r int) {
 		l.relaxOddFromZero(1 + 2*r)
 	})
+}
+
+// relaxEvenFromZero relaxes even rows j and k (j = k for one row) from
+// x = 0: each point sees only its west neighbour, relaxed before it.
+func (l *smgLevel) relaxEvenFromZero(j, k int) {
+	nx := l.nx
+	p0, q0 := l.pad+j*nx, l.pad+k*nx
+	x, y := l.x[p0:p0+nx], l.x[q0:q0+nx]
+	b, inv, w := l.b[p0:p0+nx], l.inv[p0:p0+nx], l.w[p0:p0+nx]
+	bk, invk, wk := l.b[q0:q0+nx], l.inv[q0:q0+nx], l.w[q0:q0+nx]
+	// The x of the points west of i; 0 west of the box.
+	prev, prevk := float32(0), float32(0)
+	for i := range b {
+		prev = (b[i] - w[i]*prev) * inv[i]
+		prevk = (bk[i] - wk[i]*prevk) * invk[i]
+		x[i] = prev
+		y[i] = prevk
+	}
 }
 
 // relaxOddFromZero is relaxRow forward on odd row j whose own points are
