@@ -63,7 +63,8 @@ import (
 // several goroutines at once.
 type SMG struct {
 	levels []smgLevel
-	cells  []int // box cell of each unknown
+	n      int   // order of the matrix
+	cells  []int // box cell of each unknown; nil for every cell in order (NewSMGStencil)
 	chol   *mat.Cholesky
 	cb, cx *mat.VecDense
 	op     *StencilOperator // the matrix as a stencil; nil unless every box cell is an unknown
@@ -193,23 +194,65 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 			d[p] = 1
 		}
 	}
-	h := &SMG{cells: cells}
+	h := &SMG{cells: cells, n: len(cells)}
 	if whole(cells, nx*ny) {
-		// The fine set-up stencil is the matrix: keep it for Operator
-		// (its scratch buffer is not reused).
-		h.op = &StencilOperator{nx: nx, ny: ny, pad: fine.pad, d: fine.set.d, w: fine.set.w, s: fine.set.s}
-		scratch[0] = nil
+		h.keepOperator(&fine, &scratch)
 	}
+	return h, h.build(fine, &scratch)
+}
+
+// NewSMGStencil returns the structured multigrid preconditioner of the
+// five-point matrix whose unknowns are all the cells of an nx by ny box,
+// in cell order (k = j*nx + i), given by its stencil instead of a CSR
+// matrix: fill sets d[k], the diagonal of row k, w[k], the coupling of
+// cell k to cell k-1, and s[k], to cell k-nx, on slices of length nx*ny
+// that are zero when it is called (w[k] must stay 0 for i = 0, s[k] for
+// j = 0). The matrix must be symmetric positive definite. The SMG's
+// Operator multiplies by the matrix.
+func NewSMGStencil(nx, ny int, fill func(d, w, s []float64)) (*SMG, error) {
+	if nx < 1 || ny < 1 {
+		return nil, fmt.Errorf("sparse: SMG: grid %d x %d is empty", nx, ny)
+	}
+	var scratch [2][]float64
+	fine := newSMGLevel(nx, ny, false, &scratch[0])
+	n, p0 := nx*ny, fine.pad
+	d, w, s := fine.set.d[p0:p0+n], fine.set.w[p0:p0+n], fine.set.s[p0:p0+n]
+	fill(d, w, s)
+	for k := range n {
+		if !(d[k] > 0) || math.IsInf(d[k], 0) {
+			return nil, fmt.Errorf("sparse: SMG: diagonal entry %d is %g, not positive", k, d[k])
+		}
+		if math.IsNaN(w[k]) || math.IsInf(w[k], 0) || math.IsNaN(s[k]) || math.IsInf(s[k], 0) {
+			return nil, fmt.Errorf("sparse: SMG: couplings of cell %d are %g and %g, not finite", k, w[k], s[k])
+		}
+		if (k%nx == 0 && w[k] != 0) || (k < nx && s[k] != 0) {
+			return nil, fmt.Errorf("sparse: SMG: cell %d couples across the edge of the %d x %d grid", k, nx, ny)
+		}
+	}
+	h := &SMG{n: n}
+	h.keepOperator(&fine, &scratch)
+	return h, h.build(fine, &scratch)
+}
+
+// keepOperator keeps the fine set-up stencil, which is the matrix, for
+// Operator (its scratch buffer is then not reused).
+func (h *SMG) keepOperator(fine *smgLevel, scratch *[2][]float64) {
+	h.op = &StencilOperator{nx: fine.nx, ny: fine.ny, pad: fine.pad, d: fine.set.d, w: fine.set.w, s: fine.set.s}
+	scratch[0] = nil
+}
+
+// build makes the hierarchy below the fine level.
+func (h *SMG) build(fine smgLevel, scratch *[2][]float64) error {
 	h.levels = append(h.levels, fine)
 	for {
 		k := len(h.levels) - 1
 		l := &h.levels[k]
 		if l.nx*l.ny <= SMGCoarsest || (l.nx == 1 && l.ny == 1) {
 			if err := h.factorCoarse(); err != nil {
-				return nil, err
+				return err
 			}
 			l.finish(false)
-			break
+			return nil
 		}
 		l.dir = l.direction()
 		l.weights()
@@ -217,7 +260,6 @@ func NewSMG(a *CSR, nx, ny int, cells []int) (*SMG, error) {
 		l.finish(true)
 		h.levels = append(h.levels, c)
 	}
-	return h, nil
 }
 
 // whole reports whether cells lists every one of the n box cells in order.
@@ -652,10 +694,21 @@ func (o *StencilOperator) mulRows(dst, x []float64, lo, hi int) {
 // r may be the same slice. It panics if their lengths differ from the
 // order of the matrix.
 func (h *SMG) Apply(dst, r []float64) {
-	if len(dst) != len(h.cells) || len(r) != len(h.cells) {
-		panic(fmt.Sprintf("sparse: SMG.Apply with vectors of length %d and %d for a matrix of order %d", len(dst), len(r), len(h.cells)))
+	if len(dst) != h.n || len(r) != h.n {
+		panic(fmt.Sprintf("sparse: SMG.Apply with vectors of length %d and %d for a matrix of order %d", len(dst), len(r), h.n))
 	}
 	f := &h.levels[0]
+	if h.op != nil { // every box cell, in order
+		b := f.b[f.pad : f.pad+h.n]
+		for u, v := range r {
+			b[u] = float32(v)
+		}
+		h.cycle(0)
+		for u, v := range f.x[f.pad : f.pad+h.n] {
+			dst[u] = float64(v)
+		}
+		return
+	}
 	for u, k := range h.cells {
 		f.b[f.pad+k] = float32(r[u])
 	}
