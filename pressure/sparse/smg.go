@@ -699,14 +699,18 @@ func (h *SMG) Apply(dst, r []float64) {
 	}
 	f := &h.levels[0]
 	if h.op != nil { // every box cell, in order
-		b := f.b[f.pad : f.pad+h.n]
-		for u, v := range r {
-			b[u] = float32(v)
-		}
+		b, x := f.b[f.pad:f.pad+h.n], f.x[f.pad:f.pad+h.n]
+		parallel.Pieces(h.n, smgPieces(f), smgWorkers(f), func(_, lo, hi int) {
+			for u := lo; u < hi; u++ {
+				b[u] = float32(r[u])
+			}
+		})
 		h.cycle(0)
-		for u, v := range f.x[f.pad : f.pad+h.n] {
-			dst[u] = float64(v)
-		}
+		parallel.Pieces(h.n, smgPieces(f), smgWorkers(f), func(_, lo, hi int) {
+			for u := lo; u < hi; u++ {
+				dst[u] = float64(x[u])
+			}
+		})
 		return
 	}
 	for u, k := range h.cells {
