@@ -410,20 +410,54 @@ func (l *smgLevel) coarsen(scratch *[]float64) smgLevel {
 	} else {
 		need[1][1], need[0][1], need[1][0], need[0][0], need[2][0] = true, true, true, true, true
 	}
-	// a3[da+1][dc+1] is the fine coefficient array of offset da along and
-	// dc across (nil for the corners of a five-point level).
-	var a3 [3][3][]float64
-	for da := 0; da < 3; da++ {
-		for dc := 0; dc < 3; dc++ {
-			a3[da][dc] = st[o[da][dc]]
+	// terms[m+1] lists, for the fine point at offset m along from the
+	// coarse point, the stencil entries that reach a stored coarse entry,
+	// in the order (dc, da): the contributions to each coarse entry come
+	// in the order of (m, da), as in the plain triple loop. A neighbour
+	// at an even offset t = m+da along is a coarse point (slot t/2+1,
+	// factor 1); at an odd one it is interpolated from the coarse points
+	// either side (slot lo with plo, lo+1 with phi).
+	type term struct {
+		a      []float64 // fine coefficients of the entry
+		off    int       // index offset of the neighbour
+		dc     int       // row of acc: dc+1
+		odd    bool      // the neighbour is interpolated
+		lo, hi int       // slots fed (factor 1 or plo, and phi); -1 for none
+	}
+	var terms [3][]term
+	for m := -1; m <= 1; m++ {
+		for dc := -1; dc <= 1; dc++ {
+			for da := -1; da <= 1; da++ {
+				a := st[o[da+1][dc+1]]
+				if a == nil {
+					continue
+				}
+				t := m + da
+				tm := term{a: a, off: da*sa + dc*sc, dc: dc + 1, lo: -1, hi: -1}
+				if t%2 == 0 {
+					if sl := t/2 + 1; need[dc+1][sl] {
+						tm.lo = sl
+					}
+				} else {
+					tm.odd = true
+					sl := (t + 1) / 2 // t = -1: slots 0, 1; t = 1: slots 1, 2
+					if need[dc+1][sl] {
+						tm.lo = sl
+					}
+					if need[dc+1][sl+1] {
+						tm.hi = sl + 1
+					}
+				}
+				if tm.lo >= 0 || tm.hi >= 0 {
+					terms[m+1] = append(terms[m+1], tm)
+				}
+			}
 		}
 	}
 	plo, phi := l.plo, l.phi
 	parallel.Each(cny, smgWorkers(&c), 0, func(_, cj int) {
 		for ci := 0; ci < cnx; ci++ {
 			// acc[dc+1][dA+1]: the coarse row by offsets across and along.
-			// Contributions to an entry come in the order of (m, da),
-			// whatever entries are skipped.
 			var acc [3][3]float64
 			ca := ci // coarse coordinate along the direction
 			fi, fj := 2*ci, cj
@@ -448,54 +482,23 @@ func (l *smgLevel) coarsen(scratch *[]float64) smgLevel {
 				if wf == 0 {
 					continue
 				}
-				for dc := -1; dc <= 1; dc++ {
-					nd := &need[dc+1]
-					if !nd[0] && !nd[1] && !nd[2] {
+				for _, tm := range terms[m+1] {
+					v := tm.a[pf]
+					if v == 0 {
 						continue
 					}
-					ac := &acc[dc+1]
-					for da := -1; da <= 1; da++ {
-						a := a3[da+1][dc+1]
-						if a == nil {
-							continue
-						}
-						v := a[pf]
-						if v == 0 {
-							continue
-						}
-						v *= wf
-						pg := pf + da*sa + dc*sc
-						// The neighbour's along coordinate less 2*ca: even
-						// is a coarse point, odd one interpolated from the
-						// coarse points either side.
-						switch m + da {
-						case -2:
-							if nd[0] {
-								ac[0] += v
-							}
-						case -1:
-							if nd[0] {
-								ac[0] += v * float64(plo[pg])
-							}
-							if w := phi[pg]; w != 0 && nd[1] {
-								ac[1] += v * float64(w)
-							}
-						case 0:
-							if nd[1] {
-								ac[1] += v
-							}
-						case 1:
-							if nd[1] {
-								ac[1] += v * float64(plo[pg])
-							}
-							if w := phi[pg]; w != 0 && nd[2] {
-								ac[2] += v * float64(w)
-							}
-						case 2:
-							if nd[2] {
-								ac[2] += v
-							}
-						}
+					v *= wf
+					ac := &acc[tm.dc]
+					if !tm.odd {
+						ac[tm.lo] += v
+						continue
+					}
+					pg := pf + tm.off
+					if tm.lo >= 0 {
+						ac[tm.lo] += v * float64(plo[pg])
+					}
+					if w := phi[pg]; w != 0 && tm.hi >= 0 {
+						ac[tm.hi] += v * float64(w)
 					}
 				}
 			}
