@@ -172,8 +172,10 @@ func (pb *problem) checkWells(mob []float64) error {
 }
 
 // regions labels the connected regions of active cells through faces of
-// positive transmissibility (breadth-first search) and marks the regions
-// that hold an open well.
+// positive transmissibility (breadth-first search, whose queue holds about
+// one front of cells, a few times the grid's side, where a depth-first
+// stack can hold most of the grid) and marks the regions that hold an
+// open well. Regions are numbered in the order of their lowest cell.
 func (pb *problem) regions() {
 	g := pb.g
 	n := g.N()
@@ -181,7 +183,7 @@ func (pb *problem) regions() {
 	for k := range pb.comp {
 		pb.comp[k] = -1
 	}
-	queue := make([]int, 0, 64)
+	queue := make([]int, 0, 1024)
 	var nt [4]float64
 	var nl [4]int
 	for s := 0; s < n; s++ {
@@ -193,9 +195,14 @@ func (pb *problem) regions() {
 		pb.seed = append(pb.seed, s)
 		pb.comp[s] = c
 		queue = append(queue[:0], s)
-		for len(queue) > 0 {
-			k := queue[len(queue)-1]
-			queue = queue[:len(queue)-1]
+		for head := 0; head < len(queue); {
+			k := queue[head]
+			head++
+			if head >= 1024 && 2*head >= len(queue) {
+				// Drop the cells already taken.
+				queue = queue[:copy(queue, queue[head:])]
+				head = 0
+			}
 			nc := pb.neighbours(k, &nt, &nl)
 			for q := 0; q < nc; q++ {
 				if l := nl[q]; pb.comp[l] < 0 {
