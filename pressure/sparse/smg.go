@@ -54,6 +54,13 @@ import (
 // internal/parallel, and the result does not depend on the number of
 // cores.
 //
+// Precision and memory. The cycle works in float32 (stencils, weights and
+// vectors; the set-up in float64), which halves its memory traffic; the
+// conjugate gradients around it keep float64. When the unknowns are every
+// cell of the box, the fine float64 stencil is kept as the matrix
+// (Operator), and NewSMGStencil builds the hierarchy from a stencil
+// without any CSR matrix.
+//
 // What it cannot take: a matrix that is not a five-point stencil of the
 // box given (NewSMG returns an error), and systems whose unknowns fill
 // little of the box (the cycle works on every box cell); callers keep
