@@ -32,6 +32,20 @@ type System struct {
 	// mobility (rate per unit pressure), numbered like
 	// reservoir.Model.TransMultX and TransMultY.
 	TX, TY []float64
+
+	// Solve's default solve of a system on every cell of a large grid
+	// leaves A out (nil) and gives the structured multigrid the stencil
+	// instead; build makes A should another preconditioner need it.
+	stencil func(d, w, s []float64)
+	build   func() *sparse.CSR
+}
+
+// matrix returns A, building it first if the assembly left it out.
+func (s *System) matrix() *sparse.CSR {
+	if s.A == nil && s.build != nil {
+		s.A, s.build = s.build(), nil
+	}
+	return s.A
 }
 
 // Assemble validates the input and builds the pressure system with every
@@ -71,6 +85,9 @@ type problem struct {
 	seed   []int     // lowest-numbered cell of each region
 	driven []bool    // the region holds an open well
 	mob    []float64 // total mobility per cell (Sequence compares it)
+	// lazy lets assemble leave out the CSR matrix of a system on every
+	// cell of the grid (Solve with the default preconditioner).
+	lazy bool
 }
 
 func newProblem(in Input) (*problem, error) {
@@ -155,8 +172,10 @@ func (pb *problem) checkWells(mob []float64) error {
 }
 
 // regions labels the connected regions of active cells through faces of
-// positive transmissibility (breadth-first search) and marks the regions
-// that hold an open well.
+// positive transmissibility (breadth-first search, whose queue holds about
+// one front of cells, a few times the grid's side, where a depth-first
+// stack can hold most of the grid) and marks the regions that hold an
+// open well. Regions are numbered in the order of their lowest cell.
 func (pb *problem) regions() {
 	g := pb.g
 	n := g.N()
@@ -164,7 +183,7 @@ func (pb *problem) regions() {
 	for k := range pb.comp {
 		pb.comp[k] = -1
 	}
-	queue := make([]int, 0, 64)
+	queue := make([]int, 0, 1024)
 	var nt [4]float64
 	var nl [4]int
 	for s := 0; s < n; s++ {
@@ -176,9 +195,14 @@ func (pb *problem) regions() {
 		pb.seed = append(pb.seed, s)
 		pb.comp[s] = c
 		queue = append(queue[:0], s)
-		for len(queue) > 0 {
-			k := queue[len(queue)-1]
-			queue = queue[:len(queue)-1]
+		for head := 0; head < len(queue); {
+			k := queue[head]
+			head++
+			if head >= 1024 && 2*head >= len(queue) {
+				// Drop the cells already taken.
+				queue = queue[:copy(queue, queue[head:])]
+				head = 0
+			}
 			nc := pb.neighbours(k, &nt, &nl)
 			for q := 0; q < nc; q++ {
 				if l := nl[q]; pb.comp[l] < 0 {
@@ -276,13 +300,19 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 			sys.Unknown[u] = k
 		}
 	}
-	a, diagPos := pb.matrix(sys)
 	sys.B = make([]float64, nu)
 	if pb.gx != nil {
 		for u, k := range sys.Unknown {
 			sys.B[u] -= pb.gravitySource(k)
 		}
 	}
+	// The connection factors of BHP-controlled wells on the diagonal, in
+	// well order.
+	type diagTerm struct {
+		u  int
+		cf float64
+	}
+	var wellDiag []diagTerm
 	for w := range pb.wells {
 		c := ctl[w]
 		u := sys.Index[pb.wells[w].Cell]
@@ -290,13 +320,31 @@ func (pb *problem) assemble(ctl []control) (*System, []bool, error) {
 			continue // shut, or rate well in a gauge cell (equation dropped)
 		}
 		if c.bhp {
-			a.Val[diagPos[u]] += pb.cf[w]
+			wellDiag = append(wellDiag, diagTerm{u, pb.cf[w]})
 			sys.B[u] += pb.cf[w] * c.target
 		} else {
 			sys.B[u] += c.target
 		}
 	}
-	sys.A = a
+	sys.build = func() *sparse.CSR {
+		a, diagPos := pb.matrix(sys)
+		for _, t := range wellDiag {
+			a.Val[diagPos[t.u]] += t.cf
+		}
+		return a
+	}
+	if pb.lazy && nu == n && nu >= AMGThreshold {
+		// Every cell is an unknown: the structured multigrid takes the
+		// stencil, the same numbers as the matrix's rows.
+		sys.stencil = func(d, w, s []float64) {
+			pb.stencil(d, w, s)
+			for _, t := range wellDiag {
+				d[t.u] += t.cf
+			}
+		}
+		return sys, gauged, nil
+	}
+	sys.matrix()
 	return sys, gauged, nil
 }
 

@@ -73,3 +73,36 @@ func (pb *problem) matrix(sys *System) (*sparse.CSR, []int) {
 	})
 	return a, diagPos
 }
+
+// stencil sets the five-point stencil of the two-point flux matrix (no
+// well terms) of a system whose unknowns are every cell of the grid, in
+// cell order: d the diagonal, w the coupling to the west neighbour, s to
+// the south one, as sparse.NewSMGStencil takes them. The numbers are
+// those of matrix's rows, summed in the same order.
+func (pb *problem) stencil(d, w, s []float64) {
+	n, nx := len(d), pb.g.NX
+	pieces := matrixPieces
+	if n < 1<<14 {
+		pieces = 1
+	}
+	parallel.Pieces(n, pieces, 0, func(_, lo, hi int) {
+		var nt [4]float64
+		var nl [4]int
+		for k := lo; k < hi; k++ {
+			c := pb.neighbours(k, &nt, &nl)
+			v := 0.0
+			for q := 0; q < c; q++ {
+				t := nt[q]
+				v += t
+				// South first: with one column the south neighbour is k-1.
+				switch nl[q] {
+				case k - nx:
+					s[k] = -t
+				case k - 1:
+					w[k] = -t
+				}
+			}
+			d[k] = v
+		}
+	})
+}

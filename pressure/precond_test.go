@@ -131,7 +131,7 @@ func checkSamePressure(t *testing.T, a, b *Solution, tol float64) {
 
 // On the benchmark pattern (internal/benchcase) the iterations of the
 // default solve to 1e-10 stay flat from 1e4 to 1e6 cells: at most 14
-// (measured 11 to 12; hypre's PFMG, the method of Ashby and Falgout 1996,
+// (measured 10 to 11; hypre's PFMG, the method of Ashby and Falgout 1996,
 // takes 19 on this pattern, issue 19). 1000x1000 runs unless -short.
 func TestSMGBenchmarkPatternIterations(t *testing.T) {
 	sizes := []int{100, 300}
@@ -151,5 +151,57 @@ func TestSMGBenchmarkPatternIterations(t *testing.T) {
 		if sol.Iterations > 14 {
 			t.Errorf("%dx%d: %d iterations, want <= 14", n, n, sol.Iterations)
 		}
+	}
+}
+
+// Solve's default solve of a system on every cell of the grid leaves the
+// CSR matrix out and builds the structured multigrid from the stencil:
+// its pressures, fluxes and iterations are bit-identical to those of the
+// same solve with the multigrid built from the assembled CSR matrix
+// (sparse.NewSMG) and conjugate gradients on that matrix.
+func TestSolveStencilMatchesCSR(t *testing.T) {
+	m, err := benchcase.Pattern(100)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := m.Grid
+	cells := make([]int, g.N())
+	for k := range cells {
+		cells[k] = k
+	}
+	fromCSR := func(a *sparse.CSR) (sparse.Preconditioner, error) { return sparse.NewSMG(a, g.NX, g.NY, cells) }
+	want, err := Solve(Input{Model: m}, Settings{Preconditioner: fromCSR})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := Solve(Input{Model: m}, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Iterations != want.Iterations {
+		t.Errorf("%d iterations, %d from the CSR matrix", got.Iterations, want.Iterations)
+	}
+	same := func(name string, a, b []float64) {
+		for k := range a {
+			if math.Float64bits(a[k]) != math.Float64bits(b[k]) {
+				t.Fatalf("%s[%d] = %v, %v from the CSR matrix", name, k, a[k], b[k])
+			}
+		}
+	}
+	same("P", got.P, want.P)
+	same("FluxX", got.FluxX, want.FluxX)
+	same("FluxY", got.FluxY, want.FluxY)
+	// The default solve did leave the matrix out.
+	pb, err := newProblem(Input{Model: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pb.lazy = true
+	sys, _, err := pb.assemble(pb.initialControls())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sys.A != nil || sys.stencil == nil {
+		t.Error("the default solve's assembly built the CSR matrix")
 	}
 }

@@ -82,6 +82,10 @@ func solve(in Input, s Settings, seq *Sequence) (*Solution, error) {
 	if err != nil {
 		return nil, err
 	}
+	// The default solve needs no CSR matrix when the structured
+	// multigrid takes the system (GridPreconditioner); a Sequence keeps
+	// its preconditioner for later matrices and multiplies by them.
+	pb.lazy = seq == nil && s.Preconditioner == nil
 	tol := s.Tol
 	if tol <= 0 {
 		tol = 1e-10

@@ -7,15 +7,22 @@
 # rate injectors, five BHP producers), then
 #   - scripts/hypre/dump times floodtrace's pressure stage (pressure.Solve:
 #     assembly, preconditioner set-up, conjugate gradients to 1e-10,
-#     fluxes; fastest of REPEATS) and writes the assembled system;
+#     fluxes; fastest of REPEATS), once on both cores and once on one
+#     (GOMAXPROCS=1, as hypre runs here), and writes the assembled system;
 #   - scripts/hypre/hypre_tpfa.c (built with mpicc against libhypre-dev,
 #     run as an MPI singleton) builds the same matrix in hypre and solves
 #     it by conjugate gradients to 1e-10 with PFMG and with BoomerAMG
 #     (fastest of REPEATS each);
-# and prints one row per size: the times, the iterations and the ratio of
+#   - the whole run, `floodtrace run case.yaml --pictures minimal` (the
+#     run of scripts/perf.sh; fastest of REPEATS by wall time), with the
+#     pressure stage of that fresh process read from its stage lines;
+# and prints one row per size: the times, the iterations, the ratio of
 # floodtrace's pressure stage to hypre's set-up + solve (PFMG and
-# BoomerAMG; below 1 means floodtrace is faster). hypre's matrix
-# assembly is shown apart. A benchmark, not a test: CI does not run it.
+# BoomerAMG; below 1 means floodtrace is faster), the same on one core
+# beside PFMG (ft1/pfmg: the fairer ratio on a machine shared with other
+# work, where a second core is not always there), and the ratio of the
+# whole run to hypre PFMG's set-up + solve. hypre's matrix assembly is
+# shown apart. A benchmark, not a test: CI does not run it.
 #
 # Needs: go, mpicc, libhypre-dev (apt-get install libhypre-dev).
 # Usage: scripts/hypre_bench.sh [-r REPEATS] [-s SIZES] [-k DIR]
@@ -63,9 +70,9 @@ mpicc -O2 $inc -o "$work/hypre_tpfa" "$root/scripts/hypre/hypre_tpfa.c" -lHYPRE 
 # Open MPI refuses root without these; harmless otherwise.
 export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
 
-echo "machine: $(nproc) cores; $(go version | awk '{print $3}'); load average before: $(cut -d' ' -f1-3 /proc/loadavg)"
-printf '%-10s | %8s %4s %4s | %8s %8s %8s %4s | %8s %8s %8s %4s | %8s %8s\n' grid floodtr its pre \
-	pfmg-asm pfmg-set pfmg-sol its amg-asm amg-set amg-sol its "ft/pfmg" "ft/amg"
+echo "machine: $(nproc) cores, $(grep -m1 "model name" /proc/cpuinfo | sed "s/.*: //"); $(go version | awk '{print $3}'); load average before: $(cut -d' ' -f1-3 /proc/loadavg)"
+printf '%-10s | %8s %8s %4s %4s | %8s %8s %8s %4s | %8s %8s %8s %4s | %8s %8s %8s | %8s %8s %8s %8s\n' grid floodtr ft-1core its pre \
+	pfmg-asm pfmg-set pfmg-sol its amg-asm amg-set amg-sol its "ft/pfmg" "ft1/pfmg" "ft/amg" run run-pres "cpu" "run/pfmg"
 IFS=, read -ra list <<<"$sizes"
 for n in "${list[@]}"; do
 	dir=$work/c${n}x$n
@@ -95,16 +102,45 @@ wells:
 run: {end: 7300, report_every: 60, snapshots: [7300], streamlines: 5000}
 EOC
 	read -r _ ft ftits pre < <("$work/dump" -r "$repeats" "$dir/case.yaml" "$dir/system.bin")
+	read -r _ ft1 _ _ < <(GOMAXPROCS=1 "$work/dump" -r "$repeats" "$dir/case.yaml" "$dir/system.bin")
 	# Fastest of the repeats by set-up + solve, per method.
 	for _ in $(seq "$repeats"); do "$work/hypre_tpfa" "$dir/system.bin"; done >"$dir/hypre.txt"
 	best() { awk -v m="$1" '$1 == m { t = $3 + $4; if (!n++ || t < bt) { bt = t; line = $0 } } END { print line }' "$dir/hypre.txt"; }
 	read -r _ pa ps pv pits < <(best pfmg)
 	read -r _ aa as av aits < <(best boomeramg)
-	awk -v g="${n}x$n" -v ft="$ft" -v fi="$ftits" -v pre="$pre" -v pa="$pa" -v ps="$ps" -v pv="$pv" -v pi="$pits" \
-		-v aa="$aa" -v as="$as" -v av="$av" -v ai="$aits" 'BEGIN {
-		printf "%-10s | %8.3f %4d %4s | %8.3f %8.3f %8.3f %4d | %8.3f %8.3f %8.3f %4d | %8.2f %8.2f\n",
-			g, ft, fi, pre, pa, ps, pv, pi, aa, as, av, ai, ft / (ps + pv), ft / (as + av) }'
+	# The whole run in a fresh process, fastest of the repeats by wall
+	# time; its pressure stage from the stage lines, its CPU time
+	# (user + system) from /usr/bin/time when there is one.
+	rwall="" rpres="" rcpu=""
+	for _ in $(seq "$repeats"); do
+		start=$(date +%s.%N)
+		if [[ -x /usr/bin/time ]]; then
+			/usr/bin/time -f '%U %S' -o "$dir/time.txt" "$work/floodtrace" run "$dir/case.yaml" --out "$dir/out" \
+				--force --pictures minimal >/dev/null 2>"$dir/stderr.txt"
+		else
+			"$work/floodtrace" run "$dir/case.yaml" --out "$dir/out" --force --pictures minimal >/dev/null 2>"$dir/stderr.txt"
+			echo "0 0" >"$dir/time.txt"
+		fi
+		end=$(date +%s.%N)
+		wall=$(awk -v a="$start" -v b="$end" 'BEGIN { printf "%.3f", b - a }')
+		if [[ -z $rwall ]] || awk -v a="$wall" -v b="$rwall" 'BEGIN { exit !(a < b) }'; then
+			rwall=$wall
+			rpres=$(awk '/^ *[0-9.]+s  / { t = $1; sub(/s$/, "", t)
+				if ($2 == "pressure:") p0 = t; else if ($2 == "streamlines:") s0 = t }
+				END { printf "%.3f", s0 - p0 }' "$dir/stderr.txt")
+			rcpu=$(awk '{ printf "%.2f", $1 + $2 }' "$dir/time.txt")
+		fi
+	done
+	rm -rf "$dir/out"
+	awk -v g="${n}x$n" -v ft="$ft" -v ft1="$ft1" -v fi="$ftits" -v pre="$pre" -v pa="$pa" -v ps="$ps" -v pv="$pv" -v pi="$pits" \
+		-v aa="$aa" -v as="$as" -v av="$av" -v ai="$aits" -v rw="$rwall" -v rp="$rpres" -v rc="$rcpu" 'BEGIN {
+		printf "%-10s | %8.3f %8.3f %4d %4s | %8.3f %8.3f %8.3f %4d | %8.3f %8.3f %8.3f %4d | %8.2f %8.2f %8.2f | %8.2f %8.3f %8.2f %8.1f\n",
+			g, ft, ft1, fi, pre, pa, ps, pv, pi, aa, as, av, ai, ft / (ps + pv), ft1 / (ps + pv), ft / (as + av), rw, rp, rc, rw / (ps + pv) }'
 	rm -f "$dir/system.bin"
 done
 echo "load average after: $(cut -d' ' -f1-3 /proc/loadavg)"
-echo "seconds; floodtr = floodtrace's whole pressure stage (assembly included); ft/pfmg and ft/amg divide it by hypre's set-up + solve (assembly excluded)"
+echo "seconds; floodtr = floodtrace's whole pressure stage (assembly included; fastest of the repeats in one process, so warm),"
+echo "ft-1core the same with GOMAXPROCS=1 (hypre runs on one core);"
+echo "ft/pfmg, ft1/pfmg and ft/amg divide them by hypre's set-up + solve (assembly excluded); run = the whole fresh run"
+echo "(floodtrace run --pictures minimal, wall), run-pres its pressure stage, cpu its user + system time;"
+echo "run/pfmg divides the whole run by hypre PFMG's set-up + solve"

@@ -59,8 +59,9 @@ func TestSMGMatchesDenseCholesky(t *testing.T) {
 }
 
 // The V-cycle is a symmetric positive definite operator: (M^-1 u, v) =
-// (u, M^-1 v) to round-off and (M^-1 u, u) > 0 for random vectors, on
-// fields with inactive cells, faults and strong contrast.
+// (u, M^-1 v) to the round-off of its float32 arithmetic and (M^-1 u, u)
+// > 0 for random vectors, on fields with inactive cells, faults and
+// strong contrast.
 func TestSMGSymmetricPositive(t *testing.T) {
 	for _, kind := range []amgFieldKind{fieldInactive, fieldChannel1e6, fieldAnisotropic} {
 		a, _, cells := newAMGProblem(kind, 45, 38, 4).assemble()
@@ -73,7 +74,11 @@ func TestSMGSymmetricPositive(t *testing.T) {
 		h.Apply(mu, u)
 		h.Apply(mv, v)
 		uv, vu := dot(mu, v), dot(u, mv)
-		if math.Abs(uv-vu) > 1e-10*math.Sqrt(dot(mu, mu)*dot(v, v)) {
+		// Single precision (epsilon 6e-8): measured 1.5e-9 to 2.6e-8 of the
+		// scale below; the float64 cycle gave 1e-16.
+		scale := math.Sqrt(dot(mu, mu) * dot(v, v))
+		t.Logf("%v: asymmetry %.2g", kind, math.Abs(uv-vu)/scale)
+		if math.Abs(uv-vu) > 1e-7*scale {
 			t.Errorf("%v: (Mu, v) = %.15g, (u, Mv) = %.15g", kind, uv, vu)
 		}
 		if dot(mu, u) <= 0 || dot(mv, v) <= 0 {
@@ -95,7 +100,7 @@ func TestSMGIterationBounds(t *testing.T) {
 		if kind == fieldRough {
 			return 40 // measured 11, 18, 33: outside the list, held to the AMG test's bound
 		}
-		return 20 // measured 6 to 15
+		return 20 // measured 7 to 18 (18: the 1e6 channels at 1000x1000; 15 with a float64 cycle)
 	}
 	var table strings.Builder
 	fmt.Fprintf(&table, "\n%-16s", "field")
@@ -189,6 +194,133 @@ func TestSMGBadInput(t *testing.T) {
 	for _, tc := range tests {
 		_, err := NewSMG(tc.a, tc.nx, tc.ny, tc.cells)
 		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: error %v, want one containing %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+// The SMG's stencil operator multiplies like the matrix it was built
+// from: bit-identical to CSR.MulVec (the same sums in the same order), and
+// equal to gonum's dense product (the outside reference) to round-off, on
+// boxes one and two cells wide and with a sealing fault (zero couplings
+// the CSR matrix leaves out), serial and parallel (200x200). A box with
+// inactive cells has no operator.
+func TestSMGOperatorMatchesMatrix(t *testing.T) {
+	for _, sz := range [][2]int{{1, 7}, {7, 1}, {2, 5}, {37, 23}, {200, 200}} {
+		nx, ny := sz[0], sz[1]
+		pb := newAMGProblem(fieldLogNormal2, nx, ny, 5)
+		pb.sealX = make([]bool, (nx+1)*ny)
+		for j := ny / 3; j < 2*ny/3; j++ {
+			pb.sealX[j*(nx+1)+nx/2] = true
+		}
+		a, _, cells := pb.assemble()
+		h, err := NewSMG(a, nx, ny, cells)
+		if err != nil {
+			t.Fatal(err)
+		}
+		op := h.Operator()
+		if op == nil {
+			t.Fatalf("%dx%d: no operator for a whole box", nx, ny)
+		}
+		x := amgRandomVector(a.N, 3)
+		want, got := make([]float64, a.N), make([]float64, a.N)
+		a.MulVec(want, x)
+		op.MulVec(got, x)
+		for u := range want {
+			if math.Float64bits(got[u]) != math.Float64bits(want[u]) {
+				t.Fatalf("%dx%d: row %d: stencil %v, CSR %v", nx, ny, u, got[u], want[u])
+			}
+		}
+		if a.N <= 1000 {
+			var ref mat.VecDense
+			ref.MulVec(amgDense(a), mat.NewVecDense(a.N, x))
+			// Five terms per row: a few units of round-off of the
+			// largest term (measured up to 9e-16).
+			worst := 0.0
+			for u := range got {
+				scale := 0.0
+				for p := a.RowPtr[u]; p < a.RowPtr[u+1]; p++ {
+					scale = max(scale, math.Abs(a.Val[p]*x[a.Col[p]]))
+				}
+				d := math.Abs(got[u] - ref.AtVec(u))
+				worst = max(worst, d/scale)
+				if d > 4e-15*scale {
+					t.Errorf("%dx%d: row %d: stencil %v, dense %v", nx, ny, u, got[u], ref.AtVec(u))
+				}
+			}
+			t.Logf("%dx%d: largest difference to the dense product %.2g of the largest term", nx, ny, worst)
+		}
+	}
+	a, _, cells := newAMGProblem(fieldInactive, 30, 30, 1).assemble()
+	h, err := NewSMG(a, 30, 30, cells)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if h.Operator() != nil {
+		t.Error("an operator for a box with inactive cells")
+	}
+}
+
+// NewSMGStencil, given the stencil of a matrix, builds the same
+// preconditioner as NewSMG given the matrix (bit-identical cycles and
+// products, on a field with a sealing fault), and refuses a stencil that
+// is not positive on the diagonal or couples across the grid's edge.
+func TestSMGStencilMatchesCSR(t *testing.T) {
+	nx, ny := 61, 47
+	pb := newAMGProblem(fieldChannel1e6, nx, ny, 7)
+	pb.sealX = make([]bool, (nx+1)*ny)
+	for j := 10; j < 30; j++ {
+		pb.sealX[j*(nx+1)+20] = true
+	}
+	a, _, cells := pb.assemble()
+	fromCSR, err := NewSMG(a, nx, ny, cells)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stencil := func(d, w, s []float64) {
+		for u := 0; u < a.N; u++ {
+			for p := a.RowPtr[u]; p < a.RowPtr[u+1]; p++ {
+				switch a.Col[p] {
+				case u:
+					d[u] = a.Val[p]
+				case u - 1:
+					w[u] = a.Val[p]
+				case u - nx:
+					s[u] = a.Val[p]
+				}
+			}
+		}
+	}
+	fromStencil, err := NewSMGStencil(nx, ny, stencil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fromStencil.String() != fromCSR.String() {
+		t.Fatalf("hierarchies %v and %v", fromStencil, fromCSR)
+	}
+	r := amgRandomVector(a.N, 11)
+	z1, z2 := make([]float64, a.N), make([]float64, a.N)
+	fromCSR.Apply(z1, r)
+	fromStencil.Apply(z2, r)
+	fromCSR.Operator().MulVec(r, z1)
+	want := append([]float64(nil), r...)
+	fromStencil.Operator().MulVec(r, z2)
+	for u := range z1 {
+		if math.Float64bits(z1[u]) != math.Float64bits(z2[u]) || math.Float64bits(want[u]) != math.Float64bits(r[u]) {
+			t.Fatalf("unknown %d: cycles %v and %v, products %v and %v", u, z1[u], z2[u], want[u], r[u])
+		}
+	}
+	for _, tc := range []struct {
+		name string
+		fill func(d, w, s []float64)
+		want string
+	}{
+		{"zero diagonal", func(d, w, s []float64) { stencil(d, w, s); d[5] = 0 }, "not positive"},
+		{"west edge", func(d, w, s []float64) { stencil(d, w, s); w[nx] = -1 }, "across the edge"},
+		{"south edge", func(d, w, s []float64) { stencil(d, w, s); s[3] = -1 }, "across the edge"},
+		{"not finite", func(d, w, s []float64) { stencil(d, w, s); s[nx+3] = math.NaN() }, "not finite"},
+	} {
+		if _, err := NewSMGStencil(nx, ny, tc.fill); err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s: error %v, want one containing %q", tc.name, err, tc.want)
 		}
 	}
