@@ -26,6 +26,12 @@ type UpdateOptions struct {
 	// Threshold is the produced water fraction that marks a producer's
 	// water breakthrough; 0 = 1e-3.
 	Threshold float64
+	// GlobalSteps gives every node of a line the line's one count of
+	// upwind sub-steps, set by its shortest node and fastest speed,
+	// instead of each node its own (local time stepping, the default:
+	// transport.Settings.Local). It changes the numerical diffusion, not
+	// the conservation; kept to compare the two.
+	GlobalSteps bool
 }
 
 // BreakthroughThreshold is the default water fraction of a producer's
@@ -199,6 +205,23 @@ type updateRun struct {
 	// Per producer, over a chunk: water and total flux of its lines, and
 	// the instantaneous outlet water at the chunk end.
 	water, flux, inst []float64
+
+	// Deferred cell map (lazy): when no report value needs the cells (no
+	// gravity step, every flowing producer reached by lines, no producer
+	// taking fluid in), the lines are mapped to the cells only when the
+	// cells are read (dirty after an advance: a solve, a snapshot or frame,
+	// the end), and the partition saturations of the reports come from the
+	// nodes through pieces: per line, node pNode's share pW of the
+	// pore-volume weighted saturation of producer pSlot's partition
+	// (spans pstart, counts pn); den and num0 hold each partition's pore
+	// volume and the saturation volume of its cells that no line crosses.
+	lazy, dirty  bool
+	avgDone      bool // avg holds the partition saturations of the nodes
+	pstart, pn   []int
+	pNode, pSlot []int32
+	pW           []float64
+	den, num0    []float64
+	avg          []float64
 }
 
 type lineScratch struct {
@@ -225,7 +248,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		return nil, err
 	}
 	u := &updateRun{book: newBook(m, sched, EngineStreamline), s: s, o: o, ff: ff, fl: fl,
-		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
+		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL, Local: o.Scheme == transport.Upwind && !o.GlobalSteps},
 		sInj: 1 - sor,
 		logf: s.Log,
 	}
@@ -255,7 +278,31 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		u.workers = runtime.GOMAXPROCS(0)
 	}
 	u.grav = newGravityFaces(m)
+	if u.grav != nil && !dipping(m, u.grav) {
+		u.grav = nil // a uniform depth moves no water: the run without depth
+	}
 	return u, nil
+}
+
+// dipping reports whether gravity moves water in a case with depth: a
+// depth difference across some face or a depth gradient in some cell.
+func dipping(m *reservoir.Model, g *gravityFaces) bool {
+	for _, c := range g.cx {
+		if c != 0 {
+			return true
+		}
+	}
+	for _, c := range g.cy {
+		if c != 0 {
+			return true
+		}
+	}
+	for k, a := range m.Active {
+		if gx, gy := m.DepthGradient(k); a && (gx != 0 || gy != 0) {
+			return true
+		}
+	}
+	return false
 }
 
 // setupWells builds the well lists (book.setupWells) and the update
@@ -290,6 +337,7 @@ func (u *updateRun) run() error {
 	nt := len(tl.reports)
 	r.PVI = make([]float64, nt)
 	u.setupWells(nt)
+	u.cells, u.avgSw = u.syncCells, u.partitionSw
 
 	if u.sched.HasChanges(end) && m.History == nil {
 		opening := 0
@@ -374,6 +422,8 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 // streamlines and sets up their transport (stepper).
 func (u *updateRun) solveAt(t0 float64) error {
 	m, r := u.m, u.r
+	u.syncCells()
+	u.lazy = false
 	u.logf("update %d at day %g: pressure", r.Solves+1, t0)
 	sol, err := u.solve(t0)
 	if err != nil {
@@ -453,6 +503,11 @@ func (u *updateRun) solveAt(t0 float64) error {
 func (u *updateRun) advance(t, t1 float64) error {
 	if err := u.chunk(u.sol, t, t1); err != nil {
 		return err
+	}
+	u.avgDone = false
+	if u.lazy {
+		u.dirty = true
+		return nil
 	}
 	u.mapToCells()
 	if u.grav != nil {
@@ -579,7 +634,191 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 			u.sIn[i] = u.sLine
 		}
 	})
-	return u.firstError("mapping cells onto streamlines")
+	if err := u.firstError("mapping cells onto streamlines"); err != nil {
+		return err
+	}
+	starved := false
+	for p := range r.Producers {
+		starved = starved || u.rate[p] > 0 && lineFlux[p] == 0
+	}
+	takesIn := false
+	for _, w := range sol.Wells {
+		takesIn = takesIn || !w.Shut && w.Q > 0 && w.Type != reservoir.Injector
+	}
+	u.lazy = u.grav == nil && !starved && !takesIn && !eagerCells
+	if u.lazy {
+		u.setupPieces()
+	}
+	return nil
+}
+
+// eagerCells maps the lines to the cells at every stop, as when the
+// reports need the cells; a test compares the two.
+var eagerCells = false
+
+// setupPieces prepares the partition saturations of the deferred cell map
+// (updateRun.lazy): the flux*tau volume of the active lines in each cell,
+// each partition's pore volume and the saturation volume of its cells no
+// line crosses, and per line the pieces: the overlap of each node with
+// the segments of each partition's cells, weighted by the line's flux and
+// the cell's pore volume over its line volume, so that the pieces times
+// the node saturations add up to sum pv*sw over the partition's crossed
+// cells as mapToCells would leave them.
+func (u *updateRun) setupPieces() {
+	ls, r := u.ls, u.r
+	nl := len(ls.q)
+	clear(u.vol)
+	for i := range nl {
+		if !u.act[i] {
+			continue
+		}
+		q := ls.q[i]
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if d := ls.b[s] - ls.a[s]; d > 0 {
+				u.vol[ls.cell[s]] += q * d
+			}
+		}
+	}
+	np := len(r.Producers)
+	u.den, u.num0, u.avg = growF(u.den, np), growF(u.num0, np), growF(u.avg, np)
+	clear(u.den)
+	clear(u.num0)
+	slot := func(c int) int32 {
+		if w := u.partition[c]; w >= 0 && u.prodOf[w] >= 0 {
+			return int32(u.prodOf[w])
+		}
+		return -1
+	}
+	for c := range u.vol {
+		if p := slot(c); p >= 0 {
+			u.den[p] += u.pv[c]
+			if !(u.vol[c] > 0) {
+				u.num0[p] += u.pv[c] * u.sw[c]
+			}
+		}
+	}
+	u.pstart = growInt(u.pstart, nl+1)
+	u.pn = growInt(u.pn, nl)
+	u.pstart[0] = 0
+	for i := range nl {
+		k := 0
+		if u.act[i] {
+			k = u.gn[i] + ls.start[i+1] - ls.start[i]
+		}
+		u.pstart[i+1] = u.pstart[i] + k
+	}
+	total := u.pstart[nl]
+	if cap(u.pNode) < total {
+		u.pNode, u.pSlot = make([]int32, total), make([]int32, total)
+	}
+	u.pNode, u.pSlot = u.pNode[:total], u.pSlot[:total]
+	u.pW = growF(u.pW, total)
+	u.parallel(nl, func(_, i int) {
+		u.pn[i] = 0
+		if !u.act[i] {
+			return
+		}
+		_, gd := u.lineNodes(i)
+		n := len(gd)
+		last := -1
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if ls.b[s] > ls.a[s] {
+				last = s
+			}
+		}
+		base, cnt := u.pstart[i], 0
+		q := ls.q[i]
+		inf := math.Inf(1)
+		j, nodeCum := 0, gd[0]
+		nodeEnd := nodeCum
+		if n == 1 {
+			nodeEnd = inf
+		}
+		pos, segCum := 0.0, 0.0
+		for s := ls.start[i]; s <= last; s++ {
+			d := ls.b[s] - ls.a[s]
+			if !(d > 0) {
+				continue
+			}
+			segCum += d
+			segEnd := segCum
+			if s == last {
+				segEnd = inf
+			}
+			c := ls.cell[s]
+			p := slot(int(c))
+			f := q * u.pv[c] / u.vol[c]
+			for {
+				end := min(nodeEnd, segEnd)
+				if math.IsInf(end, 1) {
+					end = max(nodeCum, segCum)
+				}
+				if ov := end - pos; ov > 0 && p >= 0 {
+					if k := base + cnt - 1; cnt > 0 && u.pNode[k] == int32(j) && u.pSlot[k] == p {
+						u.pW[k] += ov * f
+					} else {
+						u.pNode[base+cnt], u.pSlot[base+cnt], u.pW[base+cnt] = int32(j), p, ov*f
+						cnt++
+					}
+				}
+				pos = end
+				advNode := nodeEnd <= segEnd && j < n-1
+				advSeg := segEnd <= nodeEnd
+				if advNode {
+					j++
+					nodeCum += gd[j]
+					nodeEnd = nodeCum
+					if j == n-1 {
+						nodeEnd = inf
+					}
+				}
+				if advSeg {
+					break
+				}
+			}
+		}
+		u.pn[i] = cnt
+	})
+}
+
+// syncCells maps the lines to the cells if an advance has moved them
+// since the last map (book.cells).
+func (u *updateRun) syncCells() {
+	if u.dirty {
+		u.dirty = false
+		u.mapToCells()
+	}
+}
+
+// partitionSw returns the pore-volume weighted water saturation of the
+// cells of a producer's partition (book.avgSw): from the cells, or with
+// the deferred cell map from the node saturations and the pieces (the
+// same sum, in another order).
+func (u *updateRun) partitionSw(well int) float64 {
+	if !u.lazy {
+		return partitionSw(u.partition, u.pv, u.sw, well)
+	}
+	if !u.avgDone {
+		u.avgDone = true
+		copy(u.avg, u.num0)
+		for i := range u.ls.q {
+			a := u.gstart[i]
+			for k := u.pstart[i]; k < u.pstart[i]+u.pn[i]; k++ {
+				u.avg[u.pSlot[k]] += u.pW[k] * u.gs[a+int(u.pNode[k])]
+			}
+		}
+		for p, v := range u.den {
+			if v > 0 {
+				u.avg[p] /= v
+			} else {
+				u.avg[p] = math.NaN()
+			}
+		}
+	}
+	if p := u.prodOf[well]; p >= 0 {
+		return u.avg[p]
+	}
+	return math.NaN()
 }
 
 // nodes builds the node partition of line i's time of flight in

@@ -27,6 +27,8 @@ type Flux struct {
 	// in the local coordinate t in [0, 1]: one cache line per evaluation.
 	poly   [fluxIntervals][4]float64
 	binMax [fluxBins]float64
+	// span[a][b] is the largest binMax over the bins a..b (a <= b).
+	span [fluxBins][fluxBins]float64
 }
 
 // NewFlux tabulates c. It returns an error if fw is not finite somewhere on
@@ -77,6 +79,13 @@ func NewFlux(c Curve) (*Flux, error) {
 			}
 		}
 		fl.binMax[b] = m
+	}
+	for a := range fl.span {
+		m := 0.0
+		for b := a; b < fluxBins; b++ {
+			m = math.Max(m, fl.binMax[b])
+			fl.span[a][b] = m
+		}
 	}
 	return fl, nil
 }
@@ -133,9 +142,16 @@ func (fl *Flux) MaxSpeed(lo, hi float64) float64 {
 	b1 := int(math.Floor(hi * fluxBins))
 	b0 = min(max(b0, 0), fluxBins-1)
 	b1 = min(max(b1, 0), fluxBins-1)
-	m := 0.0
-	for b := b0; b <= b1; b++ {
-		m = math.Max(m, fl.binMax[b])
+	return fl.span[b0][b1]
+}
+
+// speed is MaxSpeed for lo <= hi, both in [0, 1] or beyond (clamped).
+func (fl *Flux) speed(lo, hi float64) float64 {
+	b0, b1 := int(lo*fluxBins), int(hi*fluxBins)
+	if lo < 0 {
+		b0 = 0
 	}
-	return m
+	b0 = min(b0, fluxBins-1)
+	b1 = min(max(b1, 0), fluxBins-1)
+	return fl.span[b0][b1]
 }
