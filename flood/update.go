@@ -54,7 +54,12 @@ const breakthroughProbes = 32
 // with its own stable sub-steps), and the line saturations are mapped
 // back to the cells by flux*tau weighting. This is the
 // IMPES-like sequence of streamline simulation (Batycky, Blunt and Thiele
-// 1997; Thiele, Batycky and Blunt 1996, from memory).
+// 1997; Thiele, Batycky and Blunt 1996, from memory). With the upwind
+// scheme the 1D transport steps locally (transport.Settings.Local: each
+// zone of a line its own sub-steps) unless UpdateOptions.GlobalSteps; the
+// cells are mapped from the lines only when they are read (a solve, a
+// snapshot or frame, the end) unless a gravity step or a producer that no
+// line reaches needs them at every report.
 //
 // Gravity (a case with depth): the pressure solve takes each cell's
 // mobility-weighted density; along each line the fractional flow carries
@@ -86,11 +91,16 @@ const breakthroughProbes = 32
 // the pressure solves in force (report values are averages over the report
 // interval, so they integrate to the cumulative volumes). A producer that no
 // line reaches produces at the water fraction of its cell. Breakthrough is
-// the first time the produced water fraction exceeds Threshold: the report
-// interval in which it happens is advanced again in 32 equal parts and the
-// crossing interpolated, so it is located to 1/32 of the report interval
-// (and within the resolution of the 1D scheme). AvgSw is the pore-volume
-// weighted saturation of the cells of the producer's partition.
+// the first time the produced water fraction exceeds Threshold: the
+// producer's outlet water over the report interval in which it happens is
+// split into 32 equal parts and the crossing interpolated, so it is
+// located to 1/32 of the report interval (and within the resolution of the
+// 1D scheme). With local time stepping (upwind, no gravity) the parts are
+// averages of each line's outlet flux history over the interval itself;
+// otherwise the interval is advanced again in 32 parts. AvgSw is the
+// pore-volume weighted saturation of the cells of the producer's
+// partition (with the deferred cell map, from the line nodes: the same
+// sum).
 //
 // Lines are advanced in parallel over Settings.Workers goroutines; every
 // reduction runs in line order, so results do not depend on the count.
@@ -197,11 +207,16 @@ type updateRun struct {
 	gn       []int     // node count of each line
 	gs, gd   []float64 // node saturations and node time of flight
 	backup   []float64 // node saturations at the start of a chunk
-	segS     []float64 // segment saturations
-	out      []float64 // mean outlet fw of each line over a chunk
-	lerr     []error
-	scratch  []lineScratch
-	acc, vol []float64 // cell accumulators
+	// Breakthrough from the outlet histories of the local steps: per line
+	// its mean outlet fraction over each breakthroughProbes part of the
+	// chunk and at its start (fromHistory: the chunk filled them).
+	parts, first []float64
+	fromHistory  bool
+	segS         []float64 // segment saturations
+	out          []float64 // mean outlet fw of each line over a chunk
+	lerr         []error
+	scratch      []lineScratch
+	acc, vol     []float64 // cell accumulators
 	// Per producer, over a chunk: water and total flux of its lines, and
 	// the instantaneous outlet water at the chunk end.
 	water, flux, inst []float64
@@ -618,8 +633,10 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 		u.gn[i] = n
 		gs, gd := u.lineNodes(i)
 		copy(gd, sc.dstd[:n])
-		u.lerr[i] = transport.Remap(gs, gd, sc.src, sc.srcd)
-		if u.grav != nil && u.lerr[i] == nil {
+		// The engine's own partitions (positive segments, nodes made of
+		// them): Remap's checks are not needed.
+		transport.RemapTrusted(gs, gd, sc.src, sc.srcd)
+		if u.grav != nil {
 			sc.srcg = sc.srcg[:0]
 			for s := u.ls.start[i]; s < u.ls.start[i+1]; s++ {
 				if u.ls.b[s] > u.ls.a[s] {
@@ -994,8 +1011,16 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 				watchBT = true
 			}
 		}
-		if watchBT {
+		// With local time stepping the outlet history of each line gives
+		// the breakthrough parts (u.parts) of the lines of the producers
+		// still watched; otherwise locate advances them again from backup.
+		u.fromHistory = watchBT && u.grav == nil && u.set.Local
+		if watchBT && !u.fromHistory {
 			copy(u.backup, u.gs)
+		}
+		if u.fromHistory {
+			u.parts = growF(u.parts, len(u.ls.q)*breakthroughProbes)
+			u.first = growF(u.first, len(u.ls.q))
 		}
 		u.parallel(len(u.ls.q), func(w, i int) {
 			if !u.act[i] {
@@ -1007,7 +1032,16 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 				sIn = gs[0]
 			}
 			u.sIn[i] = sIn
-			u.out[i], u.lerr[i] = u.advanceLine(&u.scratch[w], i, gs, gd, sIn, dt)
+			p := u.lprod[i]
+			watched := u.fromHistory && p >= 0 && !u.broken[p] && u.rate[p] > 0
+			if watched {
+				u.first[i] = u.fl.Fw(gs[len(gs)-1])
+			}
+			sc := &u.scratch[w]
+			u.out[i], u.lerr[i] = u.advanceLine(sc, i, gs, gd, sIn, dt)
+			if watched && u.lerr[i] == nil && !sc.ws.OutflowParts(u.parts[i*breakthroughProbes:(i+1)*breakthroughProbes]) {
+				u.lerr[i] = errors.New("no outlet history of the local steps")
+			}
 		})
 		if err := u.firstError(fmt.Sprintf("transport from day %g to %g", t, t1)); err != nil {
 			return err
@@ -1056,10 +1090,11 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 }
 
 // locate finds the breakthrough time of producer p within the chunk that
-// starts at t and lasts dt: the chunk is advanced again from its saved
-// state in breakthroughProbes equal parts, and the water fraction, taken as
-// the part averages at the part midpoints, is interpolated to the
-// threshold.
+// starts at t and lasts dt: the mean water fraction of its lines over each
+// of breakthroughProbes equal parts of the chunk (from the outlet
+// histories of the local steps, or by advancing the chunk again from its
+// saved state in that many parts), taken at the part midpoints, is
+// interpolated to the threshold.
 func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 	if !hasLines {
 		return t + dt
@@ -1072,6 +1107,10 @@ func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 		if u.act[i] && u.lprod[i] == p {
 			lines = append(lines, i)
 		}
+	}
+	if u.fromHistory {
+		return u.crossing(lines, t, dt, func(j, k int) float64 { return u.parts[lines[j]*K+k] },
+			func(i int) float64 { return u.first[i] })
 	}
 	probes := make([]float64, len(lines)*K)
 	errs := make([]error, len(lines))
@@ -1099,20 +1138,31 @@ func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 			return t + dt
 		}
 	}
+	return u.crossing(lines, t, dt, func(j, k int) float64 { return probes[j*K+k] },
+		func(i int) float64 { return u.fl.Fw(u.backup[u.gstart[i]+u.gn[i]-1]) })
+}
+
+// crossing interpolates the time at which the flux-weighted water
+// fraction of the lines crosses the threshold within the chunk from t to
+// t+dt, from each line's outlet fraction at the start (first) and its mean
+// over each of the breakthroughProbes parts (part), taken at the part
+// midpoints.
+func (u *updateRun) crossing(lines []int, t, dt float64, part func(j, k int) float64, first func(i int) float64) float64 {
+	const K = breakthroughProbes
+	ls := u.ls
 	frac := make([]float64, K)
 	flux := 0.0
 	for j, i := range lines {
 		q := ls.q[i]
 		flux += q
 		for k := range K {
-			frac[k] += q * probes[j*K+k]
+			frac[k] += q * part(j, k)
 		}
 	}
 	prevT, prevV := t, 0.0
 	// Water fraction at the start of the chunk: the outlet nodes' state.
 	for _, i := range lines {
-		b := u.gstart[i] + u.gn[i]
-		prevV += ls.q[i] * u.fl.Fw(u.backup[b-1])
+		prevV += ls.q[i] * first(i)
 	}
 	prevV /= flux
 	if prevV > u.threshold {
@@ -1150,7 +1200,7 @@ func (u *updateRun) mapToCells() {
 		}
 		sc.dst = growF(sc.dst, len(sc.dstd))
 		gs, gd := u.lineNodes(i)
-		u.lerr[i] = transport.Remap(sc.dst, sc.dstd, gs, gd)
+		transport.RemapTrusted(sc.dst, sc.dstd, gs, gd)
 		j := 0
 		for s := ls.start[i]; s < ls.start[i+1]; s++ {
 			if ls.b[s] > ls.a[s] {

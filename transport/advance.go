@@ -99,6 +99,21 @@ type Workspace struct {
 	// Flux histories of local time stepping: entering, leaving, and the
 	// entering one averaged onto a segment's own sub-steps.
 	hin, hout, hmid []float64
+	outflow         []float64 // outlet history of the last local call (OutflowParts)
+}
+
+// OutflowParts sets parts to the mean water fraction leaving the outlet
+// over each of len(parts) equal parts of the interval of the last Advance,
+// from the flux history of its last segments (exact averages of it, so
+// their mean is Advance's outFw up to round-off), and reports true; it
+// reports false, and leaves parts alone, unless that call used local time
+// stepping (Settings.Local) with dt > 0.
+func (w *Workspace) OutflowParts(parts []float64) bool {
+	if w.outflow == nil || len(parts) == 0 {
+		return false
+	}
+	resample(parts, w.outflow)
+	return true
 }
 
 func grow(b []float64, n int) []float64 {
@@ -127,6 +142,7 @@ func grow(b []float64, n int) []float64 {
 // number of sub-steps (with Local, the largest of any segment). The update is conservative: the water volume
 // sum(s*dtau) changes by exactly (fw(sInj) - outFw)*dt up to round-off.
 func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set Settings) (outFw float64, steps int, err error) {
+	w.outflow = nil
 	n := len(s)
 	switch {
 	case fl == nil:
@@ -157,7 +173,17 @@ func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set S
 		if !(h > 0) || math.IsInf(h, 0) {
 			return 0, 0, fmt.Errorf("transport: segment %d has time of flight %g; it must be positive", i, h)
 		}
-		smin, smax, hmin = math.Min(smin, v), math.Max(smax, v), math.Min(hmin, h)
+		// Plain comparisons: v and h are checked numbers, and math.Min
+		// and math.Max cost a third of this loop.
+		if v < smin {
+			smin = v
+		}
+		if v > smax {
+			smax = v
+		}
+		if h < hmin {
+			hmin = h
+		}
 	}
 	if dt == 0 {
 		return fl.Fw(s[n-1]), 0, nil

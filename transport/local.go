@@ -91,6 +91,7 @@ func (w *Workspace) upwindLocal(s, dtau []float64, sInj, dt float64, fl *Flux, s
 	for _, f := range hin {
 		sum += f
 	}
+	w.outflow = hin
 	return sum / float64(len(hin)), most, nil
 }
 

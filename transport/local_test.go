@@ -95,3 +95,35 @@ func TestLocalStepsCloseToRiemann(t *testing.T) {
 		t.Errorf("local and global differ by %.3e, more than the global error %.3e", d, eg)
 	}
 }
+
+// TestOutflowParts: the parts of the outlet history average to the
+// Advance's outlet fraction (the same water, booked in parts), and a call
+// without local steps has none.
+func TestOutflowParts(t *testing.T) {
+	ff := sandstone()
+	fl, _ := NewFlux(ff)
+	rng := rand.New(rand.NewPCG(2, 5))
+	s, dtau := randomLine(rng, 120, 0.5, 0.2, 0.75)
+	var w Workspace
+	out, _, err := w.Advance(s, dtau, 0.75, 30, fl, Settings{Local: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	parts := make([]float64, 32)
+	if !w.OutflowParts(parts) {
+		t.Fatal("no outlet history after a local call")
+	}
+	mean := 0.0
+	for _, v := range parts {
+		mean += v / 32
+	}
+	if math.Abs(mean-out) > 1e-15 {
+		t.Errorf("parts average to %.17g, outFw %.17g", mean, out)
+	}
+	if _, _, err := w.Advance(s, dtau, 0.75, 30, fl, Settings{}); err != nil {
+		t.Fatal(err)
+	}
+	if w.OutflowParts(parts) {
+		t.Error("outlet history after a global-step call")
+	}
+}

@@ -42,6 +42,17 @@ func Remap(dst, dstDtau, src, srcDtau []float64) error {
 	if math.Abs(tSrc-tDst) > 1e-9*math.Max(tSrc, tDst) {
 		return fmt.Errorf("transport: Remap totals differ: %g and %g", tSrc, tDst)
 	}
+	RemapTrusted(dst, dstDtau, src, srcDtau)
+	return nil
+}
+
+// RemapTrusted is Remap without its checks, for partitions that the
+// caller has built itself and knows to be valid: as many values as
+// times of flight on each side, at least one segment each, positive
+// finite times of flight, finite source values, and equal totals to within
+// round-off (the checks cost about a third of Remap on the pressure-update
+// benchmark). On such input it does exactly what Remap does.
+func RemapTrusted(dst, dstDtau, src, srcDtau []float64) {
 	i, j := 0, 0
 	srcEnd, dstEnd := srcDtau[0], dstDtau[0]
 	pos := 0.0
@@ -63,7 +74,7 @@ func Remap(dst, dstDtau, src, srcDtau []float64) error {
 		pos = end
 		if lastSrc && lastDst {
 			dst[j] = acc / w
-			return nil
+			return
 		}
 		advDst := !lastDst && (lastSrc || dstEnd <= srcEnd)
 		advSrc := !lastSrc && (lastDst || srcEnd <= dstEnd)
