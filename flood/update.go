@@ -213,6 +213,7 @@ type updateRun struct {
 	parts, first []float64
 	fromHistory  bool
 	segS         []float64 // segment saturations
+	segW         []float64 // segment flux*tau*saturation (mapToCells)
 	out          []float64 // mean outlet fw of each line over a chunk
 	lerr         []error
 	scratch      []lineScratch
@@ -237,6 +238,7 @@ type updateRun struct {
 	pW           []float64
 	den, num0    []float64
 	avg          []float64
+	psum         []float64 // per line and producer: its pieces' sum
 }
 
 type lineScratch struct {
@@ -551,6 +553,7 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	clear(u.lerr)
 	nseg := len(ls.cell)
 	u.segS = growF(u.segS, nseg)
+	u.segW = growF(u.segW, nseg)
 	for s, c := range ls.cell {
 		u.segS[s] = u.sw[c]
 	}
@@ -654,6 +657,20 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	if err := u.firstError("mapping cells onto streamlines"); err != nil {
 		return err
 	}
+	// The line volume of each cell (flux*tau of the active lines), in
+	// line order, for the maps to the cells.
+	clear(u.vol)
+	for i := range nl {
+		if !u.act[i] {
+			continue
+		}
+		q := ls.q[i]
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if d := ls.b[s] - ls.a[s]; d > 0 {
+				u.vol[ls.cell[s]] += q * d
+			}
+		}
+	}
 	starved := false
 	for p := range r.Producers {
 		starved = starved || u.rate[p] > 0 && lineFlux[p] == 0
@@ -674,8 +691,7 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 var eagerCells = false
 
 // setupPieces prepares the partition saturations of the deferred cell map
-// (updateRun.lazy): the flux*tau volume of the active lines in each cell,
-// each partition's pore volume and the saturation volume of its cells no
+// (updateRun.lazy): each partition's pore volume and the saturation volume of its cells no
 // line crosses, and per line the pieces: the overlap of each node with
 // the segments of each partition's cells, weighted by the line's flux and
 // the cell's pore volume over its line volume, so that the pieces times
@@ -684,18 +700,6 @@ var eagerCells = false
 func (u *updateRun) setupPieces() {
 	ls, r := u.ls, u.r
 	nl := len(ls.q)
-	clear(u.vol)
-	for i := range nl {
-		if !u.act[i] {
-			continue
-		}
-		q := ls.q[i]
-		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			if d := ls.b[s] - ls.a[s]; d > 0 {
-				u.vol[ls.cell[s]] += q * d
-			}
-		}
-	}
 	np := len(r.Producers)
 	u.den, u.num0, u.avg = growF(u.den, np), growF(u.num0, np), growF(u.avg, np)
 	clear(u.den)
@@ -730,6 +734,16 @@ func (u *updateRun) setupPieces() {
 	}
 	u.pNode, u.pSlot = u.pNode[:total], u.pSlot[:total]
 	u.pW = growF(u.pW, total)
+	// Per cell, pore volume over line volume (u.acc is free until the
+	// next map to the cells).
+	fac := u.acc
+	for c, v := range u.vol {
+		fac[c] = 0
+		if v > 0 {
+			fac[c] = u.pv[c] / v
+		}
+	}
+	u.psum = growF(u.psum, nl*np)
 	u.parallel(nl, func(_, i int) {
 		u.pn[i] = 0
 		if !u.act[i] {
@@ -764,7 +778,7 @@ func (u *updateRun) setupPieces() {
 			}
 			c := ls.cell[s]
 			p := slot(int(c))
-			f := q * u.pv[c] / u.vol[c]
+			f := q * fac[c]
 			for {
 				end := min(nodeEnd, segEnd)
 				if math.IsInf(end, 1) {
@@ -817,11 +831,23 @@ func (u *updateRun) partitionSw(well int) float64 {
 	}
 	if !u.avgDone {
 		u.avgDone = true
+		// Per line in parallel, then the lines in order.
+		np := len(u.avg)
+		u.parallel(len(u.ls.q), func(_, i int) {
+			sum := u.psum[i*np : (i+1)*np]
+			clear(sum)
+			gs := u.gs[u.gstart[i]:]
+			for k := u.pstart[i]; k < u.pstart[i]+u.pn[i]; k++ {
+				sum[u.pSlot[k]] += u.pW[k] * gs[u.pNode[k]]
+			}
+		})
 		copy(u.avg, u.num0)
 		for i := range u.ls.q {
-			a := u.gstart[i]
-			for k := u.pstart[i]; k < u.pstart[i]+u.pn[i]; k++ {
-				u.avg[u.pSlot[k]] += u.pW[k] * u.gs[a+int(u.pNode[k])]
+			if u.pn[i] == 0 {
+				continue
+			}
+			for p, v := range u.psum[i*np : (i+1)*np] {
+				u.avg[p] += v
 			}
 		}
 		for p, v := range u.den {
@@ -1202,27 +1228,24 @@ func (u *updateRun) mapToCells() {
 		gs, gd := u.lineNodes(i)
 		transport.RemapTrusted(sc.dst, sc.dstd, gs, gd)
 		j := 0
+		q := ls.q[i]
 		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			if ls.b[s] > ls.a[s] {
+			u.segW[s] = 0
+			if d := ls.b[s] - ls.a[s]; d > 0 {
 				u.segS[s] = sc.dst[j]
+				u.segW[s] = q * d * u.segS[s]
 				j++
 			}
 		}
 	})
+	// The cell sums in line order (u.vol: setupLines).
 	clear(u.acc)
-	clear(u.vol)
 	for i := range nl {
 		if !u.act[i] {
 			continue
 		}
-		q := ls.q[i]
 		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			d := ls.b[s] - ls.a[s]
-			if d > 0 {
-				c := ls.cell[s]
-				u.acc[c] += q * d * u.segS[s]
-				u.vol[c] += q * d
-			}
+			u.acc[ls.cell[s]] += u.segW[s]
 		}
 	}
 	for c, v := range u.vol {

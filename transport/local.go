@@ -107,7 +107,26 @@ func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []f
 	for k := range hist {
 		last := s[n-1]
 		lo, hi = min(lo, last), max(hi, last)
-		fr := fl.Fw(last)
+		// fl.Fw(last), written out.
+		x := last * fluxIntervals
+		var fr float64
+		switch {
+		case !(x > 0):
+			fr = f0
+		case x >= fluxIntervals:
+			fr = f1
+		default:
+			k := int(x)
+			t := x - float64(k)
+			c := &fl.poly[k]
+			fr = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
+		}
+		if fr < 0 {
+			fr = 0
+		}
+		if fr > 1 {
+			fr = 1
+		}
 		hist[k] = fr
 		for i := n - 1; i > 0; i-- {
 			// fl.Fw(s[i-1]), written out, as in upwind.
@@ -121,7 +140,7 @@ func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []f
 			default:
 				k := int(x)
 				t := x - float64(k)
-				c := &fl.poly[k]
+				c := &fl.poly[k&(fluxIntervals-1)] // k < fluxIntervals: no bounds check
 				fi = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
 			}
 			if fi < 0 {
