@@ -139,7 +139,9 @@ func grow(b []float64, n int) []float64 {
 //
 // It returns outFw, the mean water fraction leaving the outlet over the
 // interval (the time integral of fw at the outlet divided by dt), and the
-// number of sub-steps (with Local, the largest of any segment). The update is conservative: the water volume
+// number of sub-steps (with Local, the largest of any segment; a bad
+// saturation or time of flight is then found when its zone is reached, and
+// the segments upstream of it have been advanced). The update is conservative: the water volume
 // sum(s*dtau) changes by exactly (fw(sInj) - outFw)*dt up to round-off.
 func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set Settings) (outFw float64, steps int, err error) {
 	w.outflow = nil
@@ -164,6 +166,10 @@ func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set S
 	case set.Local && set.Scheme != Upwind:
 		return 0, 0, fmt.Errorf("transport: local time stepping is for the upwind scheme, not %v", set.Scheme)
 	}
+	if set.Local && dt > 0 {
+		// It checks the saturations and times of flight zone by zone.
+		return w.upwindLocal(s, dtau, sInj, dt, fl, set)
+	}
 	smin, smax, hmin := sInj, sInj, math.Inf(1)
 	for i, v := range s {
 		if !(v >= 0 && v <= 1) {
@@ -187,9 +193,6 @@ func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set S
 	}
 	if dt == 0 {
 		return fl.Fw(s[n-1]), 0, nil
-	}
-	if set.Local {
-		return w.upwindLocal(s, dtau, sInj, dt, fl, set)
 	}
 	vmax := fl.MaxSpeed(smin, smax)
 	nsub := 1

@@ -430,6 +430,14 @@ func TestAdvanceErrors(t *testing.T) {
 			s[0] = math.NaN()
 			return s, d, 0.7, 1, fl, Settings{}
 		}, nil},
+		{"zero dtau, local steps", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
+			d[1] = 0
+			return s, d, 0.7, 1, fl, Settings{Local: true}
+		}, nil},
+		{"NaN saturation, local steps", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
+			s[0] = math.NaN()
+			return s, d, 0.7, 1, fl, Settings{Local: true}
+		}, nil},
 		{"injected above 1", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
 			return s, d, 1.5, 1, fl, Settings{}
 		}, nil},

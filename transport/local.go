@@ -59,7 +59,14 @@ func (w *Workspace) upwindLocal(s, dtau []float64, sInj, dt float64, fl *Flux, s
 		e := min(a+localZone, n)
 		lo, hi, hmin := upLo, upHi, math.Inf(1)
 		for j, v := range s[a:e] {
-			lo, hi, hmin = min(lo, v), max(hi, v), min(hmin, dtau[a+j])
+			h := dtau[a+j]
+			if !(v >= 0 && v <= 1) {
+				return 0, 0, fmt.Errorf("transport: saturation %g of segment %d outside [0, 1]", v, a+j)
+			}
+			if !(h > 0) || math.IsInf(h, 0) {
+				return 0, 0, fmt.Errorf("transport: segment %d has time of flight %g; it must be positive", a+j, h)
+			}
+			lo, hi, hmin = min(lo, v), max(hi, v), min(hmin, h)
 		}
 		m := 1
 		if v := fl.speed(lo, hi); v > 0 {
