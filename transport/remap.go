@@ -59,9 +59,18 @@ func RemapTrusted(dst, dstDtau, src, srcDtau []float64) {
 	acc, w := 0.0, 0.0
 	for {
 		lastSrc, lastDst := i == len(src)-1, j == len(dst)-1
-		end := math.Min(srcEnd, dstEnd)
+		// Plain comparisons (the ends are finite and positive; math.Min
+		// and math.Max differ only for NaN and signed zeros).
+		end := srcEnd
+		if dstEnd < end {
+			end = dstEnd
+		}
 		if lastSrc && lastDst {
-			end = math.Max(srcEnd, dstEnd)
+			if srcEnd < dstEnd {
+				end = dstEnd
+			} else {
+				end = srcEnd
+			}
 		} else if lastSrc {
 			end = dstEnd
 		} else if lastDst {
