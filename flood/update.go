@@ -239,6 +239,10 @@ type updateRun struct {
 	den, num0    []float64
 	avg          []float64
 	psum         []float64 // per line and producer: its pieces' sum
+	// Runs of pieces on consecutive nodes of one partition (spans
+	// pstart, counts rn): partition, first node, first piece, length.
+	rSlot, rNode, rK, rLen []int32
+	rn                     []int
 }
 
 type lineScratch struct {
@@ -731,8 +735,11 @@ func (u *updateRun) setupPieces() {
 	total := u.pstart[nl]
 	if cap(u.pNode) < total {
 		u.pNode, u.pSlot = make([]int32, total), make([]int32, total)
+		u.rSlot, u.rNode, u.rK, u.rLen = make([]int32, total), make([]int32, total), make([]int32, total), make([]int32, total)
 	}
 	u.pNode, u.pSlot = u.pNode[:total], u.pSlot[:total]
+	u.rSlot, u.rNode, u.rK, u.rLen = u.rSlot[:total], u.rNode[:total], u.rK[:total], u.rLen[:total]
+	u.rn = growInt(u.rn, nl)
 	u.pW = growF(u.pW, total)
 	// Per cell, pore volume over line volume (u.acc is free until the
 	// next map to the cells).
@@ -745,7 +752,7 @@ func (u *updateRun) setupPieces() {
 	}
 	u.psum = growF(u.psum, nl*np)
 	u.parallel(nl, func(_, i int) {
-		u.pn[i] = 0
+		u.pn[i], u.rn[i] = 0, 0
 		if !u.act[i] {
 			return
 		}
@@ -809,6 +816,17 @@ func (u *updateRun) setupPieces() {
 			}
 		}
 		u.pn[i] = cnt
+		// Runs of pieces on consecutive nodes of one partition.
+		runs := 0
+		for k := base; k < base+cnt; k++ {
+			if r := base + runs - 1; runs > 0 && u.pSlot[k] == u.rSlot[r] && u.pNode[k] == u.rNode[r]+u.rLen[r] {
+				u.rLen[r]++
+				continue
+			}
+			u.rSlot[base+runs], u.rNode[base+runs], u.rK[base+runs], u.rLen[base+runs] = u.pSlot[k], u.pNode[k], int32(k), 1
+			runs++
+		}
+		u.rn[i] = runs
 	})
 }
 
@@ -837,8 +855,14 @@ func (u *updateRun) partitionSw(well int) float64 {
 			sum := u.psum[i*np : (i+1)*np]
 			clear(sum)
 			gs := u.gs[u.gstart[i]:]
-			for k := u.pstart[i]; k < u.pstart[i]+u.pn[i]; k++ {
-				sum[u.pSlot[k]] += u.pW[k] * gs[u.pNode[k]]
+			for r := u.pstart[i]; r < u.pstart[i]+u.rn[i]; r++ {
+				k, n := int(u.rK[r]), int(u.rLen[r])
+				w, g := u.pW[k:k+n], gs[u.rNode[r]:int(u.rNode[r])+n]
+				acc := 0.0
+				for t, v := range w {
+					acc += v * g[t]
+				}
+				sum[u.rSlot[r]] += acc
 			}
 		})
 		copy(u.avg, u.num0)

@@ -90,7 +90,7 @@ func (w *Workspace) upwindLocal(s, dtau []float64, sInj, dt float64, fl *Flux, s
 			w.ratio[i] = dts / h
 		}
 		w.hout = grow(w.hout, m)
-		upLo, upHi = w.upwindHistory(s[a:e], fin, fl, w.hout[:m])
+		upLo, upHi = w.upwindHistory(s[a:e], fin, fl, w.hout[:m], !fl.clampFree(lo, hi))
 		w.hin, w.hout = w.hout, w.hin
 		hin = w.hin[:m]
 	}
@@ -106,7 +106,11 @@ func (w *Workspace) upwindLocal(s, dtau []float64, sInj, dt float64, fl *Flux, s
 // ratios in w.ratio), records the flux leaving the last segment at each
 // step in hist, and returns the range of the last segment's saturation at
 // the starts of the steps.
-func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []float64) (lo, hi float64) {
+//
+// Without clamp it leaves out Fw's clamp to [0, 1] in the sweep, for zones
+// whose saturations lie where it cannot act (Flux.clampFree): the same
+// numbers, fewer instructions.
+func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []float64, clamp bool) (lo, hi float64) {
 	n := len(s)
 	r := w.ratio[:n]
 	f0, f1 := fl.f[0], fl.f[fluxIntervals]
@@ -150,11 +154,13 @@ func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []f
 				c := &fl.poly[k&(fluxIntervals-1)] // k < fluxIntervals: no bounds check
 				fi = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
 			}
-			if fi < 0 {
-				fi = 0
-			}
-			if fi > 1 {
-				fi = 1
+			if clamp {
+				if fi < 0 {
+					fi = 0
+				}
+				if fi > 1 {
+					fi = 1
+				}
 			}
 			s[i] -= r[i] * (fr - fi)
 			fr = fi

@@ -127,3 +127,74 @@ func TestOutflowParts(t *testing.T) {
 		t.Error("outlet history after a global-step call")
 	}
 }
+
+// TestClampFree: on every table interval marked clamp-free the cubic stays
+// inside [0, 1] at 200 points (so Fw's clamp cannot act there), and a zone
+// sweep without the clamp gives the sweep with it bit for bit on
+// saturations in such a range (a differential test, common practice).
+func TestClampFree(t *testing.T) {
+	for _, c := range []Curve{sandstone(), quadCorey{2}} {
+		fl, err := NewFlux(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		free := 0
+		for k := range fl.poly {
+			if fl.unsafe[k+1] != fl.unsafe[k] {
+				continue
+			}
+			free++
+			p := fl.poly[k]
+			for j := 0; j <= 200; j++ {
+				x := float64(j) / 200
+				if v := p[0] + x*(p[1]+x*(p[2]+x*p[3])); !(v >= 0 && v <= 1) {
+					t.Fatalf("interval %d marked clamp-free: cubic %g at t=%g", k, v, x)
+				}
+			}
+		}
+		if free < fluxIntervals/2 {
+			t.Errorf("only %d of %d intervals clamp-free", free, fluxIntervals)
+		}
+		rng := rand.New(rand.NewPCG(6, 6))
+		var w Workspace
+		compared := 0
+		for range 50 {
+			lo := 0.3 + 0.3*rng.Float64()
+			hi := lo + 0.1*rng.Float64()
+			if !fl.clampFree(lo, hi) {
+				continue
+			}
+			compared++
+			n := 1 + rng.IntN(12)
+			s := make([]float64, n)
+			for i := range s {
+				s[i] = lo + (hi-lo)*rng.Float64()
+			}
+			s2 := append([]float64(nil), s...)
+			w.ratio = grow(w.ratio, n)
+			for i := range n {
+				w.ratio[i] = 0.2 * rng.Float64()
+			}
+			fin := make([]float64, 7)
+			for k := range fin {
+				fin[k] = fl.Fw(lo + (hi-lo)*rng.Float64())
+			}
+			h1, h2 := make([]float64, 7), make([]float64, 7)
+			w.upwindHistory(s, fin, fl, h1, true)
+			w.upwindHistory(s2, fin, fl, h2, false)
+			for i := range s {
+				if s[i] != s2[i] {
+					t.Fatalf("segment %d: %v with the clamp, %v without", i, s[i], s2[i])
+				}
+			}
+			for k := range h1 {
+				if h1[k] != h2[k] {
+					t.Fatalf("outflow %d: %v with the clamp, %v without", k, h1[k], h2[k])
+				}
+			}
+		}
+		if compared < 10 {
+			t.Errorf("only %d clamp-free zones compared", compared)
+		}
+	}
+}
