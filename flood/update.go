@@ -558,10 +558,19 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	nseg := len(ls.cell)
 	u.segS = growF(u.segS, nseg)
 	u.segW = growF(u.segW, nseg)
-	for s, c := range ls.cell {
-		u.segS[s] = u.sw[c]
-	}
-	// Node counts, serially: at most twice the positive segments.
+	// Per line in parallel: the segment saturations from the cells and
+	// the count of positive segments (in gn until the nodes are made).
+	u.parallel(nl, func(_, i int) {
+		npos := 0
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			u.segS[s] = u.sw[ls.cell[s]]
+			if ls.b[s] > ls.a[s] {
+				npos++
+			}
+		}
+		u.gn[i] = npos
+	})
+	// Node spans, serially: at most twice the positive segments.
 	u.gstart[0] = 0
 	np := len(r.Producers)
 	lineFlux := make([]float64, np)
@@ -572,12 +581,7 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	for i := range nl {
 		u.act[i] = false
 		u.lprod[i] = -1
-		npos := 0
-		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			if ls.b[s] > ls.a[s] {
-				npos++
-			}
-		}
+		npos := u.gn[i]
 		if ls.q[i] > 0 && ls.prod[i] >= 0 && ls.total[i] > 0 && npos > 0 {
 			u.act[i] = true
 			w := ls.prod[i]
@@ -597,6 +601,8 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 		nn := 0
 		if u.act[i] {
 			nn = 2 * npos
+		} else {
+			u.gn[i] = 0
 		}
 		u.gstart[i+1] = u.gstart[i] + nn
 	}
