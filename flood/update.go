@@ -740,8 +740,9 @@ func (u *updateRun) setupPieces() {
 	}
 	total := u.pstart[nl]
 	if cap(u.pNode) < total {
-		u.pNode, u.pSlot = make([]int32, total), make([]int32, total)
-		u.rSlot, u.rNode, u.rK, u.rLen = make([]int32, total), make([]int32, total), make([]int32, total), make([]int32, total)
+		c := total + total/4 // room for the next update's lines
+		u.pNode, u.pSlot = make([]int32, c), make([]int32, c)
+		u.rSlot, u.rNode, u.rK, u.rLen = make([]int32, c), make([]int32, c), make([]int32, c), make([]int32, c)
 	}
 	u.pNode, u.pSlot = u.pNode[:total], u.pSlot[:total]
 	u.rSlot, u.rNode, u.rK, u.rLen = u.rSlot[:total], u.rNode[:total], u.rK[:total], u.rLen[:total]
@@ -1328,21 +1329,21 @@ func fillField(r *Result) {
 
 func growF(b []float64, n int) []float64 {
 	if cap(b) < n {
-		return make([]float64, n)
+		return make([]float64, n, n+n/4) // room for the next update's lines
 	}
 	return b[:n]
 }
 
 func growInt(b []int, n int) []int {
 	if cap(b) < n {
-		return make([]int, n)
+		return make([]int, n, n+n/4) // room for the next update's lines
 	}
 	return b[:n]
 }
 
 func growBool(b []bool, n int) []bool {
 	if cap(b) < n {
-		return make([]bool, n)
+		return make([]bool, n, n+n/4) // room for the next update's lines
 	}
 	return b[:n]
 }
