@@ -41,6 +41,12 @@ type book struct {
 	histT        []float64
 	histW, histL [][]float64
 	nextHist     int
+	// An engine that maps its saturations to the cells only when they
+	// are read (pressure updates) sets cells, which brings sw up to date,
+	// and avgSw, which returns the saturation of a producer's partition
+	// (the well's index) without the cells; nil for the grid engine.
+	cells func()
+	avgSw func(well int) float64
 }
 
 func newBook(m *reservoir.Model, sched *WellSchedule, engine Engine) book {
@@ -153,7 +159,11 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 			P.CumWater[k] = b.cumW[p]
 			P.CumOil[k] = b.cumL[p] - b.cumW[p]
 			b.perW[p], b.perL[p] = 0, 0
-			P.AvgSw[k] = partitionSw(b.partition, b.pv, b.sw, P.Well)
+			if b.avgSw != nil {
+				P.AvgSw[k] = b.avgSw(P.Well)
+			} else {
+				P.AvgSw[k] = partitionSw(b.partition, b.pv, b.sw, P.Well)
+			}
 		}
 		if b.limits {
 			fieldWC := 0.0
@@ -161,6 +171,9 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 				fieldWC = fieldW / fieldL
 			}
 			b.limitShut = b.checkLimits(t, fieldWC, fieldL > 0)
+			if b.ended {
+				b.syncCells() // endEarly keeps the map of t
+			}
 		}
 	}
 	for ; b.nextHist < len(b.histT) && b.histT[b.nextHist] <= t*(1+1e-12); b.nextHist++ {
@@ -168,6 +181,9 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 			b.histW[p][b.nextHist] = b.cumW[p] + b.perW[p]
 			b.histL[p][b.nextHist] = b.cumL[p] + b.perL[p]
 		}
+	}
+	if slices.Contains(snaps, t) || slices.Contains(frames, t) {
+		b.syncCells()
 	}
 	if slices.Contains(snaps, t) {
 		r.Snapshots = append(r.Snapshots, Snapshot{Time: t, PVI: b.cumInj / r.PoreVolume, Sw: cellMap(b.m.Active, b.sw)})
@@ -177,8 +193,16 @@ func (b *book) atStop(t float64, reports, snaps, frames []float64) {
 	}
 }
 
+// syncCells brings the cell saturations up to date (book.cells).
+func (b *book) syncCells() {
+	if b.cells != nil {
+		b.cells()
+	}
+}
+
 // finish fills the field series and the mass balance.
 func (b *book) finish() {
+	b.syncCells()
 	for _, w := range b.rep {
 		if w.n > 1 {
 			b.r.Warnings[w.idx] += fmt.Sprintf(" (at %d pressure solves, from day %g to day %g; the first is shown)", w.n, w.first, w.last)

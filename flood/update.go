@@ -26,6 +26,12 @@ type UpdateOptions struct {
 	// Threshold is the produced water fraction that marks a producer's
 	// water breakthrough; 0 = 1e-3.
 	Threshold float64
+	// GlobalSteps gives every node of a line the line's one count of
+	// upwind sub-steps, set by its shortest node and fastest speed,
+	// instead of each node its own (local time stepping, the default:
+	// transport.Settings.Local). It changes the numerical diffusion, not
+	// the conservation; kept to compare the two.
+	GlobalSteps bool
 }
 
 // BreakthroughThreshold is the default water fraction of a producer's
@@ -48,7 +54,12 @@ const breakthroughProbes = 32
 // with its own stable sub-steps), and the line saturations are mapped
 // back to the cells by flux*tau weighting. This is the
 // IMPES-like sequence of streamline simulation (Batycky, Blunt and Thiele
-// 1997; Thiele, Batycky and Blunt 1996, from memory).
+// 1997; Thiele, Batycky and Blunt 1996, from memory). With the upwind
+// scheme the 1D transport steps locally (transport.Settings.Local: each
+// zone of a line its own sub-steps) unless UpdateOptions.GlobalSteps; the
+// cells are mapped from the lines only when they are read (a solve, a
+// snapshot or frame, the end) unless a gravity step or a producer that no
+// line reaches needs them at every report.
 //
 // Gravity (a case with depth): the pressure solve takes each cell's
 // mobility-weighted density; along each line the fractional flow carries
@@ -80,11 +91,16 @@ const breakthroughProbes = 32
 // the pressure solves in force (report values are averages over the report
 // interval, so they integrate to the cumulative volumes). A producer that no
 // line reaches produces at the water fraction of its cell. Breakthrough is
-// the first time the produced water fraction exceeds Threshold: the report
-// interval in which it happens is advanced again in 32 equal parts and the
-// crossing interpolated, so it is located to 1/32 of the report interval
-// (and within the resolution of the 1D scheme). AvgSw is the pore-volume
-// weighted saturation of the cells of the producer's partition.
+// the first time the produced water fraction exceeds Threshold: the
+// producer's outlet water over the report interval in which it happens is
+// split into 32 equal parts and the crossing interpolated, so it is
+// located to 1/32 of the report interval (and within the resolution of the
+// 1D scheme). With local time stepping (upwind, no gravity) the parts are
+// averages of each line's outlet flux history over the interval itself;
+// otherwise the interval is advanced again in 32 parts. AvgSw is the
+// pore-volume weighted saturation of the cells of the producer's
+// partition (with the deferred cell map, from the line nodes: the same
+// sum).
 //
 // Lines are advanced in parallel over Settings.Workers goroutines; every
 // reduction runs in line order, so results do not depend on the count.
@@ -191,14 +207,42 @@ type updateRun struct {
 	gn       []int     // node count of each line
 	gs, gd   []float64 // node saturations and node time of flight
 	backup   []float64 // node saturations at the start of a chunk
-	segS     []float64 // segment saturations
-	out      []float64 // mean outlet fw of each line over a chunk
-	lerr     []error
-	scratch  []lineScratch
-	acc, vol []float64 // cell accumulators
+	// Breakthrough from the outlet histories of the local steps: per line
+	// its mean outlet fraction over each breakthroughProbes part of the
+	// chunk and at its start (fromHistory: the chunk filled them).
+	parts, first []float64
+	fromHistory  bool
+	segS         []float64 // segment saturations
+	segW         []float64 // segment flux*tau*saturation (mapToCells)
+	out          []float64 // mean outlet fw of each line over a chunk
+	lerr         []error
+	scratch      []lineScratch
+	acc, vol     []float64 // cell accumulators
 	// Per producer, over a chunk: water and total flux of its lines, and
 	// the instantaneous outlet water at the chunk end.
 	water, flux, inst []float64
+
+	// Deferred cell map (lazy): when no report value needs the cells (no
+	// gravity step, every flowing producer reached by lines, no producer
+	// taking fluid in), the lines are mapped to the cells only when the
+	// cells are read (dirty after an advance: a solve, a snapshot or frame,
+	// the end), and the partition saturations of the reports come from the
+	// nodes through pieces: per line, node pNode's share pW of the
+	// pore-volume weighted saturation of producer pSlot's partition
+	// (spans pstart, counts pn); den and num0 hold each partition's pore
+	// volume and the saturation volume of its cells that no line crosses.
+	lazy, dirty  bool
+	avgDone      bool // avg holds the partition saturations of the nodes
+	pstart, pn   []int
+	pNode, pSlot []int32
+	pW           []float64
+	den, num0    []float64
+	avg          []float64
+	psum         []float64 // per line and producer: its pieces' sum
+	// Runs of pieces on consecutive nodes of one partition (spans
+	// pstart, counts rn): partition, first node, first piece, length.
+	rSlot, rNode, rK, rLen []int32
+	rn                     []int
 }
 
 type lineScratch struct {
@@ -225,7 +269,7 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		return nil, err
 	}
 	u := &updateRun{book: newBook(m, sched, EngineStreamline), s: s, o: o, ff: ff, fl: fl,
-		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL},
+		set:  transport.Settings{Scheme: o.Scheme, CFL: o.CFL, Local: o.Scheme == transport.Upwind && !o.GlobalSteps},
 		sInj: 1 - sor,
 		logf: s.Log,
 	}
@@ -255,7 +299,31 @@ func newUpdateRun(m *reservoir.Model, s Settings, o UpdateOptions) (*updateRun, 
 		u.workers = runtime.GOMAXPROCS(0)
 	}
 	u.grav = newGravityFaces(m)
+	if u.grav != nil && !dipping(m, u.grav) {
+		u.grav = nil // a uniform depth moves no water: the run without depth
+	}
 	return u, nil
+}
+
+// dipping reports whether gravity moves water in a case with depth: a
+// depth difference across some face or a depth gradient in some cell.
+func dipping(m *reservoir.Model, g *gravityFaces) bool {
+	for _, c := range g.cx {
+		if c != 0 {
+			return true
+		}
+	}
+	for _, c := range g.cy {
+		if c != 0 {
+			return true
+		}
+	}
+	for k, a := range m.Active {
+		if gx, gy := m.DepthGradient(k); a && (gx != 0 || gy != 0) {
+			return true
+		}
+	}
+	return false
 }
 
 // setupWells builds the well lists (book.setupWells) and the update
@@ -290,6 +358,7 @@ func (u *updateRun) run() error {
 	nt := len(tl.reports)
 	r.PVI = make([]float64, nt)
 	u.setupWells(nt)
+	u.cells, u.avgSw = u.syncCells, u.partitionSw
 
 	if u.sched.HasChanges(end) && m.History == nil {
 		opening := 0
@@ -374,6 +443,8 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 // streamlines and sets up their transport (stepper).
 func (u *updateRun) solveAt(t0 float64) error {
 	m, r := u.m, u.r
+	u.syncCells()
+	u.lazy = false
 	u.logf("update %d at day %g: pressure", r.Solves+1, t0)
 	sol, err := u.solve(t0)
 	if err != nil {
@@ -454,6 +525,11 @@ func (u *updateRun) advance(t, t1 float64) error {
 	if err := u.chunk(u.sol, t, t1); err != nil {
 		return err
 	}
+	u.avgDone = false
+	if u.lazy {
+		u.dirty = true
+		return nil
+	}
 	u.mapToCells()
 	if u.grav != nil {
 		return u.gravityStep(t1 - t)
@@ -481,10 +557,20 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	clear(u.lerr)
 	nseg := len(ls.cell)
 	u.segS = growF(u.segS, nseg)
-	for s, c := range ls.cell {
-		u.segS[s] = u.sw[c]
-	}
-	// Node counts, serially: at most twice the positive segments.
+	u.segW = growF(u.segW, nseg)
+	// Per line in parallel: the segment saturations from the cells and
+	// the count of positive segments (in gn until the nodes are made).
+	u.parallel(nl, func(_, i int) {
+		npos := 0
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			u.segS[s] = u.sw[ls.cell[s]]
+			if ls.b[s] > ls.a[s] {
+				npos++
+			}
+		}
+		u.gn[i] = npos
+	})
+	// Node spans, serially: at most twice the positive segments.
 	u.gstart[0] = 0
 	np := len(r.Producers)
 	lineFlux := make([]float64, np)
@@ -495,12 +581,7 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 	for i := range nl {
 		u.act[i] = false
 		u.lprod[i] = -1
-		npos := 0
-		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			if ls.b[s] > ls.a[s] {
-				npos++
-			}
-		}
+		npos := u.gn[i]
 		if ls.q[i] > 0 && ls.prod[i] >= 0 && ls.total[i] > 0 && npos > 0 {
 			u.act[i] = true
 			w := ls.prod[i]
@@ -520,6 +601,8 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 		nn := 0
 		if u.act[i] {
 			nn = 2 * npos
+		} else {
+			u.gn[i] = 0
 		}
 		u.gstart[i+1] = u.gstart[i] + nn
 	}
@@ -563,8 +646,10 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 		u.gn[i] = n
 		gs, gd := u.lineNodes(i)
 		copy(gd, sc.dstd[:n])
-		u.lerr[i] = transport.Remap(gs, gd, sc.src, sc.srcd)
-		if u.grav != nil && u.lerr[i] == nil {
+		// The engine's own partitions (positive segments, nodes made of
+		// them): Remap's checks are not needed.
+		transport.RemapTrusted(gs, gd, sc.src, sc.srcd)
+		if u.grav != nil {
 			sc.srcg = sc.srcg[:0]
 			for s := u.ls.start[i]; s < u.ls.start[i+1]; s++ {
 				if u.ls.b[s] > u.ls.a[s] {
@@ -579,7 +664,235 @@ func (u *updateRun) setupLines(sol *pressure.Solution, t0 float64) error {
 			u.sIn[i] = u.sLine
 		}
 	})
-	return u.firstError("mapping cells onto streamlines")
+	if err := u.firstError("mapping cells onto streamlines"); err != nil {
+		return err
+	}
+	// The line volume of each cell (flux*tau of the active lines), in
+	// line order, for the maps to the cells.
+	clear(u.vol)
+	for i := range nl {
+		if !u.act[i] {
+			continue
+		}
+		q := ls.q[i]
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if d := ls.b[s] - ls.a[s]; d > 0 {
+				u.vol[ls.cell[s]] += q * d
+			}
+		}
+	}
+	starved := false
+	for p := range r.Producers {
+		starved = starved || u.rate[p] > 0 && lineFlux[p] == 0
+	}
+	takesIn := false
+	for _, w := range sol.Wells {
+		takesIn = takesIn || !w.Shut && w.Q > 0 && w.Type != reservoir.Injector
+	}
+	u.lazy = u.grav == nil && !starved && !takesIn && !eagerCells
+	if u.lazy {
+		u.setupPieces()
+	}
+	return nil
+}
+
+// eagerCells maps the lines to the cells at every stop, as when the
+// reports need the cells; a test compares the two.
+var eagerCells = false
+
+// setupPieces prepares the partition saturations of the deferred cell map
+// (updateRun.lazy): each partition's pore volume and the saturation volume of its cells no
+// line crosses, and per line the pieces: the overlap of each node with
+// the segments of each partition's cells, weighted by the line's flux and
+// the cell's pore volume over its line volume, so that the pieces times
+// the node saturations add up to sum pv*sw over the partition's crossed
+// cells as mapToCells would leave them.
+func (u *updateRun) setupPieces() {
+	ls, r := u.ls, u.r
+	nl := len(ls.q)
+	np := len(r.Producers)
+	u.den, u.num0, u.avg = growF(u.den, np), growF(u.num0, np), growF(u.avg, np)
+	clear(u.den)
+	clear(u.num0)
+	slot := func(c int) int32 {
+		if w := u.partition[c]; w >= 0 && u.prodOf[w] >= 0 {
+			return int32(u.prodOf[w])
+		}
+		return -1
+	}
+	for c := range u.vol {
+		if p := slot(c); p >= 0 {
+			u.den[p] += u.pv[c]
+			if !(u.vol[c] > 0) {
+				u.num0[p] += u.pv[c] * u.sw[c]
+			}
+		}
+	}
+	u.pstart = growInt(u.pstart, nl+1)
+	u.pn = growInt(u.pn, nl)
+	u.pstart[0] = 0
+	for i := range nl {
+		k := 0
+		if u.act[i] {
+			k = u.gn[i] + ls.start[i+1] - ls.start[i]
+		}
+		u.pstart[i+1] = u.pstart[i] + k
+	}
+	total := u.pstart[nl]
+	if cap(u.pNode) < total {
+		c := total + total/4 // room for the next update's lines
+		u.pNode, u.pSlot = make([]int32, c), make([]int32, c)
+		u.rSlot, u.rNode, u.rK, u.rLen = make([]int32, c), make([]int32, c), make([]int32, c), make([]int32, c)
+	}
+	u.pNode, u.pSlot = u.pNode[:total], u.pSlot[:total]
+	u.rSlot, u.rNode, u.rK, u.rLen = u.rSlot[:total], u.rNode[:total], u.rK[:total], u.rLen[:total]
+	u.rn = growInt(u.rn, nl)
+	u.pW = growF(u.pW, total)
+	// Per cell, pore volume over line volume (u.acc is free until the
+	// next map to the cells).
+	fac := u.acc
+	for c, v := range u.vol {
+		fac[c] = 0
+		if v > 0 {
+			fac[c] = u.pv[c] / v
+		}
+	}
+	u.psum = growF(u.psum, nl*np)
+	u.parallel(nl, func(_, i int) {
+		u.pn[i], u.rn[i] = 0, 0
+		if !u.act[i] {
+			return
+		}
+		_, gd := u.lineNodes(i)
+		n := len(gd)
+		last := -1
+		for s := ls.start[i]; s < ls.start[i+1]; s++ {
+			if ls.b[s] > ls.a[s] {
+				last = s
+			}
+		}
+		base, cnt := u.pstart[i], 0
+		q := ls.q[i]
+		inf := math.Inf(1)
+		j, nodeCum := 0, gd[0]
+		nodeEnd := nodeCum
+		if n == 1 {
+			nodeEnd = inf
+		}
+		pos, segCum := 0.0, 0.0
+		for s := ls.start[i]; s <= last; s++ {
+			d := ls.b[s] - ls.a[s]
+			if !(d > 0) {
+				continue
+			}
+			segCum += d
+			segEnd := segCum
+			if s == last {
+				segEnd = inf
+			}
+			c := ls.cell[s]
+			p := slot(int(c))
+			f := q * fac[c]
+			for {
+				end := min(nodeEnd, segEnd)
+				if math.IsInf(end, 1) {
+					end = max(nodeCum, segCum)
+				}
+				if ov := end - pos; ov > 0 && p >= 0 {
+					if k := base + cnt - 1; cnt > 0 && u.pNode[k] == int32(j) && u.pSlot[k] == p {
+						u.pW[k] += ov * f
+					} else {
+						u.pNode[base+cnt], u.pSlot[base+cnt], u.pW[base+cnt] = int32(j), p, ov*f
+						cnt++
+					}
+				}
+				pos = end
+				advNode := nodeEnd <= segEnd && j < n-1
+				advSeg := segEnd <= nodeEnd
+				if advNode {
+					j++
+					nodeCum += gd[j]
+					nodeEnd = nodeCum
+					if j == n-1 {
+						nodeEnd = inf
+					}
+				}
+				if advSeg {
+					break
+				}
+			}
+		}
+		u.pn[i] = cnt
+		// Runs of pieces on consecutive nodes of one partition.
+		runs := 0
+		for k := base; k < base+cnt; k++ {
+			if r := base + runs - 1; runs > 0 && u.pSlot[k] == u.rSlot[r] && u.pNode[k] == u.rNode[r]+u.rLen[r] {
+				u.rLen[r]++
+				continue
+			}
+			u.rSlot[base+runs], u.rNode[base+runs], u.rK[base+runs], u.rLen[base+runs] = u.pSlot[k], u.pNode[k], int32(k), 1
+			runs++
+		}
+		u.rn[i] = runs
+	})
+}
+
+// syncCells maps the lines to the cells if an advance has moved them
+// since the last map (book.cells).
+func (u *updateRun) syncCells() {
+	if u.dirty {
+		u.dirty = false
+		u.mapToCells()
+	}
+}
+
+// partitionSw returns the pore-volume weighted water saturation of the
+// cells of a producer's partition (book.avgSw): from the cells, or with
+// the deferred cell map from the node saturations and the pieces (the
+// same sum, in another order).
+func (u *updateRun) partitionSw(well int) float64 {
+	if !u.lazy {
+		return partitionSw(u.partition, u.pv, u.sw, well)
+	}
+	if !u.avgDone {
+		u.avgDone = true
+		// Per line in parallel, then the lines in order.
+		np := len(u.avg)
+		u.parallel(len(u.ls.q), func(_, i int) {
+			sum := u.psum[i*np : (i+1)*np]
+			clear(sum)
+			gs := u.gs[u.gstart[i]:]
+			for r := u.pstart[i]; r < u.pstart[i]+u.rn[i]; r++ {
+				k, n := int(u.rK[r]), int(u.rLen[r])
+				w, g := u.pW[k:k+n], gs[u.rNode[r]:int(u.rNode[r])+n]
+				acc := 0.0
+				for t, v := range w {
+					acc += v * g[t]
+				}
+				sum[u.rSlot[r]] += acc
+			}
+		})
+		copy(u.avg, u.num0)
+		for i := range u.ls.q {
+			if u.pn[i] == 0 {
+				continue
+			}
+			for p, v := range u.psum[i*np : (i+1)*np] {
+				u.avg[p] += v
+			}
+		}
+		for p, v := range u.den {
+			if v > 0 {
+				u.avg[p] /= v
+			} else {
+				u.avg[p] = math.NaN()
+			}
+		}
+	}
+	if p := u.prodOf[well]; p >= 0 {
+		return u.avg[p]
+	}
+	return math.NaN()
 }
 
 // nodes builds the node partition of line i's time of flight in
@@ -755,8 +1068,16 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 				watchBT = true
 			}
 		}
-		if watchBT {
+		// With local time stepping the outlet history of each line gives
+		// the breakthrough parts (u.parts) of the lines of the producers
+		// still watched; otherwise locate advances them again from backup.
+		u.fromHistory = watchBT && u.grav == nil && u.set.Local
+		if watchBT && !u.fromHistory {
 			copy(u.backup, u.gs)
+		}
+		if u.fromHistory {
+			u.parts = growF(u.parts, len(u.ls.q)*breakthroughProbes)
+			u.first = growF(u.first, len(u.ls.q))
 		}
 		u.parallel(len(u.ls.q), func(w, i int) {
 			if !u.act[i] {
@@ -768,7 +1089,16 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 				sIn = gs[0]
 			}
 			u.sIn[i] = sIn
-			u.out[i], u.lerr[i] = u.advanceLine(&u.scratch[w], i, gs, gd, sIn, dt)
+			p := u.lprod[i]
+			watched := u.fromHistory && p >= 0 && !u.broken[p] && u.rate[p] > 0
+			if watched {
+				u.first[i] = u.fl.Fw(gs[len(gs)-1])
+			}
+			sc := &u.scratch[w]
+			u.out[i], u.lerr[i] = u.advanceLine(sc, i, gs, gd, sIn, dt)
+			if watched && u.lerr[i] == nil && !sc.ws.OutflowParts(u.parts[i*breakthroughProbes:(i+1)*breakthroughProbes]) {
+				u.lerr[i] = errors.New("no outlet history of the local steps")
+			}
 		})
 		if err := u.firstError(fmt.Sprintf("transport from day %g to %g", t, t1)); err != nil {
 			return err
@@ -817,10 +1147,11 @@ func (u *updateRun) chunk(sol *pressure.Solution, t, t1 float64) error {
 }
 
 // locate finds the breakthrough time of producer p within the chunk that
-// starts at t and lasts dt: the chunk is advanced again from its saved
-// state in breakthroughProbes equal parts, and the water fraction, taken as
-// the part averages at the part midpoints, is interpolated to the
-// threshold.
+// starts at t and lasts dt: the mean water fraction of its lines over each
+// of breakthroughProbes equal parts of the chunk (from the outlet
+// histories of the local steps, or by advancing the chunk again from its
+// saved state in that many parts), taken at the part midpoints, is
+// interpolated to the threshold.
 func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 	if !hasLines {
 		return t + dt
@@ -833,6 +1164,10 @@ func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 		if u.act[i] && u.lprod[i] == p {
 			lines = append(lines, i)
 		}
+	}
+	if u.fromHistory {
+		return u.crossing(lines, t, dt, func(j, k int) float64 { return u.parts[lines[j]*K+k] },
+			func(i int) float64 { return u.first[i] })
 	}
 	probes := make([]float64, len(lines)*K)
 	errs := make([]error, len(lines))
@@ -860,20 +1195,31 @@ func (u *updateRun) locate(p int, t, dt float64, hasLines bool) float64 {
 			return t + dt
 		}
 	}
+	return u.crossing(lines, t, dt, func(j, k int) float64 { return probes[j*K+k] },
+		func(i int) float64 { return u.fl.Fw(u.backup[u.gstart[i]+u.gn[i]-1]) })
+}
+
+// crossing interpolates the time at which the flux-weighted water
+// fraction of the lines crosses the threshold within the chunk from t to
+// t+dt, from each line's outlet fraction at the start (first) and its mean
+// over each of the breakthroughProbes parts (part), taken at the part
+// midpoints.
+func (u *updateRun) crossing(lines []int, t, dt float64, part func(j, k int) float64, first func(i int) float64) float64 {
+	const K = breakthroughProbes
+	ls := u.ls
 	frac := make([]float64, K)
 	flux := 0.0
 	for j, i := range lines {
 		q := ls.q[i]
 		flux += q
 		for k := range K {
-			frac[k] += q * probes[j*K+k]
+			frac[k] += q * part(j, k)
 		}
 	}
 	prevT, prevV := t, 0.0
 	// Water fraction at the start of the chunk: the outlet nodes' state.
 	for _, i := range lines {
-		b := u.gstart[i] + u.gn[i]
-		prevV += ls.q[i] * u.fl.Fw(u.backup[b-1])
+		prevV += ls.q[i] * first(i)
 	}
 	prevV /= flux
 	if prevV > u.threshold {
@@ -911,29 +1257,26 @@ func (u *updateRun) mapToCells() {
 		}
 		sc.dst = growF(sc.dst, len(sc.dstd))
 		gs, gd := u.lineNodes(i)
-		u.lerr[i] = transport.Remap(sc.dst, sc.dstd, gs, gd)
+		transport.RemapTrusted(sc.dst, sc.dstd, gs, gd)
 		j := 0
+		q := ls.q[i]
 		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			if ls.b[s] > ls.a[s] {
+			u.segW[s] = 0
+			if d := ls.b[s] - ls.a[s]; d > 0 {
 				u.segS[s] = sc.dst[j]
+				u.segW[s] = q * d * u.segS[s]
 				j++
 			}
 		}
 	})
+	// The cell sums in line order (u.vol: setupLines).
 	clear(u.acc)
-	clear(u.vol)
 	for i := range nl {
 		if !u.act[i] {
 			continue
 		}
-		q := ls.q[i]
 		for s := ls.start[i]; s < ls.start[i+1]; s++ {
-			d := ls.b[s] - ls.a[s]
-			if d > 0 {
-				c := ls.cell[s]
-				u.acc[c] += q * d * u.segS[s]
-				u.vol[c] += q * d
-			}
+			u.acc[ls.cell[s]] += u.segW[s]
 		}
 	}
 	for c, v := range u.vol {
@@ -986,21 +1329,21 @@ func fillField(r *Result) {
 
 func growF(b []float64, n int) []float64 {
 	if cap(b) < n {
-		return make([]float64, n)
+		return make([]float64, n, n+n/4) // room for the next update's lines
 	}
 	return b[:n]
 }
 
 func growInt(b []int, n int) []int {
 	if cap(b) < n {
-		return make([]int, n)
+		return make([]int, n, n+n/4) // room for the next update's lines
 	}
 	return b[:n]
 }
 
 func growBool(b []bool, n int) []bool {
 	if cap(b) < n {
-		return make([]bool, n)
+		return make([]bool, n, n+n/4) // room for the next update's lines
 	}
 	return b[:n]
 }

@@ -63,8 +63,15 @@ type Settings struct {
 	CFL float64
 	// MaxSteps bounds the number of sub-steps of one call; 0 means
 	// DefaultMaxSteps. Very short segments force many sub-steps: merge or
-	// Remap them onto a coarser tau grid first.
+	// Remap them onto a coarser tau grid first. With Local it bounds the
+	// sub-steps of each segment.
 	MaxSteps int
+	// Local (Upwind only) gives every segment its own number of equal
+	// sub-steps, the fewest its own length and the wave speeds of its own
+	// and its upstream neighbour's saturations allow (local time stepping;
+	// see Workspace.Advance), instead of the one count of the whole line
+	// that its shortest segment and fastest speed set.
+	Local bool
 }
 
 func (set Settings) cfl() float64 {
@@ -89,6 +96,24 @@ type Workspace struct {
 	invc  []float64 // 1 / centre distances (TVD)
 	s1    []float64 // first stage (TVD)
 	flux  []float64 // face fluxes (TVD)
+	// Flux histories of local time stepping: entering, leaving, and the
+	// entering one averaged onto a segment's own sub-steps.
+	hin, hout, hmid []float64
+	outflow         []float64 // outlet history of the last local call (OutflowParts)
+}
+
+// OutflowParts sets parts to the mean water fraction leaving the outlet
+// over each of len(parts) equal parts of the interval of the last Advance,
+// from the flux history of its last segments (exact averages of it, so
+// their mean is Advance's outFw up to round-off), and reports true; it
+// reports false, and leaves parts alone, unless that call used local time
+// stepping (Settings.Local) with dt > 0.
+func (w *Workspace) OutflowParts(parts []float64) bool {
+	if w.outflow == nil || len(parts) == 0 {
+		return false
+	}
+	resample(parts, w.outflow)
+	return true
 }
 
 func grow(b []float64, n int) []float64 {
@@ -104,14 +129,22 @@ func grow(b []float64, n int) []float64 {
 // lengths) and mean saturations s[i], updated in place. It chooses equal
 // sub-steps with max|fw'| dt_sub / min(dtau) <= CFL, where max|fw'| bounds
 // the speed over the saturations present (the schemes create no new
-// extrema, so the bound holds for the whole call). The curve fl must be
-// increasing in saturation (flow from the inlet to the outlet).
+// extrema, so the bound holds for the whole call). With Settings.Local
+// (upwind only) each segment instead takes its own equal sub-steps, as few
+// as its own length and the speeds of its own and its upstream
+// neighbour's saturations over the interval allow (local time stepping,
+// Osher and Sanders 1983, from memory): a segment ahead of a front takes
+// one. The curve fl must be increasing in saturation (flow from the inlet
+// to the outlet).
 //
 // It returns outFw, the mean water fraction leaving the outlet over the
 // interval (the time integral of fw at the outlet divided by dt), and the
-// number of sub-steps. The update is conservative: the water volume
+// number of sub-steps (with Local, the largest of any segment; a bad
+// saturation or time of flight is then found when its zone is reached, and
+// the segments upstream of it have been advanced). The update is conservative: the water volume
 // sum(s*dtau) changes by exactly (fw(sInj) - outFw)*dt up to round-off.
 func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set Settings) (outFw float64, steps int, err error) {
+	w.outflow = nil
 	n := len(s)
 	switch {
 	case fl == nil:
@@ -130,6 +163,12 @@ func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set S
 		return 0, 0, fmt.Errorf("transport: unknown limiter %d", set.Limiter)
 	case set.CFL < 0 || set.CFL > 1 || math.IsNaN(set.CFL):
 		return 0, 0, fmt.Errorf("transport: CFL number %g outside (0, 1]", set.CFL)
+	case set.Local && set.Scheme != Upwind:
+		return 0, 0, fmt.Errorf("transport: local time stepping is for the upwind scheme, not %v", set.Scheme)
+	}
+	if set.Local && dt > 0 {
+		// It checks the saturations and times of flight zone by zone.
+		return w.upwindLocal(s, dtau, sInj, dt, fl, set)
 	}
 	smin, smax, hmin := sInj, sInj, math.Inf(1)
 	for i, v := range s {
@@ -140,7 +179,17 @@ func (w *Workspace) Advance(s, dtau []float64, sInj, dt float64, fl *Flux, set S
 		if !(h > 0) || math.IsInf(h, 0) {
 			return 0, 0, fmt.Errorf("transport: segment %d has time of flight %g; it must be positive", i, h)
 		}
-		smin, smax, hmin = math.Min(smin, v), math.Max(smax, v), math.Min(hmin, h)
+		// Plain comparisons: v and h are checked numbers, and math.Min
+		// and math.Max cost a third of this loop.
+		if v < smin {
+			smin = v
+		}
+		if v > smax {
+			smax = v
+		}
+		if h < hmin {
+			hmin = h
+		}
 	}
 	if dt == 0 {
 		return fl.Fw(s[n-1]), 0, nil

@@ -145,7 +145,7 @@ func TestAdvanceMassConservation(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(1, 2))
 	var w Workspace
-	for _, set := range []Settings{{}, {Scheme: TVD}, {Scheme: TVD, Limiter: VanLeer}, {CFL: 0.3}} {
+	for _, set := range []Settings{{}, {Scheme: TVD}, {Scheme: TVD, Limiter: VanLeer}, {CFL: 0.3}, {Local: true}, {Local: true, CFL: 0.3}} {
 		for trial := 0; trial < 20; trial++ {
 			n := 1 + rng.IntN(300)
 			s, dtau := randomLine(rng, n, 0.5, 0.2, 0.75)
@@ -251,7 +251,9 @@ func TestAdvanceConvergesToRiemann(t *testing.T) {
 		{"contact, upwind", linear, 0, 1, Settings{}, 0.4, 0.6},
 		{"contact, TVD minmod", linear, 0, 1, Settings{Scheme: TVD}, 0.55, 0.8},
 		{"contact, TVD van Leer", linear, 0, 1, Settings{Scheme: TVD, Limiter: VanLeer}, 0.55, 0.85},
+		{"contact, upwind local steps", linear, 0, 1, Settings{Local: true}, 0.4, 0.6},
 		{"Buckley-Leverett, upwind", sandstone(), 0.2, 0.75, Settings{}, 0.6, 1.15},
+		{"Buckley-Leverett, upwind local steps", sandstone(), 0.2, 0.75, Settings{Local: true}, 0.6, 1.15},
 		{"Buckley-Leverett, TVD minmod", sandstone(), 0.2, 0.75, Settings{Scheme: TVD}, 0.7, 1.3},
 		{"Buckley-Leverett a=2, upwind", quadCorey{2}, 0, 1, Settings{}, 0.6, 1.15},
 		{"Buckley-Leverett a=2, TVD van Leer", quadCorey{2}, 0, 1, Settings{Scheme: TVD, Limiter: VanLeer}, 0.7, 1.3},
@@ -428,6 +430,14 @@ func TestAdvanceErrors(t *testing.T) {
 			s[0] = math.NaN()
 			return s, d, 0.7, 1, fl, Settings{}
 		}, nil},
+		{"zero dtau, local steps", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
+			d[1] = 0
+			return s, d, 0.7, 1, fl, Settings{Local: true}
+		}, nil},
+		{"NaN saturation, local steps", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
+			s[0] = math.NaN()
+			return s, d, 0.7, 1, fl, Settings{Local: true}
+		}, nil},
 		{"injected above 1", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
 			return s, d, 1.5, 1, fl, Settings{}
 		}, nil},
@@ -441,6 +451,13 @@ func TestAdvanceErrors(t *testing.T) {
 			d[0] = 1e-9
 			return s, d, 0.7, 1e3, fl, Settings{MaxSteps: 1000}
 		}, ErrTooManySteps},
+		{"too many local steps", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
+			d[0] = 1e-9
+			return s, d, 0.7, 1e3, fl, Settings{MaxSteps: 1000, Local: true}
+		}, ErrTooManySteps},
+		{"local steps with TVD", func(s, d []float64) ([]float64, []float64, float64, float64, *Flux, Settings) {
+			return s, d, 0.7, 1, fl, Settings{Scheme: TVD, Local: true}
+		}, nil},
 	}
 	for _, c := range cases {
 		s, d := good()
@@ -464,7 +481,7 @@ func TestAdvanceDoesNotAllocate(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 9))
 	s, dtau := randomLine(rng, 300, 1, 0.2, 0.75)
 	var w Workspace
-	for _, set := range []Settings{{}, {Scheme: TVD}} {
+	for _, set := range []Settings{{}, {Scheme: TVD}, {Local: true}} {
 		allocs := testing.AllocsPerRun(20, func() {
 			if _, _, err := w.Advance(s, dtau, 0.75, 5, fl, set); err != nil {
 				t.Fatal(err)
@@ -533,8 +550,12 @@ func BenchmarkAdvance(b *testing.B) {
 	}
 	// One pressure-update interval: the front crosses a third of the line.
 	dt := total / 3 / r.FrontSpeed()
-	for _, set := range []Settings{{Scheme: Upwind}, {Scheme: TVD}} {
-		b.Run(set.Scheme.String(), func(b *testing.B) {
+	for _, set := range []Settings{{Scheme: Upwind}, {Scheme: Upwind, Local: true}, {Scheme: TVD}} {
+		name := set.Scheme.String()
+		if set.Local {
+			name += "-local"
+		}
+		b.Run(name, func(b *testing.B) {
 			var w Workspace
 			s := make([]float64, len(dtau))
 			steps := 0

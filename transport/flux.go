@@ -27,6 +27,11 @@ type Flux struct {
 	// in the local coordinate t in [0, 1]: one cache line per evaluation.
 	poly   [fluxIntervals][4]float64
 	binMax [fluxBins]float64
+	// span[a][b] is the largest binMax over the bins a..b (a <= b).
+	span [fluxBins][fluxBins]float64
+	// unsafe[k] counts the intervals before k on which the cubic may
+	// leave [0, 1] (so that Fw's clamp may act there; see clampFree).
+	unsafe [fluxIntervals + 1]int32
 }
 
 // NewFlux tabulates c. It returns an error if fw is not finite somewhere on
@@ -77,6 +82,19 @@ func NewFlux(c Curve) (*Flux, error) {
 			}
 		}
 		fl.binMax[b] = m
+	}
+	for k := range fl.poly {
+		fl.unsafe[k+1] = fl.unsafe[k]
+		if !cubicInside(fl.poly[k]) {
+			fl.unsafe[k+1]++
+		}
+	}
+	for a := range fl.span {
+		m := 0.0
+		for b := a; b < fluxBins; b++ {
+			m = math.Max(m, fl.binMax[b])
+			fl.span[a][b] = m
+		}
 	}
 	return fl, nil
 }
@@ -133,9 +151,58 @@ func (fl *Flux) MaxSpeed(lo, hi float64) float64 {
 	b1 := int(math.Floor(hi * fluxBins))
 	b0 = min(max(b0, 0), fluxBins-1)
 	b1 = min(max(b1, 0), fluxBins-1)
-	m := 0.0
-	for b := b0; b <= b1; b++ {
-		m = math.Max(m, fl.binMax[b])
+	return fl.span[b0][b1]
+}
+
+// cubicInside reports whether c0 + t(c1 + t(c2 + t c3)) lies within
+// [margin, 1-margin] for every t in [0, 1], margin 1e-12: its values at the
+// ends and at the zeros of its derivative in (0, 1). The margin is far
+// above the rounding of the evaluation (about 1e-15 for coefficients of
+// size 10), so on such an interval Fw's clamp never acts.
+func cubicInside(c [4]float64) bool {
+	const margin = 1e-12
+	p := func(t float64) float64 { return c[0] + t*(c[1]+t*(c[2]+t*c[3])) }
+	ok := func(v float64) bool { return v >= margin && v <= 1-margin }
+	if !ok(p(0)) || !ok(p(1)) {
+		return false
 	}
-	return m
+	// p'(t) = c1 + 2 c2 t + 3 c3 t^2.
+	a, b, d := 3*c[3], 2*c[2], c[1]
+	var roots []float64
+	switch {
+	case a == 0 && b != 0:
+		roots = append(roots, -d/b)
+	case a != 0:
+		if disc := b*b - 4*a*d; disc >= 0 {
+			q := math.Sqrt(disc)
+			roots = append(roots, (-b+q)/(2*a), (-b-q)/(2*a))
+		}
+	}
+	for _, t := range roots {
+		if t > 0 && t < 1 && !ok(p(t)) {
+			return false
+		}
+	}
+	return true
+}
+
+// clampFree reports whether Fw's clamp cannot act for any saturation
+// within one table interval of [lo, hi] (lo <= hi): the cubic of every
+// interval there stays inside [0, 1] (cubicInside).
+func (fl *Flux) clampFree(lo, hi float64) bool {
+	k0, k1 := int(lo*fluxIntervals)-1, int(hi*fluxIntervals)+1
+	k0 = min(max(k0, 0), fluxIntervals-1)
+	k1 = min(max(k1, 0), fluxIntervals-1)
+	return fl.unsafe[k1+1] == fl.unsafe[k0]
+}
+
+// speed is MaxSpeed for lo <= hi, both in [0, 1] or beyond (clamped).
+func (fl *Flux) speed(lo, hi float64) float64 {
+	b0, b1 := int(lo*fluxBins), int(hi*fluxBins)
+	if lo < 0 {
+		b0 = 0
+	}
+	b0 = min(b0, fluxBins-1)
+	b1 = min(max(b1, 0), fluxBins-1)
+	return fl.span[b0][b1]
 }

@@ -42,15 +42,35 @@ func Remap(dst, dstDtau, src, srcDtau []float64) error {
 	if math.Abs(tSrc-tDst) > 1e-9*math.Max(tSrc, tDst) {
 		return fmt.Errorf("transport: Remap totals differ: %g and %g", tSrc, tDst)
 	}
+	RemapTrusted(dst, dstDtau, src, srcDtau)
+	return nil
+}
+
+// RemapTrusted is Remap without its checks, for partitions that the
+// caller has built itself and knows to be valid: as many values as
+// times of flight on each side, at least one segment each, positive
+// finite times of flight, finite source values, and equal totals to within
+// round-off (the checks cost about a third of Remap on the pressure-update
+// benchmark). On such input it does exactly what Remap does.
+func RemapTrusted(dst, dstDtau, src, srcDtau []float64) {
 	i, j := 0, 0
 	srcEnd, dstEnd := srcDtau[0], dstDtau[0]
 	pos := 0.0
 	acc, w := 0.0, 0.0
 	for {
 		lastSrc, lastDst := i == len(src)-1, j == len(dst)-1
-		end := math.Min(srcEnd, dstEnd)
+		// Plain comparisons (the ends are finite and positive; math.Min
+		// and math.Max differ only for NaN and signed zeros).
+		end := srcEnd
+		if dstEnd < end {
+			end = dstEnd
+		}
 		if lastSrc && lastDst {
-			end = math.Max(srcEnd, dstEnd)
+			if srcEnd < dstEnd {
+				end = dstEnd
+			} else {
+				end = srcEnd
+			}
 		} else if lastSrc {
 			end = dstEnd
 		} else if lastDst {
@@ -63,7 +83,7 @@ func Remap(dst, dstDtau, src, srcDtau []float64) error {
 		pos = end
 		if lastSrc && lastDst {
 			dst[j] = acc / w
-			return nil
+			return
 		}
 		advDst := !lastDst && (lastSrc || dstEnd <= srcEnd)
 		advSrc := !lastSrc && (lastDst || srcEnd <= dstEnd)
