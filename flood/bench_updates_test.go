@@ -95,10 +95,22 @@ func BenchmarkUpdates200x150(b *testing.B) {
 		b.ReportMetric(el.Seconds(), "s-grid")
 		b.ReportMetric(float64(g.Solves), "solves")
 	})
-	for _, n := range []int{5, 10, 20, 40} {
-		b.Run("updates-"+strconv.Itoa(n), func(b *testing.B) {
+	// The case's 2000 streamlines with 5 to 40 updates, then 10 and 20
+	// updates with 1000 streamlines (run.streamlines: the fill lines still
+	// cover every flowing cell).
+	type variant struct{ updates, lines int }
+	variants := []variant{{5, 0}, {10, 0}, {20, 0}, {40, 0}, {10, 1000}, {20, 1000}}
+	for _, v := range variants {
+		name := "updates-" + strconv.Itoa(v.updates)
+		if v.lines > 0 {
+			name += "-lines-" + strconv.Itoa(v.lines)
+		}
+		b.Run(name, func(b *testing.B) {
 			mm := *m
-			mm.Run.PressureUpdates = n
+			mm.Run.PressureUpdates = v.updates
+			if v.lines > 0 {
+				mm.Run.Streamlines = v.lines
+			}
 			var r *Result
 			t0 := time.Now()
 			for b.Loop() {

@@ -487,7 +487,8 @@ func (u *updateRun) solveAt(t0 float64) error {
 			count = u.s.Streamlines
 		}
 		keep := !u.firstTraceDone
-		tr, err = streamline.Trace(Field(m, sol), streamline.Settings{Count: count, Workers: u.workers, KeepPaths: keep})
+		// Retraces feed only the transport: no polylines, no time-of-flight maps.
+		tr, err = streamline.Trace(Field(m, sol), streamline.Settings{Count: count, Workers: u.workers, KeepPaths: keep, VolumesOnly: !keep})
 		if err != nil {
 			return fmt.Errorf("streamlines at day %g: %w", t0, err)
 		}

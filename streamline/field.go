@@ -52,6 +52,12 @@ type Settings struct {
 	// GIS export need a few hundred; a million-cell grid would otherwise
 	// keep gigabytes of coordinates.
 	MaxPathPoints int
+	// VolumesOnly leaves out the time-of-flight maps (the Result's TOF,
+	// BackTOF and Travel are nil) and the injector partition (nil): the
+	// lines, Volume, Stagnant, the producer partition and the pairs are
+	// made as always, bit for bit. For an engine that retraces and reads
+	// only those (the pressure-update engine after its first trace).
+	VolumesOnly bool
 }
 
 // MinPerWell is the smallest number of streamlines launched from a well

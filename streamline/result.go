@@ -184,6 +184,7 @@ func Trace(f *Field, s Settings) (*Result, error) {
 	}
 	t := newTracer(f, s)
 	b := newBuilder(t, f, s.Workers)
+	b.volumesOnly = s.VolumesOnly
 	var warn []string
 	b.trace(injectorSeeds(t, f, s.Count))
 	b.trace(producerSeeds(t, f, s.Count, b.lines))

@@ -73,8 +73,8 @@ func (r *Result) TakeSegments(pv []float64) (*Segments, error) {
 // rescale makes the segments; inPlace writes Exit over the flat times of
 // flight of the lines of Trace.
 func (r *Result) rescale(pv []float64, inPlace bool) (*Segments, error) {
-	if r.TOF != nil && len(pv) != len(r.TOF) {
-		return nil, fmt.Errorf("streamline: %d pore volumes for %d cells", len(pv), len(r.TOF))
+	if r.Stagnant != nil && len(pv) != len(r.Stagnant) {
+		return nil, fmt.Errorf("streamline: %d pore volumes for %d cells", len(pv), len(r.Stagnant))
 	}
 	if r.released {
 		return nil, errors.New("streamline: the lines' cells were released")
@@ -123,7 +123,7 @@ func (r *Result) rescale(pv []float64, inPlace bool) (*Segments, error) {
 	for c, raw := range scale {
 		if raw > 0 {
 			scale[c] = pv[c] / raw
-		} else if pv[c] > 0 && r.TOF != nil && !r.Stagnant[c] {
+		} else if pv[c] > 0 && r.Stagnant != nil && !r.Stagnant[c] {
 			sg.Uncovered++
 		}
 	}

@@ -165,3 +165,46 @@ func TestDiagnosticsTwoLayers(t *testing.T) {
 		t.Errorf("no line: %+v", d)
 	}
 }
+
+// TestVolumesOnlySameAsFull checks that a trace with Settings.VolumesOnly
+// gives the lines, traced volumes, stagnant cells, producer partition,
+// pairs and rescaled segments of the full trace bit for bit, and leaves
+// the time-of-flight maps and the injector partition out.
+func TestVolumesOnlySameAsFull(t *testing.T) {
+	for _, sealed := range []bool{false, true} {
+		f := twoChannels(25, 10, sealed)
+		for _, workers := range []int{1, 3} {
+			full, err := Trace(f, Settings{Count: 60, Workers: workers})
+			if err != nil {
+				t.Fatal(err)
+			}
+			lean, err := Trace(f, Settings{Count: 60, Workers: workers, VolumesOnly: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if lean.TOF != nil || lean.BackTOF != nil || lean.Travel != nil || lean.InjectorPartition != nil {
+				t.Fatalf("sealed %v: VolumesOnly made a time-of-flight map or the injector partition", sealed)
+			}
+			if len(lean.Lines) != len(full.Lines) || !slices.Equal(lean.ProducerPartition, full.ProducerPartition) ||
+				!slices.Equal(lean.Stagnant, full.Stagnant) || !slices.Equal(lean.Pairs, full.Pairs) {
+				t.Fatalf("sealed %v, %d workers: lines, partition, stagnant cells or pairs differ", sealed, workers)
+			}
+			for c := range full.Volume {
+				if math.Float64bits(lean.Volume[c]) != math.Float64bits(full.Volume[c]) {
+					t.Fatalf("sealed %v: cell %d volume %v, full trace %v", sealed, c, lean.Volume[c], full.Volume[c])
+				}
+			}
+			a, err := full.Rescale(f.PoreVolume)
+			if err != nil {
+				t.Fatal(err)
+			}
+			b, err := lean.Rescale(f.PoreVolume)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !slices.Equal(a.Cell, b.Cell) || !slices.Equal(a.Exit, b.Exit) || !slices.Equal(a.Total, b.Total) || a.Uncovered != b.Uncovered {
+				t.Fatalf("sealed %v: rescaled segments differ", sealed)
+			}
+		}
+	}
+}

@@ -29,6 +29,8 @@ type builder struct {
 	// final size rather than by a fixed factor (the slack of an array
 	// grown by a factor, and the copies, cost memory).
 	expect int
+	// volumesOnly: Settings.VolumesOnly.
+	volumesOnly bool
 }
 
 // worker is the scratch space of one goroutine: the two halves of the line
