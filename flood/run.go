@@ -44,9 +44,11 @@ type Settings struct {
 	Grid GridOptions
 }
 
-// GravityUpdates is the number of pressure solves of a case with depth
-// (rock.depth) that gives no run.pressure_updates or run.update_times:
-// gravity moves water across the streamlines, so they must follow.
+// GravityUpdates is the number of evenly spaced pressure solves of a case
+// with depth (rock.depth) that gives no run.pressure_updates or
+// run.update_times, merged with the change times of its schedule and
+// history: gravity moves water across the streamlines, so they must
+// follow, between the well changes too.
 const GravityUpdates = 20
 
 // Snapshot is a saturation map at one time.
@@ -203,9 +205,11 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 	// Events and openings after the end change nothing, not even the mode.
 	// RunUpdates drops them again and warns.
 	mm, late := withinRun(m)
-	if mm.HasGravity() && !needsUpdates(mm) && mm.History == nil {
+	if mm.HasGravity() && mm.Run.PressureUpdates <= 1 && len(mm.Run.UpdateTimes) == 0 {
 		// Water slumps and the total velocity follows it: a case with
-		// depth runs with pressure updates unless it asks for some.
+		// depth runs with pressure updates unless it asks for some, and
+		// with them between its schedule's or history's changes too (the
+		// slumping goes on while the wells hold their rates).
 		c := *m
 		c.Run.PressureUpdates = GravityUpdates
 		logf("the case has a depth: %d pressure updates (set run.pressure_updates to choose)", GravityUpdates)
