@@ -71,7 +71,7 @@ type HistoryWell struct {
 	CumOilError          float64 // (model - observed) / observed at the last period
 	CumWaterError        float64
 	BHPRMS               float64
-	LimitPeriods         [][2]float64 // periods in which the well was held at its BHP limit
+	LimitPeriods         [][2]float64 // spans [start, end] of consecutive periods in which the well was held at its BHP limit
 }
 
 // historyTimes returns the period starts and ends of the history of m
@@ -428,7 +428,8 @@ func (b *book) historyResult() *HistoryResult {
 		obsBT, modBT float64
 		obsOil, obsW float64
 		modOil, modW float64
-		limits       [][2]float64
+		limits       [][2]float64 // spans of consecutive periods at the limit
+		limitRows    int          // periods at the limit
 		rows         int
 		injector     bool
 	}
@@ -445,7 +446,12 @@ func (b *book) historyResult() *HistoryResult {
 		vol, bhp, lim := integrate(spans[row.Well], row.Start, row.End)
 		mr.ModBHP = bhp
 		if lim {
-			a.limits = append(a.limits, [2]float64{row.Start, row.End})
+			a.limitRows++
+			if n := len(a.limits); n > 0 && a.limits[n-1][1] == row.Start {
+				a.limits[n-1][1] = row.End // consecutive periods make one span
+			} else {
+				a.limits = append(a.limits, [2]float64{row.Start, row.End})
+			}
 		}
 		inj := typeAt(m, i, row.Start) == reservoir.Injector
 		p := b.prodOf[i]
@@ -544,10 +550,10 @@ func (b *book) historyResult() *HistoryResult {
 			}
 			if datumOf(m) > 0 {
 				b.warn(fmt.Sprintf("history: well %s was at or past its BHP limit in %d history period(s) (%s), the pressure level set by history.pressure_datum or the limit holding it: the model cannot give it the observed rate within its limit there",
-					w.Name, len(a.limits), strings.Join(ps, ", ")))
+					w.Name, a.limitRows, strings.Join(ps, ", ")))
 			} else {
 				b.warn(fmt.Sprintf("history: well %s was held at its BHP limit in %d history period(s) (%s): the model could not give it the observed rate there",
-					w.Name, len(a.limits), strings.Join(ps, ", ")))
+					w.Name, a.limitRows, strings.Join(ps, ", ")))
 			}
 		}
 		hr.Wells = append(hr.Wells, hw)

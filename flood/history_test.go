@@ -346,9 +346,12 @@ func TestHistoryControlsAndLimits(t *testing.T) {
 			inj = w
 		}
 	}
-	if len(inj.LimitPeriods) != 6 || inj.LimitPeriods[0] != [2]float64{0, 31} {
-		t.Errorf("I-1 limit periods %v, want the 6 months from [0 31]", inj.LimitPeriods)
+	// Six consecutive months at the limit (2020-01-01 to 2020-06-30: day
+	// 0 to 182) make one span.
+	if len(inj.LimitPeriods) != 1 || inj.LimitPeriods[0] != [2]float64{0, 182} {
+		t.Errorf("I-1 limit periods %v, want the one span [0 182] of the 6 months", inj.LimitPeriods)
 	}
+
 	// The model injects less than observed: a negative cumulative error.
 	if !(inj.CumWaterError < -0.1) {
 		t.Errorf("I-1 cumulative water error %g", inj.CumWaterError)
