@@ -24,25 +24,29 @@ func (b *builder) maps(lowFlow []bool) *Result {
 		ProducerPartition: make([]int, n),
 		Stagnant:          make([]bool, n),
 	}
-	if b.volumesOnly {
-		return b.volumes(r, lowFlow)
+	only := b.volumesOnly // Settings.VolumesOnly: no time-of-flight maps, no injector partition
+	if !only {
+		r.TOF, r.BackTOF, r.Travel = make([]float64, n), make([]float64, n), make([]float64, n)
+		r.InjectorPartition = make([]int, n)
 	}
-	r.TOF, r.BackTOF, r.Travel = make([]float64, n), make([]float64, n), make([]float64, n)
-	r.InjectorPartition = make([]int, n)
 	// Weights: wF of the lines from an injector, wB of the lines to a
 	// producer, wT of the lines with both. The lines with flux all end at
 	// a producer (assignFluxes gives the others none), so wB is the traced
 	// volume and wT is wF: the same terms in the same order. Only when
 	// that does not hold are they summed apart.
-	wF := make([]float64, n)
-	wB, wT := r.Volume, wF
-	for i := range b.lines {
-		if b.lines[i].Flux > 0 && b.lines[i].Producer < 0 {
-			wB, wT = make([]float64, n), make([]float64, n)
-			break
+	var wF, wB, wT []float64
+	apart := false
+	if !only {
+		wF = make([]float64, n)
+		wB, wT = r.Volume, wF
+		for i := range b.lines {
+			if b.lines[i].Flux > 0 && b.lines[i].Producer < 0 {
+				wB, wT = make([]float64, n), make([]float64, n)
+				apart = true
+				break
+			}
 		}
 	}
-	apart := &wT[0] != &wF[0]
 	nan := math.NaN()
 	injOrder := b.byWell(func(l *Line) int { return l.Injector })
 	prodOrder := b.byWell(func(l *Line) int { return l.Producer })
@@ -54,8 +58,10 @@ func (b *builder) maps(lowFlow []bool) *Result {
 			lo, hi := bound(task - ranges)
 			best := make([]float64, hi-lo)
 			acc := make([]float64, hi-lo)
-			b.partition(r.InjectorPartition, injOrder, lo, hi, best, acc)
-			clear(best)
+			if !only {
+				b.partition(r.InjectorPartition, injOrder, lo, hi, best, acc)
+				clear(best)
+			}
 			b.partition(r.ProducerPartition, prodOrder, lo, hi, best, acc)
 			return
 		}
@@ -71,6 +77,12 @@ func (b *builder) maps(lowFlow []bool) *Result {
 			tau := taus[start[i]:start[i+1]]
 			tau = tau[:len(seg)]
 			switch {
+			case only:
+				for m, c := range seg {
+					if c >= lo && c < hi {
+						r.Volume[c] += q * tau[m]
+					}
+				}
 			case !apart && l.Injector >= 0:
 				for m, c := range seg {
 					tm := tau[m]
@@ -121,47 +133,11 @@ func (b *builder) maps(lowFlow []bool) *Result {
 			}
 		}
 		for k := int(lo); k < int(hi); k++ {
-			r.TOF[k] = ratio(r.TOF[k], wF[k], nan)
-			r.BackTOF[k] = ratio(r.BackTOF[k], wB[k], nan)
-			r.Travel[k] = ratio(r.Travel[k], wT[k], nan)
-			r.Stagnant[k] = t.isActive(k) && (lowFlow[k] || !(r.Volume[k] > 0))
-		}
-	})
-	return r
-}
-
-// volumes fills r's Volume, Stagnant and ProducerPartition alone
-// (Settings.VolumesOnly): the same sums in the same order as maps.
-func (b *builder) volumes(r *Result, lowFlow []bool) *Result {
-	t := b.t
-	n := t.g.N()
-	prodOrder := b.byWell(func(l *Line) int { return l.Producer })
-	ranges := max(1, b.workers)
-	bound := func(rg int) (int32, int32) { return int32(rg * n / ranges), int32((rg + 1) * n / ranges) }
-	cells, taus, start := b.cells, b.taus, b.start
-	parallel.Each(2*ranges, b.workers, 1, func(_, task int) {
-		if task >= ranges {
-			lo, hi := bound(task - ranges)
-			b.partition(r.ProducerPartition, prodOrder, lo, hi, make([]float64, hi-lo), make([]float64, hi-lo))
-			return
-		}
-		lo, hi := bound(task)
-		for i := range b.lines {
-			l := &b.lines[i]
-			if !(l.Flux > 0) || b.hi[i] < lo || b.lo[i] >= hi {
-				continue
+			if !only {
+				r.TOF[k] = ratio(r.TOF[k], wF[k], nan)
+				r.BackTOF[k] = ratio(r.BackTOF[k], wB[k], nan)
+				r.Travel[k] = ratio(r.Travel[k], wT[k], nan)
 			}
-			q := l.Flux
-			seg := cells[start[i]:start[i+1]]
-			tau := taus[start[i]:start[i+1]]
-			tau = tau[:len(seg)]
-			for m, c := range seg {
-				if c >= lo && c < hi {
-					r.Volume[c] += q * tau[m]
-				}
-			}
-		}
-		for k := int(lo); k < int(hi); k++ {
 			r.Stagnant[k] = t.isActive(k) && (lowFlow[k] || !(r.Volume[k] > 0))
 		}
 	})
