@@ -85,17 +85,23 @@ func pressureRegions(m *reservoir.Model) []int {
 // atmospheric pressure), an open injector above its max_bhp. wells are
 // the wells in force at the solve. Without a datum, or without a relative
 // region, nothing changes and nil is returned.
-func applyDatum(m *reservoir.Model, sol *pressure.Solution, wells []reservoir.Well) (datum, limit []bool) {
+//
+// Where the datum's level would leave a pressure below atmospheric in a
+// region (an open well's BHP or a cell's pressure: the observed rates
+// cannot be made at that average pressure), the region's level is raised
+// until its lowest pressure is atmospheric, and notes says so, naming the
+// well or cell and the day t: the physics holds, the datum does not.
+func applyDatum(m *reservoir.Model, sol *pressure.Solution, wells []reservoir.Well, t float64) (datum, limit []bool, notes []string) {
 	p0 := datumOf(m)
 	if !(p0 > 0) {
-		return nil, nil
+		return nil, nil, nil
 	}
 	any := false
 	for _, w := range sol.Wells {
 		any = any || w.Relative
 	}
 	if !any {
-		return nil, nil
+		return nil, nil, nil
 	}
 	lab := pressureRegions(m)
 	nreg := 0
@@ -123,13 +129,38 @@ func applyDatum(m *reservoir.Model, sol *pressure.Solution, wells []reservoir.We
 			shift[l] = p0 - sum[l]/pv[l]
 		}
 	}
+	// The lowest pressure of each region at the datum's level, and what
+	// holds it.
+	atm := m.Units.Atmospheric()
+	low := make([]float64, nreg)
+	what := make([]string, nreg)
+	for l := range low {
+		low[l] = math.Inf(1)
+	}
+	for k, l := range lab {
+		if l >= 0 && rel[l] && !math.IsNaN(sol.P[k]) && sol.P[k]+shift[l] < low[l] {
+			low[l], what[l] = sol.P[k]+shift[l], reservoir.CellLabel(k%m.Grid.NX, k/m.Grid.NX)
+		}
+	}
+	for i, w := range sol.Wells {
+		if l := lab[w.Cell]; w.Relative && l >= 0 && !w.Shut && w.Q != 0 && i < len(wells) && w.BHP+shift[l] < low[l] {
+			low[l], what[l] = w.BHP+shift[l], "well "+w.Name
+		}
+	}
+	_, _, _, _, pres, _ := m.Units.Labels()
+	for l := range shift {
+		if rel[l] && low[l] < atm {
+			notes = append(notes, fmt.Sprintf("history: at the pressure_datum of %g %s, %s would be at %.1f %s on day %g, below atmospheric: the observed rates cannot be made at that average pressure, so the pressure level there was raised by %.1f %s (%s at atmospheric pressure)",
+				p0, pres, what[l], low[l], pres, math.Round(t*100)/100, atm-low[l], pres, what[l]))
+			shift[l] += atm - low[l]
+		}
+	}
 	for k, l := range lab {
 		if l >= 0 && rel[l] && !math.IsNaN(sol.P[k]) {
 			sol.P[k] += shift[l]
 		}
 	}
 	datum, limit = make([]bool, len(sol.Wells)), make([]bool, len(sol.Wells))
-	atm := m.Units.Atmospheric()
 	for i := range sol.Wells {
 		w := &sol.Wells[i]
 		if !w.Relative || lab[w.Cell] < 0 {
@@ -152,7 +183,7 @@ func applyDatum(m *reservoir.Model, sol *pressure.Solution, wells []reservoir.We
 			limit[i] = cw.MaxBHP > 0 && w.BHP > cw.MaxBHP
 		}
 	}
-	return datum, limit
+	return datum, limit, notes
 }
 
 // datumWarning reports whether a warning of the pressure solve is one

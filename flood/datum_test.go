@@ -16,8 +16,9 @@ import (
 // the pore-volume-weighted average pressure of the first solve equals
 // the datum, every well gets a model BHP in match.csv and a bhp_rms, the
 // BHP differences between wells and the water cuts are those of the run
-// without a datum (the constant moves no flow), and a datum low enough
-// to put the producer below its min_bhp reports limit periods.
+// without a datum (the constant moves no flow), a datum low enough
+// to put the producer below its min_bhp reports limit periods, and one so
+// low that the producer would need a negative BHP is refused.
 func TestPressureDatum(t *testing.T) {
 	dir := t.TempDir()
 	base := historyCase(t, dir, "start_date: 2020-01-01\n")
@@ -59,7 +60,7 @@ func TestPressureDatum(t *testing.T) {
 	for _, c := range []struct {
 		datum   float64
 		limited bool // the producer below its min_bhp of 50 psi
-	}{{3000, false}, {40, true}} {
+	}{{3000, false}, {640, true}} {
 		r := run(fmt.Sprint(c.datum))
 		m := r.Model
 		sum, pv := 0.0, 0.0
@@ -121,5 +122,44 @@ func TestPressureDatum(t *testing.T) {
 			t.Errorf("datum %g: limit warning %v, want %v: %q", c.datum, warned, c.limited, r.Warnings)
 		}
 		t.Logf("datum %g: producer BHP on day 0 %.1f, bhp_rms %.1f, %d limit periods", c.datum, got["P-1@0"], r.History.Field.BHPRMS, len(prod.LimitPeriods))
+	}
+	// A datum of 40 psi would put the producer at -350 psi on day 0 (and
+	// -564 psi on day 366, measured above as 640 - 604): the observed rates
+	// cannot be made at that average pressure. The level is raised until
+	// the lowest pressure is atmospheric (14.7 psi, common practice), with
+	// a warning naming the well; the BHP differences and the water cuts
+	// stay those of the run without a datum, and no pressure is negative.
+	low := run("40")
+	atm := low.Model.Units.Atmospheric()
+	lowBHP := bhpAt(low)
+	minBHP := math.Inf(1)
+	for _, x := range low.WellLog {
+		minBHP = math.Min(minBHP, x.BHP)
+		other := "P-1"
+		if x.Well == "P-1" {
+			other = "I-1"
+		}
+		k, o := fmt.Sprintf("%s@%g", x.Well, x.Time), fmt.Sprintf("%s@%g", other, x.Time)
+		if d, d0 := lowBHP[k]-lowBHP[o], relBHP[k]-relBHP[o]; math.Abs(d-d0) > 1e-6*math.Max(1, math.Abs(d0)) {
+			t.Errorf("datum 40 day %g: BHP difference %s - %s %g, without datum %g", x.Time, x.Well, other, d, d0)
+		}
+	}
+	if math.Abs(minBHP-atm) > 1e-6 {
+		t.Errorf("datum 40: lowest BHP %g, want atmospheric %g", minBHP, atm)
+	}
+	for k, p := range low.Pressure.P {
+		if low.Model.Active[k] && p < atm-1e-6 {
+			t.Errorf("datum 40: cell %d pressure %g below atmospheric", k, p)
+		}
+	}
+	raised := false
+	for _, w := range low.Warnings {
+		raised = raised || strings.Contains(w, "pressure_datum of 40 psi, well P-1 would be at -") && strings.Contains(w, "raised by")
+	}
+	if !raised {
+		t.Errorf("datum 40: no warning that the level was raised for P-1: %q", low.Warnings)
+	}
+	if !slices.Equal(low.Producers[0].WaterCut, rel.Producers[0].WaterCut) {
+		t.Error("datum 40: the water cuts changed")
 	}
 }

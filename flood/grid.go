@@ -298,7 +298,10 @@ func (g *gridRun) solve(t float64, retrace bool) error {
 	r.Solves++
 	r.Iterations += sol.Iterations
 	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
-	datum, limit := applyDatum(m, sol, g.wells)
+	datum, limit, notes := applyDatum(m, sol, g.wells, t)
+	for _, n := range notes {
+		g.warnAt(t, n)
+	}
 	for _, w := range sol.Warnings {
 		if datum != nil && datumWarning(w) {
 			continue // answered by the pressure datum

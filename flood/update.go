@@ -412,7 +412,10 @@ func (u *updateRun) solve(t float64) (*pressure.Solution, error) {
 	r.Solves++
 	r.Iterations += sol.Iterations
 	r.RelResidual = math.Max(r.RelResidual, sol.RelResidual)
-	datum, limit := applyDatum(m, sol, u.wells)
+	datum, limit, notes := applyDatum(m, sol, u.wells, t)
+	for _, n := range notes {
+		u.warnAt(t, n)
+	}
 	for _, w := range sol.Warnings {
 		if datum != nil && datumWarning(w) {
 			continue // answered by the pressure datum
