@@ -212,7 +212,7 @@ func Run(m *reservoir.Model, s Settings) (*Result, error) {
 		// slumping goes on while the wells hold their rates).
 		c := *m
 		c.Run.PressureUpdates = GravityUpdates
-		logf("the case has a depth: %d pressure updates (set run.pressure_updates to choose)", GravityUpdates)
+		logf("the case has a depth: %d pressure updates besides its well changes (fixed streamlines cannot carry gravity; set run.pressure_updates above 1 or run.update_times to choose)", GravityUpdates)
 		return RunUpdates(&c, s, s.Updates)
 	}
 	if needsUpdates(mm) || mm.History != nil {
