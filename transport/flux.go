@@ -105,19 +105,7 @@ func NewFlux(c Curve) (*Flux, error) {
 // the clamp is here, once, so that the transport of Advance and every
 // caller's bookkeeping see the same value and water is conserved.
 func (fl *Flux) Fw(s float64) float64 {
-	x := s * fluxIntervals
-	var v float64
-	switch {
-	case !(x > 0):
-		v = fl.f[0]
-	case x >= fluxIntervals:
-		v = fl.f[fluxIntervals]
-	default:
-		k := int(x)
-		t := x - float64(k)
-		c := &fl.poly[k]
-		v = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
-	}
+	v := fl.cubic(s)
 	if v < 0 {
 		return 0
 	}
@@ -125,6 +113,23 @@ func (fl *Flux) Fw(s float64) float64 {
 		return 1
 	}
 	return v
+}
+
+// cubic is Fw without its clamp to [0, 1]: the end values outside the
+// table, the interval's cubic inside. Small enough to be inlined into the
+// transport sweeps.
+func (fl *Flux) cubic(s float64) float64 {
+	x := s * fluxIntervals
+	switch {
+	case !(x > 0):
+		return fl.f[0]
+	case x >= fluxIntervals:
+		return fl.f[fluxIntervals]
+	}
+	k := int(x)
+	t := x - float64(k)
+	c := &fl.poly[k&(fluxIntervals-1)] // k < fluxIntervals: no bounds check
+	return c[0] + t*(c[1]+t*(c[2]+t*c[3]))
 }
 
 // DFw returns the slope of the interpolant at s (0 outside [0, 1]).

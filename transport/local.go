@@ -113,47 +113,15 @@ func (w *Workspace) upwindLocal(s, dtau []float64, sInj, dt float64, fl *Flux, s
 func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []float64, clamp bool) (lo, hi float64) {
 	n := len(s)
 	r := w.ratio[:n]
-	f0, f1 := fl.f[0], fl.f[fluxIntervals]
 	lo, hi = s[n-1], s[n-1]
 	for k := range hist {
 		last := s[n-1]
 		lo, hi = min(lo, last), max(hi, last)
-		// fl.Fw(last), written out.
-		x := last * fluxIntervals
-		var fr float64
-		switch {
-		case !(x > 0):
-			fr = f0
-		case x >= fluxIntervals:
-			fr = f1
-		default:
-			k := int(x)
-			t := x - float64(k)
-			c := &fl.poly[k]
-			fr = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
-		}
-		if fr < 0 {
-			fr = 0
-		}
-		if fr > 1 {
-			fr = 1
-		}
+		fr := fl.Fw(last)
 		hist[k] = fr
 		for i := n - 1; i > 0; i-- {
-			// fl.Fw(s[i-1]), written out, as in upwind.
-			x := s[i-1] * fluxIntervals
-			var fi float64
-			switch {
-			case !(x > 0):
-				fi = f0
-			case x >= fluxIntervals:
-				fi = f1
-			default:
-				k := int(x)
-				t := x - float64(k)
-				c := &fl.poly[k&(fluxIntervals-1)] // k < fluxIntervals: no bounds check
-				fi = c[0] + t*(c[1]+t*(c[2]+t*c[3]))
-			}
+			// fl.Fw(s[i-1]) with its table part inlined, as in upwind.
+			fi := fl.cubic(s[i-1])
 			if clamp {
 				if fi < 0 {
 					fi = 0
