@@ -129,23 +129,21 @@ var (
 )
 
 func makePow10Table() {
-	one, ten := big.NewInt(1), big.NewInt(10)
-	lim := new(big.Rat).SetInt(new(big.Int).Lsh(one, 128))
-	two := big.NewRat(2, 1)
-	mask := new(big.Int).Sub(new(big.Int).Lsh(one, 64), one)
+	ten := big.NewInt(10)
+	mask := new(big.Int).Sub(new(big.Int).Lsh(big.NewInt(1), 64), big.NewInt(1))
+	d := new(big.Int)
 	for e := -pow10Range; e <= pow10Range; e++ {
 		p := new(big.Int).Exp(ten, big.NewInt(int64(abs(e))), nil)
-		r := new(big.Rat).SetInt(p)
-		if e < 0 {
-			r.SetFrac(one, p)
+		l := p.BitLen() // 2^(l-1) <= p < 2^l
+		switch {
+		case e >= 0 && l <= 128:
+			d.Lsh(p, uint(128-l)) // p * 2^(128-l) is in [2^127, 2^128)
+		case e >= 0:
+			d.Rsh(p, uint(l-128))
+		default:
+			// 2^(127+l) / p is in (2^127, 2^128) when p is not a power of 2.
+			d.Quo(new(big.Int).Lsh(big.NewInt(1), uint(127+l)), p)
 		}
-		for r.Cmp(lim) < 0 {
-			r.Mul(r, two)
-		}
-		for r.Cmp(lim) >= 0 {
-			r.Quo(r, two)
-		}
-		d := new(big.Int).Quo(r.Num(), r.Denom())
 		lo := new(big.Int).And(d, mask).Uint64()
 		hi := new(big.Int).Rsh(d, 64).Uint64()
 		pow10Table[e+pow10Range] = [2]uint64{hi, lo}
