@@ -2,6 +2,7 @@ package render
 
 import (
 	"bytes"
+	"hash/adler32"
 	"image"
 	"image/color"
 	"image/png"
@@ -34,6 +35,9 @@ func TestEncodeRGBARoundTrip(t *testing.T) {
 		{"opaque", pattern(image.Rect(0, 0, 37, 20), func(x, y int) uint8 { return 255 })},
 		{"translucent", pattern(image.Rect(0, 0, 23, 17), func(x, y int) uint8 { return uint8((x * 29) % 256) })},
 		{"offset", pattern(image.Rect(5, 7, 30, 19), func(x, y int) uint8 { return 255 })},
+		// Taller than a strip: three strips joined, the last one short.
+		{"strips", pattern(image.Rect(0, 0, 41, 2*stripRows+37), func(x, y int) uint8 { return 255 })},
+		{"strips translucent", pattern(image.Rect(0, 3, 19, 3+stripRows+1), func(x, y int) uint8 { return uint8(255 - y%7) })},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			var b bytes.Buffer
@@ -69,5 +73,24 @@ func TestEncodeRGBARoundTrip(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestAdler32Combine checks the combination of two checksums against
+// hash/adler32 over the joined bytes (RFC 1950), for lengths around the
+// modulus 65521 and data of all 0xff (the largest sums).
+func TestAdler32Combine(t *testing.T) {
+	for _, tc := range []struct{ na, nb int }{{0, 0}, {0, 5}, {7, 0}, {1, 1}, {1000, 65520}, {65521, 65521}, {300000, 70000}} {
+		for _, fill := range []byte{0x00, 0x5a, 0xff} {
+			a := bytes.Repeat([]byte{fill}, tc.na)
+			b := make([]byte, tc.nb)
+			for i := range b {
+				b[i] = fill ^ byte(i*31)
+			}
+			got := adler32Combine(adler32.Checksum(a), adler32.Checksum(b), int64(len(b)))
+			if want := adler32.Checksum(append(a, b...)); got != want {
+				t.Errorf("%d+%d bytes of %#x: combined %#08x, want %#08x", tc.na, tc.nb, fill, got, want)
+			}
+		}
 	}
 }
