@@ -121,28 +121,35 @@ func (b *builder) assignFluxes() []string {
 	// Iterative proportional fitting (Deming and Stephan 1940): alternately
 	// scale the lines of each producer to its rate and the lines of each
 	// injector face to its launch flux, ending on the producers.
+	// The passes run over compact copies of each line's producer, group
+	// and flux (the Line structs are large), in line order as before.
 	np := len(t.q)
 	sumP := make([]float64, np)
 	sumI := make([]float64, len(injTarget))
+	prod := make([]int32, len(lines))
+	flux := make([]float64, len(lines))
+	for i := range lines {
+		prod[i], flux[i] = int32(lines[i].Producer), lines[i].Flux
+	}
 	scaleProducers := func() {
 		clear(sumP)
-		for i := range lines {
-			if p := lines[i].Producer; p >= 0 {
-				sumP[p] += lines[i].Flux
+		for i, p := range prod {
+			if p >= 0 {
+				sumP[p] += flux[i]
 			}
 		}
-		for i := range lines {
-			if p := lines[i].Producer; p >= 0 && sumP[p] > 0 {
-				lines[i].Flux *= -t.q[p] / sumP[p]
+		for i, p := range prod {
+			if p >= 0 && sumP[p] > 0 {
+				flux[i] *= -t.q[p] / sumP[p]
 			}
 		}
 	}
 	for it := 0; ; it++ {
 		scaleProducers()
 		clear(sumI)
-		for i := range lines {
-			if g := injGroup[i]; g >= 0 {
-				sumI[g] += lines[i].Flux
+		for i, g := range injGroup {
+			if g >= 0 {
+				sumI[g] += flux[i]
 			}
 		}
 		dev := 0.0
@@ -164,11 +171,14 @@ func (b *builder) assignFluxes() []string {
 			}
 			break
 		}
-		for i := range lines {
-			if g := injGroup[i]; g >= 0 && sumI[g] > 0 {
-				lines[i].Flux *= injTarget[g] / sumI[g]
+		for i, g := range injGroup {
+			if g >= 0 && sumI[g] > 0 {
+				flux[i] *= injTarget[g] / sumI[g]
 			}
 		}
+	}
+	for i := range lines {
+		lines[i].Flux = flux[i]
 	}
 	for p, v := range sumP {
 		if t.q[p] < 0 && !(v > 0) {
