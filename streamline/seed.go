@@ -192,6 +192,7 @@ func (b *builder) fill(lowFlow []bool) {
 			ptr++
 		}
 		if ptr == len(cand) {
+			b.flush()
 			return
 		}
 		batch = batch[:0]

@@ -31,7 +31,14 @@ type builder struct {
 	expect int
 	// volumesOnly: Settings.VolumesOnly.
 	volumesOnly bool
+	// pending are the copies from the block buffers into the flat storage
+	// that commit has reserved room for and flush makes, in parallel.
+	pending []pendingCopy
 }
+
+// pendingCopy is one line's copy from worker w's block buffers, [src,
+// src+n), to the flat storage at dst.
+type pendingCopy struct{ w, src, dst, n int }
 
 // worker is the scratch space of one goroutine: the two halves of the line
 // it traces and the joined lines of the current block.
@@ -84,12 +91,14 @@ func (b *builder) trace(seeds []seed) {
 			b.commit(&out[i])
 		}
 	}
+	b.flush()
 }
 
 // traceBlock traces the seeds in parallel into the workers' block buffers
 // and returns the lines, in seed order. They stay valid until the next
 // call.
 func (b *builder) traceBlock(seeds []seed) []traced {
+	b.flush() // the block buffers are about to be reused
 	for w := range b.work {
 		b.work[w].cells, b.work[w].taus = b.work[w].cells[:0], b.work[w].taus[:0]
 	}
@@ -110,11 +119,11 @@ func (b *builder) cellsOf(tr *traced) []int32 {
 	return b.work[tr.w].cells[tr.off : tr.off+tr.n]
 }
 
-// commit appends a traced line to the lines and its cells and times of
-// flight to the flat storage.
+// commit appends a traced line to the lines and reserves room for its
+// cells and times of flight in the flat storage; flush copies them.
 func (b *builder) commit(tr *traced) {
-	wk := &b.work[tr.w]
 	if need := len(b.cells) + tr.n; need > cap(b.cells) {
+		b.flush()
 		// A fresh array of the expected final size, or half as large again
 		// as the old one when the expectation falls short; the old one is
 		// garbage.
@@ -128,8 +137,9 @@ func (b *builder) commit(tr *traced) {
 		copy(taus, b.taus)
 		b.cells, b.taus = cells, taus
 	}
-	b.cells = append(b.cells, wk.cells[tr.off:tr.off+tr.n]...)
-	b.taus = append(b.taus, wk.taus[tr.off:tr.off+tr.n]...)
+	dst := len(b.cells)
+	b.cells, b.taus = b.cells[:dst+tr.n], b.taus[:dst+tr.n]
+	b.pending = append(b.pending, pendingCopy{w: tr.w, src: tr.off, dst: dst, n: tr.n})
 	b.start = append(b.start, len(b.cells))
 	b.lines = append(b.lines, tr.line)
 	b.meta = append(b.meta, tr.meta)
@@ -138,9 +148,29 @@ func (b *builder) commit(tr *traced) {
 	tr.line = Line{}
 }
 
+// flush makes the pending copies into the flat storage, on the workers:
+// at the end of a block they were the largest serial step of a trace.
+func (b *builder) flush() {
+	if len(b.pending) == 0 {
+		return
+	}
+	workers := b.workers
+	if segs := len(b.cells) - b.pending[0].dst; segs < 1<<15 {
+		workers = 1 // a fill batch: not worth the goroutines
+	}
+	parallel.Each(len(b.pending), workers, 0, func(_, i int) {
+		p := b.pending[i]
+		wk := &b.work[p.w]
+		copy(b.cells[p.dst:p.dst+p.n], wk.cells[p.src:p.src+p.n])
+		copy(b.taus[p.dst:p.dst+p.n], wk.taus[p.src:p.src+p.n])
+	})
+	b.pending = b.pending[:0]
+}
+
 // finish hands the flat storage to the result and makes the lines' Cells
 // and Tau views of it.
 func (b *builder) finish(r *Result) {
+	b.flush()
 	r.flat = &flatLines{cells: b.cells, taus: b.taus, start: b.start}
 	for i := range r.Lines {
 		a, e := b.start[i], b.start[i+1]
