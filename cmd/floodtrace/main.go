@@ -66,8 +66,9 @@ const (
 
 func main() {
 	// Back the heap with huge pages (see internal/hugeheap): page faults
-	// were a quarter of the CPU time of a run at a million cells.
-	hugeheap.Reserve(1 << 30)
+	// were a quarter of the CPU time of a run at a million cells. The
+	// commands that load a case reserve more once they know its size.
+	hugeheap.Reserve(64 << 20)
 	os.Exit(runMain(os.Args[1:], os.Stdout, os.Stderr))
 }
 

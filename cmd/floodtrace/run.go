@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"floodtrace/flood"
+	"floodtrace/internal/hugeheap"
 	"floodtrace/internal/outdir"
 	"floodtrace/render"
 	"floodtrace/reservoir"
@@ -152,6 +153,7 @@ func runRun(args []string) error {
 		return err
 	}
 	logf("case %s: %d x %d cells, %d wells", args[0], m.Grid.NX, m.Grid.NY, len(m.Wells))
+	hugeheap.Reserve(64<<20 + hugeheap.PerCell*m.Grid.N())
 	if runFlags.updates > 0 {
 		m.Run.PressureUpdates, m.Run.UpdateTimes = runFlags.updates, nil
 	}

@@ -8,10 +8,12 @@
 // system's transparent-huge-page mode is "madvise" (the usual default),
 // the Go runtime does not ask for huge pages itself, so the heap is
 // faulted in 4 KiB pages. Reserve grows the heap by one large block,
-// marks it with madvise(MADV_HUGEPAGE), and frees it: later allocations
-// reuse those addresses, and the kernel backs each 2 MiB of them with one
-// fault. Nothing is touched by Reserve itself, so the resident memory
-// does not grow; the peak of a run is unchanged within 1%.
+// marks it with madvise(MADV_HUGEPAGE), and frees it (returning it to the
+// system at once, so that the runtime does not release it page by page
+// later): later allocations reuse those addresses, and the kernel backs
+// each 2 MiB of them with one fault. Nothing is touched by Reserve
+// itself, so the resident memory does not grow; the peak of a run is
+// unchanged within 1%.
 //
 // On other systems, or with FLOODTRACE_HUGEPAGES=off in the environment,
 // Reserve does nothing. Results do not depend on it.

@@ -2,6 +2,7 @@ package hugeheap
 
 import (
 	"runtime"
+	"runtime/debug"
 	"syscall"
 	"unsafe"
 )
@@ -26,6 +27,9 @@ func reserve(n int) {
 	runtime.KeepAlive(b)
 	b = nil
 	// Free the block now, so that the heap's goal is set by what the
-	// command keeps, not by the block.
-	runtime.GC()
+	// command keeps, not by the block, and hand its pages back to the
+	// system in a few large calls (the runtime's background scavenger
+	// would release them in 64 KiB calls while the command runs). The
+	// marks stay on the addresses.
+	debug.FreeOSMemory()
 }
