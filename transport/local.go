@@ -119,19 +119,21 @@ func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []f
 		lo, hi = min(lo, last), max(hi, last)
 		fr := fl.Fw(last)
 		hist[k] = fr
-		for i := n - 1; i > 0; i-- {
-			// fl.Fw(s[i-1]) with its table part inlined, as in upwind.
-			fi := fl.cubic(s[i-1])
-			if clamp {
-				if fi < 0 {
-					fi = 0
-				}
-				if fi > 1 {
-					fi = 1
-				}
+		// fl.Fw(s[i-1]) with its table part inlined, as in upwind; the
+		// loop without the clamp is written apart, for the compiler to
+		// leave the test out of it.
+		if clamp {
+			for i := n - 1; i > 0; i-- {
+				fi := min(max(fl.cubic(s[i-1]), 0), 1)
+				s[i] -= r[i] * (fr - fi)
+				fr = fi
 			}
-			s[i] -= r[i] * (fr - fi)
-			fr = fi
+		} else {
+			for i := n - 1; i > 0; i-- {
+				fi := fl.cubic(s[i-1])
+				s[i] -= r[i] * (fr - fi)
+				fr = fi
+			}
 		}
 		s[0] -= r[0] * (fr - fin[k])
 	}
