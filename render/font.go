@@ -67,7 +67,9 @@ func (f *faces) get(st fontStyle, px float64) font.Face {
 		// is a build defect, not an input error.
 		panic(err)
 	}
-	fc := truetype.NewFace(tf, &truetype.Options{Size: float64(key[1]) / 4, DPI: 72, Hinting: font.HintingNone})
+	// A picture sets a few dozen distinct glyphs per face: 64 cache entries
+	// (the default 512 cost 7 MB of masks a picture, each one drawn anew).
+	fc := truetype.NewFace(tf, &truetype.Options{Size: float64(key[1]) / 4, DPI: 72, Hinting: font.HintingNone, GlyphCacheEntries: 64})
 	f.m[key] = fc
 	return fc
 }
