@@ -3,6 +3,7 @@ package transport
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 )
 
@@ -196,5 +197,40 @@ func TestClampFree(t *testing.T) {
 		if compared < 10 {
 			t.Errorf("only %d clamp-free zones compared", compared)
 		}
+	}
+}
+
+// TestLocalRejectsBadSegments: local time stepping refuses a saturation
+// outside [0, 1] (or NaN) and a time of flight that is not positive and
+// finite, naming the first bad segment, in whichever zone it lies.
+func TestLocalRejectsBadSegments(t *testing.T) {
+	fl, err := NewFlux(sandstone())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name  string
+		seg   int
+		s, h  float64
+		wants string
+	}{
+		{"saturation above 1", 3, 1.5, 1, "saturation 1.5 of segment 3 outside [0, 1]"},
+		{"negative saturation, second zone", 11, -0.1, 1, "saturation -0.1 of segment 11 outside [0, 1]"},
+		{"NaN saturation", 20, math.NaN(), 1, "saturation NaN of segment 20 outside [0, 1]"},
+		{"zero time of flight", 5, 0.3, 0, "segment 5 has time of flight 0"},
+		{"infinite time of flight", 17, 0.3, math.Inf(1), "segment 17 has time of flight +Inf"},
+		{"NaN time of flight", 9, 0.3, math.NaN(), "segment 9 has time of flight NaN"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			s, h := make([]float64, 24), make([]float64, 24)
+			for i := range s {
+				s[i], h[i] = 0.2, 1
+			}
+			s[tc.seg], h[tc.seg] = tc.s, tc.h
+			_, _, err := Advance(s, h, 0.8, 0.5, fl, Settings{Local: true})
+			if err == nil || !strings.Contains(err.Error(), tc.wants) {
+				t.Errorf("error %v, want one containing %q", err, tc.wants)
+			}
+		})
 	}
 }
