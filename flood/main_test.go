@@ -1,16 +1,11 @@
 package flood
 
 import (
-	"os"
 	"testing"
 
-	"floodtrace/internal/hugeheap"
+	"floodtrace/internal/hugeheap/hugeheaptest"
 )
 
-// TestMain backs the heap with huge pages as the command does at its
-// start (cmd/floodtrace, internal/hugeheap), so that the benchmarks time
-// what a run of the command costs.
-func TestMain(m *testing.M) {
-	hugeheap.Reserve(512 << 20)
-	os.Exit(m.Run())
-}
+// TestMain backs the heap with huge pages as the command does, so that the
+// benchmarks time what a run of the command costs.
+func TestMain(m *testing.M) { hugeheaptest.Main(m) }
