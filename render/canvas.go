@@ -208,9 +208,17 @@ func (c *mapCanvas) clipMap() {
 // faults draws each fault as a bold dark line on a white casing, so it
 // reads on light and dark colours alike.
 func (c *mapCanvas) faults(onDark bool) {
+	drawn := false
+	for _, tr := range c.s.Faults {
+		drawn = drawn || len(tr) >= 2
+	}
 	dc := c.dc
 	s := c.l.S
-	c.clipMap()
+	if drawn {
+		// The clip mask is a full-canvas raster: made only when there is
+		// something to draw.
+		c.clipMap()
+	}
 	for pass := range 2 {
 		for _, tr := range c.s.Faults {
 			if len(tr) < 2 {
@@ -239,9 +247,15 @@ func (c *mapCanvas) faults(onDark bool) {
 		}
 		dc.SetLineCapRound()
 		dc.SetLineJoinRound()
-		dc.Stroke()
+		if drawn {
+			dc.Stroke()
+		} else {
+			dc.ClearPath()
+		}
 	}
-	dc.ResetClip()
+	if drawn {
+		dc.ResetClip()
+	}
 }
 
 // symbolRadius is the radius of a well symbol.
