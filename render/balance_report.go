@@ -2,6 +2,7 @@ package render
 
 import (
 	"html/template"
+	"sync"
 )
 
 // BalanceRow is one injector's row of the balance report, formatted by
@@ -36,13 +37,14 @@ func WriteBalanceReport(dir string, rep BalanceReport, files []string) (string, 
 	if err != nil {
 		return "", err
 	}
-	return writePage(dir, balanceTemplate, struct {
+	return writePage(dir, balanceTemplate(), struct {
 		BalanceReport
 		Figures []pageFigure
 	}{rep, figs}, "balance")
 }
 
-var balanceTemplate = template.Must(template.New("balance").Parse(`` + pageHead("injection balance") + `<body><main>
+var balanceTemplate = sync.OnceValue(func() *template.Template {
+	return template.Must(template.New("balance").Parse(`` + pageHead("injection balance") + `<body><main>
 <header><div class="kicker">Injection balance</div><h1>{{.Title}}</h1>
 {{range .Headline}}<div>{{.}}</div>{{end}}</header>
 <section><h2>Injectors</h2>
@@ -57,3 +59,4 @@ var balanceTemplate = template.Must(template.New("balance").Parse(`` + pageHead(
 <section><h2>Method</h2>{{range .Method}}<p>{{.}}</p>{{end}}</section>
 </main></body></html>
 `))
+})

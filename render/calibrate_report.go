@@ -6,6 +6,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"sync"
 )
 
 // colChangeLines is the colour of the streamlines over the change map:
@@ -134,13 +135,14 @@ func WriteCalibrationReport(dir string, rep CalibrationReport, files []string) (
 	if err != nil {
 		return "", err
 	}
-	return writePage(dir, calibrationTemplate, struct {
+	return writePage(dir, calibrationTemplate(), struct {
 		CalibrationReport
 		Figures []pageFigure
 	}{rep, figs}, "calibration")
 }
 
-var calibrationTemplate = template.Must(template.New("calibration").Parse(`` + pageHead("calibration") + `<body><main>
+var calibrationTemplate = sync.OnceValue(func() *template.Template {
+	return template.Must(template.New("calibration").Parse(`` + pageHead("calibration") + `<body><main>
 <header><div class="kicker">Calibration to the history</div><h1>{{.Title}}</h1>
 {{range .Headline}}<div>{{.}}</div>{{end}}</header>
 <section><h2>Producers</h2>
@@ -156,3 +158,4 @@ var calibrationTemplate = template.Must(template.New("calibration").Parse(`` + p
 <section><h2>Method</h2>{{range .Method}}<p>{{.}}</p>{{end}}</section>
 </main></body></html>
 `))
+})

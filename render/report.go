@@ -2,6 +2,7 @@ package render
 
 import (
 	"floodtrace/runfolder"
+	"sync"
 
 	"bytes"
 	"encoding/base64"
@@ -282,7 +283,7 @@ func (r *run) report() error {
 		d.Animation = &imgFig{"Water saturation over the run; each frame gives its day and pore volumes injected.", src, "saturation animation"}
 	}
 	var b bytes.Buffer
-	if err := reportTemplate.Execute(&b, d); err != nil {
+	if err := reportTemplate().Execute(&b, d); err != nil {
 		return fmt.Errorf("render: report.html: %w", err)
 	}
 	if err := writeFileAtomic(filepath.Join(r.dir, runfolder.ReportFile), b.Bytes()); err != nil {
@@ -299,7 +300,8 @@ func nonEmpty(s, def string) string {
 	return s
 }
 
-var reportTemplate = template.Must(template.New("report").Parse(`<!DOCTYPE html>
+var reportTemplate = sync.OnceValue(func() *template.Template {
+	return template.Must(template.New("report").Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
@@ -456,6 +458,7 @@ curves and the well controls entered; check their sensitivity before drawing con
 </body>
 </html>
 `))
+})
 
 // dateSuffix returns " (YYYY-MM-DD)", the date of a day (date when
 // given, else the day's date from start_date), or "" without start_date.
