@@ -6,6 +6,7 @@ import (
 	"image"
 	"image/color"
 	"image/png"
+	"runtime"
 	"testing"
 )
 
@@ -91,6 +92,33 @@ func TestAdler32Combine(t *testing.T) {
 			if want := adler32.Checksum(append(a, b...)); got != want {
 				t.Errorf("%d+%d bytes of %#x: combined %#08x, want %#08x", tc.na, tc.nb, fill, got, want)
 			}
+		}
+	}
+}
+
+// TestEncodeRGBACoreCount: the strips are fixed by the picture's height,
+// so the bytes of a PNG are the same on 1, 2 and 8 cores.
+func TestEncodeRGBACoreCount(t *testing.T) {
+	m := image.NewRGBA(image.Rect(0, 0, 97, 5*stripRows+11))
+	for i := range m.Pix {
+		m.Pix[i] = uint8(i * 7 / 13)
+	}
+	for i := 3; i < len(m.Pix); i += 4 {
+		m.Pix[i] = 255
+	}
+	prev := runtime.GOMAXPROCS(0)
+	defer runtime.GOMAXPROCS(prev)
+	var ref []byte
+	for _, procs := range []int{1, 2, 8} {
+		runtime.GOMAXPROCS(procs)
+		var b bytes.Buffer
+		if err := writePNG(&b, m); err != nil {
+			t.Fatal(err)
+		}
+		if ref == nil {
+			ref = b.Bytes()
+		} else if !bytes.Equal(b.Bytes(), ref) {
+			t.Errorf("GOMAXPROCS=%d: %d bytes differ from the 1-core encoding (%d bytes)", procs, b.Len(), len(ref))
 		}
 	}
 }
