@@ -648,42 +648,13 @@ func (o *StencilOperator) mulRows(dst, x []float64, lo, hi int) {
 		u0 := j * nx
 		if j == 0 || j == ny-1 || nx < 3 {
 			for i := 0; i < nx; i++ {
-				u := u0 + i
-				p := o.pad + u
-				v := 0.0
-				if j > 0 {
-					v += o.s[p] * x[u-nx]
-				}
-				if i > 0 {
-					v += o.w[p] * x[u-1]
-				}
-				v += o.d[p] * x[u]
-				if i+1 < nx {
-					v += o.w[p+1] * x[u+1]
-				}
-				if j+1 < ny {
-					v += o.s[p+nx] * x[u+nx]
-				}
-				dst[u] = v
+				dst[u0+i] = o.mulPoint(x, i, j)
 			}
 			continue
 		}
 		// An interior row: the edge points, then the rest without tests.
-		for _, i := range [2]int{0, nx - 1} {
-			u := u0 + i
-			p := o.pad + u
-			v := 0.0
-			v += o.s[p] * x[u-nx]
-			if i > 0 {
-				v += o.w[p] * x[u-1]
-			}
-			v += o.d[p] * x[u]
-			if i+1 < nx {
-				v += o.w[p+1] * x[u+1]
-			}
-			v += o.s[p+nx] * x[u+nx]
-			dst[u] = v
-		}
+		dst[u0] = o.mulPoint(x, 0, j)
+		dst[u0+nx-1] = o.mulPoint(x, nx-1, j)
 		p0 := o.pad + u0
 		d, w, s := o.d[p0:p0+nx], o.w[p0:p0+nx+1], o.s[p0:p0+2*nx]
 		xs, xc, xn := x[u0-nx:u0], x[u0:u0+nx], x[u0+nx:u0+2*nx]
@@ -698,6 +669,29 @@ func (o *StencilOperator) mulRows(dst, x []float64, lo, hi int) {
 			out[i] = v
 		}
 	}
+}
+
+// mulPoint returns row (i, j) of the operator times x, testing for the
+// grid's edges (the rows mulRows does not take in its plain loop).
+func (o *StencilOperator) mulPoint(x []float64, i, j int) float64 {
+	nx, ny := o.nx, o.ny
+	u := j*nx + i
+	p := o.pad + u
+	v := 0.0
+	if j > 0 {
+		v += o.s[p] * x[u-nx]
+	}
+	if i > 0 {
+		v += o.w[p] * x[u-1]
+	}
+	v += o.d[p] * x[u]
+	if i+1 < nx {
+		v += o.w[p+1] * x[u+1]
+	}
+	if j+1 < ny {
+		v += o.s[p+nx] * x[u+nx]
+	}
+	return v
 }
 
 // Apply sets dst = M^-1 r for one V-cycle M^-1 started from zero. dst and
