@@ -238,14 +238,7 @@ func TestDippingFiveSpot(t *testing.T) {
 	for _, slope := range []float64{0.15, -0.15} {
 		m := dippingQuarterFiveSpot(t, 21, slope)
 		ng := m.GravityNumber()
-		grid, err := RunGrid(m, Settings{Frames: -1}, GridOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		sl, err := Run(m, Settings{Frames: -1})
-		if err != nil {
-			t.Fatal(err)
-		}
+		grid, sl := gridAndStreamlines(t, m)
 		rms := waterCutRMS(t, sl, grid)
 		t.Logf("slope %g (gravity number %.3f): breakthrough grid %.0f days, streamlines %.0f days; water-cut RMS %.4f; mass balance grid %.2g, streamlines %.2g",
 			slope, ng, grid.Producers[0].Breakthrough, sl.Producers[0].Breakthrough, rms, grid.MassBalanceError, sl.MassBalanceError)
@@ -417,14 +410,7 @@ func TestGravityStepEquilibrium(t *testing.T) {
 func TestGravityUpdatesBetweenEvents(t *testing.T) {
 	m := dippingQuarterFiveSpot(t, 21, -0.15)
 	m.Schedule = []reservoir.Event{{Time: 0.33 * m.Run.End, Well: "I-1", Rate: 30, BHP: nan()}}
-	grid, err := RunGrid(m, Settings{Frames: -1}, GridOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	sl, err := Run(m, Settings{Frames: -1})
-	if err != nil {
-		t.Fatal(err)
-	}
+	grid, sl := gridAndStreamlines(t, m)
 	if sl.Solves != GravityUpdates+1 {
 		t.Errorf("%d pressure solves, want %d (the evenly spaced ones and the event's)", sl.Solves, GravityUpdates+1)
 	}

@@ -111,14 +111,7 @@ func TestUpdatesMatchGrid(t *testing.T) {
 	if mr := (0.4 / 0.5) / (0.9 / 5); !(mr > 3) {
 		t.Fatalf("mobility ratio %g", mr)
 	}
-	grid, err := RunGrid(m, Settings{Frames: -1}, GridOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	fixed, err := Run(m, Settings{Frames: -1})
-	if err != nil {
-		t.Fatal(err)
-	}
+	grid, fixed := gridAndStreamlines(t, m)
 	m.Run.PressureUpdates = 15
 	upd, err := Run(m, Settings{Frames: -1})
 	if err != nil {

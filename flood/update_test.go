@@ -187,6 +187,20 @@ func checkMassBalance(t *testing.T, what string, got, tol float64) {
 	}
 }
 
+// gridAndStreamlines runs m on the grid engine and on the streamline
+// engine its settings choose, without frames.
+func gridAndStreamlines(t testing.TB, m *reservoir.Model) (grid, sl *Result) {
+	t.Helper()
+	grid, err := RunGrid(m, Settings{Frames: -1}, GridOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sl, err = Run(m, Settings{Frames: -1}); err != nil {
+		t.Fatal(err)
+	}
+	return grid, sl
+}
+
 // waterCutRMS is the RMS difference of the producers' water cuts of two
 // runs with the same report times.
 func waterCutRMS(t testing.TB, a, b *Result) float64 {
