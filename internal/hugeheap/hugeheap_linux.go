@@ -12,9 +12,6 @@ import (
 // to a multiple of it.
 const hugePage = 2 << 20
 
-// madvHugePage is MADV_HUGEPAGE of <linux/mman.h>.
-const madvHugePage = 14
-
 func reserve(n int) {
 	b := make([]byte, n) // fresh from the system: not touched
 	p := uintptr(unsafe.Pointer(unsafe.SliceData(b)))
@@ -22,10 +19,9 @@ func reserve(n int) {
 	hi := (p + uintptr(n)) &^ (hugePage - 1)
 	if hi > lo {
 		// A refusal (no THP support) only leaves the pages small.
-		_ = syscall.Madvise(b[lo-p:hi-p], madvHugePage)
+		_ = syscall.Madvise(b[lo-p:hi-p], syscall.MADV_HUGEPAGE)
 	}
 	runtime.KeepAlive(b)
-	b = nil
 	// Free the block now, so that the heap's goal is set by what the
 	// command keeps, not by the block, and hand its pages back to the
 	// system in a few large calls (the runtime's background scavenger
