@@ -122,38 +122,43 @@ func (b *builder) assignFluxes() []string {
 	// scale the lines of each producer to its rate and the lines of each
 	// injector face to its launch flux, ending on the producers.
 	// The passes run over compact copies of each line's producer, group
-	// and flux (the Line structs are large), in line order as before.
+	// and flux (the Line structs are large), in line order. Each pass
+	// scales the lines by one set of totals and sums them into the other:
+	// a line's new flux depends only on the totals of the pass before, so
+	// this is the alternation written as two loops per iteration instead of
+	// four, with the same sums in the same order. A line without producer
+	// or injector face points at a last slot whose factor stays 1 (x*1 is
+	// x) and whose sum is never read.
 	np := len(t.q)
-	sumP := make([]float64, np)
-	sumI := make([]float64, len(injTarget))
+	sumP := make([]float64, np+1)
+	facP := make([]float64, np+1)
+	sumI := make([]float64, len(injTarget)+1)
+	facI := make([]float64, len(injTarget)+1)
+	facP[np], facI[len(injTarget)] = 1, 1
 	prod := make([]int32, len(lines))
+	group := make([]int32, len(lines))
 	flux := make([]float64, len(lines))
 	for i := range lines {
-		prod[i], flux[i] = int32(lines[i].Producer), lines[i].Flux
-	}
-	scaleProducers := func() {
-		clear(sumP)
-		for i, p := range prod {
-			if p >= 0 {
-				sumP[p] += flux[i]
-			}
+		prod[i], group[i], flux[i] = int32(np), int32(len(injTarget)), lines[i].Flux
+		if p := lines[i].Producer; p >= 0 {
+			prod[i] = int32(p)
 		}
-		for i, p := range prod {
-			if p >= 0 && sumP[p] > 0 {
-				flux[i] *= -t.q[p] / sumP[p]
-			}
+		if g := injGroup[i]; g >= 0 {
+			group[i] = int32(g)
 		}
+		sumP[prod[i]] += flux[i]
 	}
 	for it := 0; ; it++ {
-		scaleProducers()
-		clear(sumI)
-		for i, g := range injGroup {
-			if g >= 0 {
-				sumI[g] += flux[i]
+		for p := range np {
+			facP[p] = 1
+			if sumP[p] > 0 {
+				facP[p] = -t.q[p] / sumP[p]
 			}
 		}
+		clear(sumI)
+		sumOver(sumI, group, flux, facP, prod)
 		dev := 0.0
-		for g, v := range sumI {
+		for g, v := range sumI[:len(injTarget)] {
 			if injTarget[g] > 0 && v > 0 {
 				dev = math.Max(dev, math.Abs(v/injTarget[g]-1))
 			}
@@ -171,19 +176,45 @@ func (b *builder) assignFluxes() []string {
 			}
 			break
 		}
-		for i, g := range injGroup {
-			if g >= 0 && sumI[g] > 0 {
-				flux[i] *= injTarget[g] / sumI[g]
+		for g, v := range sumI[:len(injTarget)] {
+			facI[g] = 1
+			if v > 0 {
+				facI[g] = injTarget[g] / v
 			}
 		}
+		clear(sumP)
+		sumOver(sumP, prod, flux, facI, group)
 	}
 	for i := range lines {
 		lines[i].Flux = flux[i]
 	}
-	for p, v := range sumP {
+	for p, v := range sumP[:np] {
 		if t.q[p] < 0 && !(v > 0) {
 			warn = append(warn, fmt.Sprintf("no streamline with flux reaches producer %q", b.f.Wells[p].Name))
 		}
 	}
 	return warn
+}
+
+// sumOver scales each flux[i] by fac[by[i]] and adds it to sum[into[i]],
+// in line order. The running sum of a slot is kept in a register while
+// consecutive lines add to the same slot (the lines of one face follow one
+// another), which is the same additions in the same order as adding to
+// the slot in memory each time, without waiting for each store to be
+// read back.
+func sumOver(sum []float64, into []int32, flux, fac []float64, by []int32) {
+	if len(into) == 0 {
+		return
+	}
+	cur := into[0]
+	acc := sum[cur]
+	for i, g := range into {
+		if g != cur {
+			sum[cur] = acc
+			cur, acc = g, sum[g]
+		}
+		flux[i] *= fac[by[i]]
+		acc += flux[i]
+	}
+	sum[cur] = acc
 }
