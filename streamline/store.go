@@ -100,7 +100,15 @@ func (b *builder) trace(seeds []seed) {
 func (b *builder) traceBlock(seeds []seed) []traced {
 	b.flush() // the block buffers are about to be reused
 	for w := range b.work {
-		b.work[w].cells, b.work[w].taus = b.work[w].cells[:0], b.work[w].taus[:0]
+		wk := &b.work[w]
+		if wk.cells == nil {
+			// Room for half a block's segments from the start: grown from
+			// nothing by append, the buffers were copied and cleared many
+			// times over (a sixth of a 100x100 trace).
+			n := blockSegments / 2 / len(b.work)
+			wk.cells, wk.taus = make([]int32, 0, n), make([]float64, 0, n)
+		}
+		wk.cells, wk.taus = wk.cells[:0], wk.taus[:0]
 	}
 	if cap(b.out) < len(seeds) {
 		b.out = make([]traced, len(seeds))
