@@ -64,7 +64,7 @@ if ! command -v mpicc >/dev/null; then
 	echo "hypre_bench.sh: mpicc not found (apt-get install libhypre-dev)" >&2
 	exit 1
 fi
-(cd "$root" && go build -o "$work/floodtrace" ./cmd/floodtrace && go build -o "$work/dump" ./scripts/hypre/dump)
+(cd "$root" && CGO_ENABLED=0 go build -o "$work/floodtrace" ./cmd/floodtrace && go build -o "$work/dump" ./scripts/hypre/dump)
 # shellcheck disable=SC2086
 mpicc -O2 $inc -o "$work/hypre_tpfa" "$root/scripts/hypre/hypre_tpfa.c" -lHYPRE -lm
 # Open MPI refuses root without these; harmless otherwise.
