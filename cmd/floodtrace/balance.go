@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"floodtrace/balance"
+	"floodtrace/internal/hugeheap"
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
 )
@@ -113,6 +114,7 @@ func runBalance(args []string) error {
 	if err != nil {
 		return err
 	}
+	hugeheap.ForCase(m.Grid.N())
 	if m.History != nil && f.fromStart {
 		logf("--from-start: the case's history (%s) is not used; balance forecasts from day 0 on the case's controls", m.History.File)
 		m.History = nil

@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"floodtrace/calibrate"
+	"floodtrace/internal/hugeheap"
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
 	"floodtrace/screen"
@@ -131,6 +132,7 @@ func runCalibrate(args []string) error {
 	if err != nil {
 		return err
 	}
+	hugeheap.ForCase(m.Grid.N())
 	res, err := calibrate.Calibrate(m, calibrate.Options{Iterations: f.iterations, Workers: f.workers, Streamlines: f.streamlines, Log: logf})
 	if err != nil {
 		return err

@@ -15,6 +15,7 @@ import (
 
 	"floodtrace/balance"
 	"floodtrace/calibrate"
+	"floodtrace/internal/hugeheap"
 	"floodtrace/internal/outdir"
 	"floodtrace/reservoir"
 	"floodtrace/runfolder"
@@ -55,6 +56,7 @@ func runCalibrateEnsemble(specPath string, k, n, w, h int, logf func(string, ...
 	if err != nil {
 		return err
 	}
+	hugeheap.ForCase(base.Grid.N())
 	folders, err := realizationFolders(specPath, spec.Realizations)
 	if err != nil {
 		return err

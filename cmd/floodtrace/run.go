@@ -153,7 +153,7 @@ func runRun(args []string) error {
 		return err
 	}
 	logf("case %s: %d x %d cells, %d wells", args[0], m.Grid.NX, m.Grid.NY, len(m.Wells))
-	hugeheap.Reserve(64<<20 + hugeheap.PerCell*m.Grid.N())
+	hugeheap.ForCase(m.Grid.N())
 	if runFlags.updates > 0 {
 		m.Run.PressureUpdates, m.Run.UpdateTimes = runFlags.updates, nil
 	}

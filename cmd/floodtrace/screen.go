@@ -16,6 +16,7 @@ import (
 	"github.com/spf13/pflag"
 	"golang.org/x/term"
 
+	"floodtrace/internal/hugeheap"
 	"floodtrace/internal/outdir"
 	"floodtrace/screen"
 )
@@ -183,6 +184,7 @@ func runScreen(args []string) error {
 	if workers == 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
+	hugeheap.ForCase(spec.Base.Grid.N() * min(workers, runtime.GOMAXPROCS(0))) // the runs in flight at once
 	var bar *progressbar.ProgressBar
 	settings := screen.Settings{Workers: workers, Shard: k, Shards: n}
 	if !f.quiet && stderr == os.Stderr && isTerminal(os.Stderr) {

@@ -16,5 +16,7 @@
 // unchanged within 1%.
 //
 // On other systems, or with FLOODTRACE_HUGEPAGES=off in the environment,
-// Reserve does nothing. Results do not depend on it.
+// Reserve does nothing. ForCase reserves for a case and, for a small one,
+// lets the heap grow further between collections (GOGC in the
+// environment overrides it). Results do not depend on either.
 package hugeheap
