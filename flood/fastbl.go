@@ -121,6 +121,17 @@ func (b *blTable) outletFw(tau, t float64) float64 {
 	return fw
 }
 
+// outlet returns outletFw(tau, t) and cumSat(tau, t) together, with one
+// evaluation of the similarity solution where both need it: the same
+// values, bit for bit.
+func (b *blTable) outlet(tau, t float64) (fw, cum float64) {
+	if t > 0 && tau > 0 {
+		s, fw := b.eval(tau / t)
+		return fw, tau*s + t*(b.fInj-fw)
+	}
+	return b.outletFw(tau, t), b.cumSat(tau, t)
+}
+
 // breakthrough returns the arrival time of the leading front at tau.
 func (b *blTable) breakthrough(tau float64) float64 {
 	if !(b.front > 0) {

@@ -282,8 +282,8 @@ func (r *Result) fixedTransport(m *reservoir.Model, sol *pressure.Solution, ls *
 			}
 			pi := prodOf[p]
 			q, T := ls.q[i], ls.total[i]
-			wcSum[pi] += q * rs.outletFw(T, t)
-			cs := rs.cumSat(T, t)
+			fw, cs := rs.outlet(T, t)
+			wcSum[pi] += q * fw
 			wSum[pi] += q * (cs - T*swi)
 			vSum[pi] += q * cs
 		}

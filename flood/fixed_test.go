@@ -307,3 +307,21 @@ func mustLineSet(tb testing.TB, tr *streamline.Result, pv []float64) *lineSet {
 	}
 	return ls
 }
+
+// TestBLOutlet: outlet gives outletFw and cumSat together, bit for bit,
+// at the ends (no time, no time of flight) and inside, behind and ahead
+// of the front.
+func TestBLOutlet(t *testing.T) {
+	m := reservoir.NewUniform(10, 10, 10, 10, 100, 0.2, 10)
+	m.RelPerm = reservoir.Corey{Swc: 0.2, Sor: 0.2, KrwMax: 0.5, KroMax: 1, Nw: 2, No: 2}
+	m.Fluids = reservoir.Fluids{WaterViscosity: 0.5, OilViscosity: 5, InitialSw: 0.2}
+	rs := blForModel(t, m)
+	for _, tau := range []float64{0, 1e-9, 0.3, 1, 7.5, 1e6, -1} {
+		for _, tm := range []float64{0, 1e-9, 0.5, 1, 3, 40, 1e7} {
+			fw, cum := rs.outlet(tau, tm)
+			if wfw, wcum := rs.outletFw(tau, tm), rs.cumSat(tau, tm); math.Float64bits(fw) != math.Float64bits(wfw) || math.Float64bits(cum) != math.Float64bits(wcum) {
+				t.Errorf("outlet(%g, %g) = %v, %v; want %v, %v", tau, tm, fw, cum, wfw, wcum)
+			}
+		}
+	}
+}
