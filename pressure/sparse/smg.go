@@ -548,7 +548,7 @@ func (l *smgLevel) stencil() [9][]float64 {
 
 // smgWorkers runs small levels on the caller's goroutine.
 func smgWorkers(l *smgLevel) int {
-	if l.nx*l.ny < 1<<14 {
+	if l.nx*l.ny < 1<<15 {
 		return 1
 	}
 	return procs()
