@@ -4,6 +4,7 @@ import (
 	"math"
 	"os"
 	"strconv"
+	"strings"
 	"sync"
 	"testing"
 	"time"
@@ -61,6 +62,7 @@ var updatesRef struct {
 	once    sync.Once
 	grid    *Result
 	elapsed time.Duration
+	steps   int // saturation steps of the grid run, from its log line
 	err     error
 }
 
@@ -79,8 +81,13 @@ func BenchmarkUpdates200x150(b *testing.B) {
 	m := updatesCase200x150(b)
 	reference := func(b *testing.B) (*Result, time.Duration) {
 		updatesRef.once.Do(func() {
+			logf := func(format string, args ...any) {
+				if strings.HasPrefix(format, "grid engine: %d saturation steps") && len(args) > 0 {
+					updatesRef.steps, _ = args[0].(int)
+				}
+			}
 			t0 := time.Now()
-			updatesRef.grid, updatesRef.err = RunGrid(m, Settings{Frames: -1}, GridOptions{})
+			updatesRef.grid, updatesRef.err = RunGrid(m, Settings{Frames: -1, Log: logf}, GridOptions{})
 			updatesRef.elapsed = time.Since(t0)
 		})
 		if updatesRef.err != nil {
@@ -94,6 +101,13 @@ func BenchmarkUpdates200x150(b *testing.B) {
 		}
 		b.ReportMetric(el.Seconds(), "s-grid")
 		b.ReportMetric(float64(g.Solves), "solves")
+		if updatesRef.steps == 0 {
+			b.Fatal("grid engine: no saturation step count in its log")
+		}
+		// The grid engine's cost per cell and saturation step (its
+		// pressure solves included), recorded in docs/ENGINES.md.
+		b.ReportMetric(float64(updatesRef.steps), "sat-steps")
+		b.ReportMetric(el.Seconds()*1e9/(float64(updatesRef.steps)*float64(m.Grid.N())), "ns/cell-step")
 	})
 	// The case's 2000 streamlines with 5 to 40 updates, then 10 and 20
 	// updates with 1000 streamlines (run.streamlines: the fill lines still
