@@ -104,8 +104,12 @@ func NewFlux(c Curve) (*Flux, error) {
 // interval holding a kink of the curve at an end point of the mobile range;
 // the clamp is here, once, so that the transport of Advance and every
 // caller's bookkeeping see the same value and water is conserved.
-func (fl *Flux) Fw(s float64) float64 {
-	v := fl.cubic(s)
+func (fl *Flux) Fw(s float64) float64 { return clampFw(fl.cubic(s)) }
+
+// clampFw is Fw's clamp to [0, 1], apart so that the transport sweeps can
+// inline Fw as clampFw(fl.cubic(s)) (Fw itself is over the inliner's
+// budget).
+func clampFw(v float64) float64 {
 	if v < 0 {
 		return 0
 	}

@@ -117,15 +117,7 @@ func (w *Workspace) upwindHistory(s []float64, fin []float64, fl *Flux, hist []f
 	for k := range hist {
 		last := s[n-1]
 		lo, hi = min(lo, last), max(hi, last)
-		// fl.Fw(last) written out, so that it is inlined (Fw with its
-		// cubic is over the inliner's budget): about 1% of
-		// BenchmarkAdvance/upwind-local.
-		fr := fl.cubic(last)
-		if fr < 0 {
-			fr = 0
-		} else if fr > 1 {
-			fr = 1
-		}
+		fr := clampFw(fl.cubic(last)) // fl.Fw(last), inlined
 		hist[k] = fr
 		// fl.Fw(s[i-1]) with its table part inlined, as in upwind; the
 		// loop without the clamp is written apart, for the compiler to
